@@ -1,0 +1,38 @@
+/** Database commands: `tsx db/cli.ts migrate|seed|setup|reset|check`. */
+import { rmSync } from "node:fs";
+import { databasePath, sequelize } from "./index.server.ts";
+import { migrateUp } from "./migrate.ts";
+import { setupDatabase } from "./setup.ts";
+import { checkLibrary } from "./check.ts";
+import { Make } from "./models/index.ts";
+import { seedDemo } from "./seeders/demo.ts";
+
+const command = process.argv[2];
+try {
+  if (command === "migrate") {
+    const done = await migrateUp();
+    console.log(done.length ? `applied ${done.map((m) => m.name).join(", ")}` : "schema up to date");
+  } else if (command === "seed") {
+    await migrateUp();
+    if ((await Make.count()) > 0) console.log("library not empty: seed skipped (npm run db:reset starts over)");
+    else { await seedDemo(); console.log("demo library seeded"); }
+  } else if (command === "setup") {
+    const seeded = await setupDatabase();
+    console.log(`database ready at ${databasePath()}${seeded ? " (demo library seeded)" : ""}`);
+  } else if (command === "reset") {
+    await sequelize.close();
+    for (const suffix of ["", "-wal", "-shm"]) rmSync(databasePath() + suffix, { force: true });
+    console.log(`removed ${databasePath()}; run npm run db:seed or npm start to rebuild it`);
+  } else if (command === "check") {
+    await migrateUp();
+    const problems = await checkLibrary();
+    for (const p of problems) console.error(`✗ ${p}`);
+    console.log(problems.length ? `${problems.length} problem(s) in the library` : "library consistent: wires, cavities, colours and circuits check out");
+    process.exitCode = problems.length ? 1 : 0;
+  } else {
+    console.error("usage: tsx db/cli.ts migrate|seed|setup|reset|check");
+    process.exitCode = 2;
+  }
+} finally {
+  await sequelize.close().catch(() => {});
+}
