@@ -1,3 +1,4 @@
+import type { QueryInterface } from "sequelize";
 import { Umzug, SequelizeStorage } from "umzug";
 import { sequelize } from "./index.server.ts";
 import { migrations } from "./migrations/index.ts";
@@ -17,11 +18,11 @@ async function inTransaction(work: () => Promise<void>) {
 
 /** The migrator: dated migrations, each in its own transaction, recorded in SequelizeMeta. */
 export function migrator() {
-  return new Umzug({
+  return new Umzug<QueryInterface>({
     migrations: migrations.map((m) => ({
       name: m.name,
-      up: ({ context }) => inTransaction(() => m.up({ context })),
-      down: ({ context }) => inTransaction(() => m.down({ context })),
+      up: ({ context }: { context: QueryInterface }) => inTransaction(() => m.up({ context })),
+      down: ({ context }: { context: QueryInterface }) => inTransaction(() => m.down({ context })),
     })),
     context: sequelize.getQueryInterface(),
     storage: new SequelizeStorage({ sequelize }),

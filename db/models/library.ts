@@ -1,5 +1,5 @@
 import {
-  DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes,
+  DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute,
 } from "sequelize";
 import { sequelize } from "../index.server.ts";
 
@@ -52,6 +52,7 @@ export class Family extends Model<InferAttributes<Family>, InferCreationAttribut
   declare ignition: string;
   declare colourSystem: string;
   declare blurb: string;
+  declare make?: NonAttribute<Make>;
 }
 Family.init(
   {

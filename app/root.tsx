@@ -1,0 +1,82 @@
+import { isRouteErrorResponse, Link, Links, Meta, NavLink, Outlet, Scripts, ScrollRestoration } from "react-router";
+import type { Route } from "./+types/root";
+import "@fontsource/source-sans-3/400.css";
+import "@fontsource/source-sans-3/600.css";
+import "@fontsource/source-sans-3/700.css";
+import "./app.css";
+
+export const links: Route.LinksFunction = () => [{ rel: "icon", href: "/favicon.svg", type: "image/svg+xml" }];
+
+const nav = [
+  { to: "/", label: "Library", end: true },
+  { to: "/colours", label: "Colour codes", end: false },
+];
+
+/** The page frame: header with the wordmark and the main sections, content, footer. */
+export function Layout({ children }: { children: React.ReactNode }) {
+  return (
+    <html lang="en">
+      <head>
+        <meta charSet="utf-8" />
+        <meta name="viewport" content="width=device-width, initial-scale=1" />
+        <Meta />
+        <Links />
+      </head>
+      <body className="min-h-screen font-sans antialiased">
+        <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:bg-white focus:p-2">Skip to content</a>
+        <header className="no-print border-b-4 border-ink bg-ink text-paper">
+          <div className="mx-auto flex max-w-6xl flex-wrap items-center gap-x-6 gap-y-2 px-4 py-3">
+            <Link to="/" className="flex items-center gap-2 text-xl font-bold tracking-tight text-paper no-underline">
+              <svg aria-hidden="true" width="26" height="26" viewBox="0 0 26 26"><rect x="2" y="6" width="22" height="14" rx="3" fill="none" stroke="currentColor" strokeWidth="2.5" /><circle cx="9" cy="13" r="2.6" fill="#e0a43a" /><circle cx="17" cy="13" r="2.6" fill="#5aa6d6" /></svg>
+              Loomlore
+            </Link>
+            <nav aria-label="Main" className="flex gap-4 text-base">
+              {nav.map((n) => (
+                <NavLink key={n.to} to={n.to} end={n.end} className={({ isActive }) => `no-underline hover:underline ${isActive ? "font-semibold text-white underline decoration-2" : "text-paper/85"}`}>
+                  {n.label}
+                </NavLink>
+              ))}
+            </nav>
+          </div>
+        </header>
+        <main id="main" className="mx-auto max-w-6xl px-4 py-6">{children}</main>
+        <footer className="no-print mx-auto max-w-6xl border-t border-rule px-4 py-6 text-sm text-muted">
+          Loomlore is a community library. Check every card against your own bike and the factory service manual; when in doubt, ask a qualified mechanic.
+          All makes and families shown in this demo are invented.
+        </footer>
+        <ScrollRestoration />
+        <Scripts />
+      </body>
+    </html>
+  );
+}
+
+export default function App() {
+  return <Outlet />;
+}
+
+/** One boundary for the unexpected: a real 404 page, and a plain apology with an id for anything else. */
+export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  if (isRouteErrorResponse(error) && error.status === 404) {
+    return (
+      <section className="max-w-2xl">
+        <title>Not found · Loomlore</title>
+        <h1 className="text-3xl font-bold">Nothing here</h1>
+        <p className="mt-3 text-lg">{typeof error.data === "string" && error.data ? error.data : "This page is not in the library."}</p>
+        <p className="mt-4"><Link to="/" className="font-semibold text-signal-dark">Back to the library</Link> or look up a code in the <Link to="/colours" className="font-semibold text-signal-dark">colour codes</Link>.</p>
+      </section>
+    );
+  }
+  const status = isRouteErrorResponse(error) ? error.status : 500;
+  if (!isRouteErrorResponse(error)) console.error(error);
+  return (
+    <section className="max-w-2xl">
+      <title>Something went wrong · Loomlore</title>
+      <h1 className="text-3xl font-bold">Something went wrong</h1>
+      <p className="mt-3 text-lg">
+        {status === 400 && isRouteErrorResponse(error) && typeof error.data === "string" ? error.data : "The page could not be shown. Try again in a moment; if it keeps happening, tell us what you were doing."}
+      </p>
+      <p className="mt-4"><Link to="/" className="font-semibold text-signal-dark">Back to the library</Link></p>
+    </section>
+  );
+}

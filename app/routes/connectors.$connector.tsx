@@ -1,0 +1,168 @@
+import { data, Link } from "react-router";
+import type { Route } from "./+types/connectors.$connector";
+import { Cautions, type CautionKind } from "~/components/cautions";
+import { ColourChip } from "~/components/colour-chip";
+import { FaceView } from "~/components/face-view";
+import { faceGeometry } from "~/domain/connector-face";
+import { getConnectorCard } from "~/services/library.server";
+import { renderNotes } from "~/services/markdown.server";
+
+export const meta: Route.MetaFunction = ({ loaderData }) => [
+  { title: loaderData ? `${loaderData.card.name} · ${loaderData.card.family.make.name} ${loaderData.card.family.name} · Loomlore` : "Not found · Loomlore" },
+];
+
+export async function loader({ params, request }: Route.LoaderArgs) {
+  const found = await getConnectorCard(params.connector);
+  if (!found) throw data(`There is no connector card “${params.connector}” in the library.`, { status: 404 });
+  const url = new URL(request.url);
+  const view = url.searchParams.get("view") === "wire" ? "wire" : "mating";
+  const cavity = url.searchParams.get("cavity");
+  const card = found.connector;
+  return {
+    card,
+    view,
+    highlight: card.pins.some((p) => p.cavity === cavity) ? cavity : null,
+    notesHtml: card.notes ? renderNotes(card.notes) : "",
+  } as const;
+}
+
+const LATCH_WORDS = { top: "latch at the top", bottom: "latch at the bottom", left: "latch on the left", right: "latch on the right" } as const;
+
+export default function ConnectorCardPage({ loaderData }: Route.ComponentProps) {
+  const { card, view, highlight, notesHtml } = loaderData;
+  const geometry = faceGeometry(card.layout, { view });
+  const cautions: CautionKind[] = card.system === "ignition" ? ["ignition", "battery"] : card.system === "starting" || card.system === "charging" ? ["battery", "fuel"] : ["battery"];
+  const here = `/connectors/${card.slug}`;
+  const viewLink = (v: "mating" | "wire") => `${here}${v === "wire" ? "?view=wire" : ""}${highlight ? `${v === "wire" ? "&" : "?"}cavity=${encodeURIComponent(highlight)}` : ""}`;
+  return (
+    <article className="space-y-5 print:space-y-3">
+      <nav aria-label="Breadcrumb" className="no-print text-sm">
+        <Link to="/" className="underline">Library</Link> › <Link to={`/makes/${card.family.make.slug}`} className="underline">{card.family.make.name}</Link> ›{" "}
+        <Link to={`/families/${card.family.slug}`} className="underline">{card.family.name}</Link> › {card.systemName}
+      </nav>
+      <header className="flex flex-wrap items-start justify-between gap-3">
+        <div>
+          <p className="text-sm font-semibold uppercase tracking-wide text-muted">{card.family.make.name} {card.family.name} · {card.family.yearFrom}–{card.family.yearTo} · {card.systemName}</p>
+          <h1 className="text-3xl font-bold print:text-2xl">{card.name}</h1>
+          <p className="mt-1">
+            {card.housing} · {card.gender} · {card.location}
+            {card.matesWith ? <> · mates with <Link to={`/connectors/${card.matesWith}`} className="font-semibold text-signal-dark">{card.mateName}</Link></> : null}
+          </p>
+        </div>
+        <div className="text-right text-sm">
+          <p className="font-semibold" data-testid="revision">Revision {card.revision.number}</p>
+          <p className="text-muted">published {card.revision.publishedAt.slice(0, 10)}</p>
+          <p className="text-muted">{card.bikeChecked} riders bike-checked</p>
+        </div>
+      </header>
+
+      <div className="grid gap-5 lg:grid-cols-[minmax(280px,420px)_1fr] print:grid-cols-[260px_1fr]">
+        <section aria-labelledby="face-heading" className="print-avoid-break">
+          <h2 id="face-heading" className="sr-only">Face view</h2>
+          <div role="group" aria-label="Which side you are looking at" className="no-print mb-2 inline-flex overflow-hidden rounded border-2 border-ink">
+            {(["mating", "wire"] as const).map((v) => (
+              <Link key={v} to={viewLink(v)} aria-current={view === v ? "true" : undefined} preventScrollReset
+                className={`px-3 py-1.5 font-semibold no-underline ${view === v ? "bg-ink text-paper" : "bg-white text-ink hover:bg-paper"}`}>
+                {v === "mating" ? "Mating face" : "Wire side"}
+              </Link>
+            ))}
+          </div>
+          <div className="rounded-md border border-rule bg-white p-2">
+            <FaceView geometry={geometry} paint={card.paint.map((p) => ({ ...p, href: `${viewLink(view).split("?")[0]}?${view === "wire" ? "view=wire&" : ""}cavity=${encodeURIComponent(p.cavity)}#pin-${p.cavity}` }))}
+              highlight={highlight} caption={`${view === "mating" ? "Mating face" : "Wire side"} of ${card.name}`} />
+          </div>
+          <p className="mt-2 text-sm" data-testid="view-caption">
+            {view === "mating"
+              ? "Seen from the mating face: looking into the cavities, as when the two halves are apart."
+              : "Seen from the wire side: where the wires enter the housing. This is the mirror image of the mating face."}{" "}
+            Pin 1 is marked ▲; {LATCH_WORDS[geometry.latch]}.
+          </p>
+        </section>
+
+        <section aria-labelledby="pins-heading" className="min-w-0">
+          <h2 id="pins-heading" className="text-xl font-bold">Pin map</h2>
+          <div className="overflow-x-auto">
+            <table className="mt-2 w-full border-collapse bg-white text-left text-[0.95rem] print:text-[9pt]">
+              <thead className="border-b-2 border-ink">
+                <tr>
+                  <th scope="col" className="p-1.5">Cavity</th>
+                  <th scope="col" className="p-1.5">Code as written</th>
+                  <th scope="col" className="p-1.5">Colour</th>
+                  <th scope="col" className="p-1.5">IEC 60757</th>
+                  <th scope="col" className="p-1.5">Circuit</th>
+                  <th scope="col" className="p-1.5" title="DIN 72552 terminal designation">Terminal</th>
+                  <th scope="col" className="p-1.5">Goes to</th>
+                </tr>
+              </thead>
+              <tbody>
+                {card.pins.map((p, i) => (
+                  <tr key={p.cavity} id={`pin-${p.cavity}`} data-cavity={p.cavity} aria-current={highlight === p.cavity ? "true" : undefined}
+                    className={`border-b border-rule align-top ${highlight === p.cavity ? "bg-caution outline-2 outline-caution-edge" : ""}`}>
+                    <th scope="row" className="p-1.5 font-bold">{p.cavity}{p.cavity === card.layout.pin1 ? " ▲" : ""}</th>
+                    <td className="p-1.5"><code className="font-semibold">{p.colour.code ?? "—"}</code></td>
+                    <td className="p-1.5"><ColourChip baseHex={card.paint[i]?.baseHex ?? null} tracerHexes={card.paint[i]?.tracerHexes ?? []} words={p.colour.description} /></td>
+                    <td className="p-1.5"><code>{p.colour.iec ?? "—"}</code></td>
+                    <td className="p-1.5">{p.circuit}</td>
+                    <td className="p-1.5">{p.terminal ?? "—"}</td>
+                    <td className="p-1.5">
+                      {p.destinations.length === 0 ? "—" : (
+                        <ul>
+                          {p.destinations.map((d, j) => (
+                            <li key={j}>{d.connector ? <Link to={`/connectors/${d.connector}?cavity=${encodeURIComponent(d.cavity!)}#pin-${d.cavity}`} className="text-signal-dark underline">{d.label}</Link> : d.label}</li>
+                          ))}
+                        </ul>
+                      )}
+                    </td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </div>
+          <p className="mt-1 text-xs text-muted">Codes in {card.colourSystem.toUpperCase()} notation, base colour first. The IEC 60757 column lists the colours in the standard&apos;s table order, not base first.</p>
+        </section>
+      </div>
+
+      {card.specs.length > 0 ? (
+        <section aria-labelledby="specs-heading" className="print-avoid-break">
+          <h2 id="specs-heading" className="text-xl font-bold">What it should read</h2>
+          <table className="mt-2 w-full max-w-4xl border-collapse bg-white text-left text-[0.95rem] print:text-[9pt]">
+            <thead className="border-b-2 border-ink"><tr><th className="p-1.5">Measurement</th><th className="p-1.5">Between cavities</th><th className="p-1.5">Range</th><th className="p-1.5">At</th><th className="p-1.5">Source</th></tr></thead>
+            <tbody>
+              {card.specs.map((s, i) => (
+                <tr key={i} className="border-b border-rule align-top">
+                  <td className="p-1.5">{s.name}</td><td className="p-1.5">{s.between[0]} – {s.between[1]}</td>
+                  <td className="p-1.5 whitespace-nowrap">{s.min}–{s.max} {s.unit}</td><td className="p-1.5">{s.atC} °C</td><td className="p-1.5 text-sm text-muted">{s.source}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+          <p className="mt-1 text-sm text-muted">Measure with the ignition off and the connector unplugged. A copper winding reads about 0.4 % higher per °C above 20 °C.</p>
+        </section>
+      ) : null}
+
+      {notesHtml ? (
+        <section aria-labelledby="notes-heading" className="print-avoid-break">
+          <h2 id="notes-heading" className="text-xl font-bold">Notes</h2>
+          <div className="prose max-w-3xl" dangerouslySetInnerHTML={{ __html: notesHtml }} />
+        </section>
+      ) : null}
+
+      <Cautions kinds={cautions} />
+
+      <footer className="no-print flex flex-wrap gap-3 text-sm">
+        <a href={`/api/v1/connectors/${card.slug}?format=csv`} className="rounded border border-ink bg-white px-3 py-1.5 font-semibold no-underline">Download CSV</a>
+        <a href={`/api/v1/connectors/${card.slug}`} className="rounded border border-ink bg-white px-3 py-1.5 font-semibold no-underline">JSON</a>
+        <PrintButton />
+      </footer>
+    </article>
+  );
+}
+
+/** Printing needs no JavaScript (the browser's own print works); the button is a convenience once hydrated. */
+function PrintButton() {
+  return (
+    <button type="button" onClick={() => window.print()} className="rounded border border-ink bg-white px-3 py-1.5 font-semibold">
+      Print this card
+    </button>
+  );
+}

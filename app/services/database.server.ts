@@ -1,0 +1,26 @@
+import { sequelize } from "~db/index.server.ts";
+import { setupDatabase } from "~db/setup.ts";
+
+let ready: Promise<void> | null = null;
+
+/** Make sure the schema is migrated (and, on an empty database, the demo seeded) before the first query. */
+export function ensureDatabase(): Promise<void> {
+  ready ??= (async () => {
+    await setupDatabase({ seed: process.env.SEED_DEMO !== "false" });
+  })().catch((e) => {
+    ready = null;
+    throw e;
+  });
+  return ready;
+}
+
+/** Whether the database answers (for the health route). */
+export async function databaseHealthy(): Promise<boolean> {
+  try {
+    await ensureDatabase();
+    await sequelize.query("SELECT 1");
+    return true;
+  } catch {
+    return false;
+  }
+}

@@ -1,0 +1,34 @@
+import { z } from "zod";
+import { COLOUR_SYSTEM_IDS } from "~/domain/colours";
+
+const slug = z.string().regex(/^[a-z0-9]+(?:-[a-z0-9]+)*$/, "must be a lowercase kebab-case slug");
+
+/** limit (default 20, max 100) and offset, as every list route takes them. */
+export const pageQuery = z.object({
+  limit: z.coerce.number().int().min(1).max(100).default(20),
+  offset: z.coerce.number().int().min(0).default(0),
+});
+
+export const familiesQuery = pageQuery.extend({
+  make: slug.optional(),
+  year: z.coerce.number().int().min(1900).max(2100).optional(),
+});
+
+export const faceQuery = z.object({
+  view: z.enum(["mating", "wire"]).default("mating"),
+  half: z.enum(["this", "mate"]).default("this"),
+});
+
+export const connectorQuery = z.object({ format: z.enum(["json", "csv"]).default("json") });
+
+export const decodeQuery = z.object({
+  code: z.string().trim().min(1, "give a colour code, e.g. W/R").max(60, "is too long for a colour code"),
+  system: z.enum(["auto", ...COLOUR_SYSTEM_IDS] as [string, ...string[]]).default("auto"),
+});
+
+/** Query-string parameters as a plain object, empty values dropped (a blank form field means "not given"). */
+export function searchParams(request: Request): Record<string, string> {
+  const out: Record<string, string> = {};
+  for (const [k, v] of new URL(request.url).searchParams) if (v !== "") out[k] = v;
+  return out;
+}
