@@ -1,16 +1,14 @@
-#!/usr/bin/env node
 // `npm start`: everything a newcomer needs on a fresh clone. Builds the app if there is no build, migrates the
 // database and seeds the demo library into an empty one, then serves on PORT (default 3000).
 import { spawn, spawnSync } from "node:child_process";
 import { existsSync } from "node:fs";
 import path from "node:path";
-import { fileURLToPath } from "node:url";
 
-const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..");
-const bin = (name) => path.join(root, "node_modules", ".bin", name);
+const root = path.resolve(import.meta.dirname, "..");
+const bin = (name: string) => path.join(root, "node_modules", ".bin", name);
 const env = { ...process.env, PORT: process.env.PORT ?? "3000", NODE_ENV: process.env.NODE_ENV ?? "production" };
 
-function step(label, cmd, args) {
+function step(label: string, cmd: string, args: string[]) {
   console.log(`[loomlore] ${label}`);
   const r = spawnSync(cmd, args, { cwd: root, env, stdio: "inherit" });
   if (r.status !== 0) {
@@ -26,5 +24,5 @@ step("migrating the database and seeding the demo library if it is empty", bin("
 
 console.log(`[loomlore] serving on http://localhost:${env.PORT}`);
 const server = spawn(bin("react-router-serve"), ["./build/server/index.js"], { cwd: root, env, stdio: "inherit" });
-for (const sig of ["SIGINT", "SIGTERM"]) process.on(sig, () => server.kill(sig));
+for (const sig of ["SIGINT", "SIGTERM"] as const) process.on(sig, () => server.kill(sig));
 server.on("exit", (code, signal) => process.exit(code ?? (signal ? 0 : 1)));

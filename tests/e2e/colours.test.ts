@@ -1,0 +1,65 @@
+// The colour-code translator in a real browser: once hydrated it decodes as the rider types,
+// through a fetcher on the JSON route, without the form being submitted.
+import { afterAll, afterEach, beforeAll, describe, expect, it } from "vitest";
+import type { Browser, BrowserContext, Page } from "playwright-core";
+import { startServer, type TestServer } from "../support/server";
+import { artifact, launchBrowser, newContext, requireChromium, skipBrowser, waitForHydration, watchErrors } from "./browser";
+
+describe.skipIf(skipBrowser)("colour codes page in Chromium", () => {
+  let server: TestServer;
+  let browser: Browser;
+  let context: BrowserContext;
+  let page: Page;
+  let errors: string[] = [];
+
+  beforeAll(async () => {
+    requireChromium();
+    server = await startServer();
+    browser = await launchBrowser();
+    context = await newContext(browser, server.url);
+  });
+
+  afterAll(async () => {
+    await context?.close();
+    await browser?.close();
+    await server?.stop();
+  });
+
+  afterEach(async () => {
+    await page?.close();
+    expect(errors).toEqual([]);
+  });
+
+  it("decodes ws/rt live as it is typed (no submit) and shows white with red", async () => {
+    page = await context.newPage();
+    errors = watchErrors(page);
+    const res = await page.goto("/colours");
+    expect(res?.status()).toBe(200);
+    await waitForHydration(page, "input[name=code]");
+    const result = page.getByTestId("decode-result");
+    await expect(result.innerText().then((t) => t.trim())).resolves.toBe("");
+
+    const decodeCall = page.waitForResponse((r) => {
+      const u = new URL(r.url());
+      return u.pathname.startsWith("/api/v1/colours/decode") && u.searchParams.get("code") === "ws/rt";
+    }, { timeout: 3_000 });
+    await page.getByRole("textbox", { name: "Code" }).pressSequentially("ws/rt", { delay: 20 });
+    const typedAt = Date.now();
+    // Within 2 s of the last key the panel names both colours.
+    await page.waitForFunction(() => {
+      const t = document.querySelector("[data-testid=decode-result]")?.textContent ?? "";
+      return /\bwhite\b/i.test(t) && /\bred\b/i.test(t);
+    }, null, { timeout: 2_000 });
+    expect(Date.now() - typedAt).toBeLessThan(2_000);
+    const call = await decodeCall;
+    expect(call.status()).toBe(200);
+    expect(new URL(call.url()).searchParams.get("code")).toBe("ws/rt");
+    const text = await result.innerText();
+    expect(text).toMatch(/\bwhite\b/i);
+    expect(text).toMatch(/\bred\b/i);
+    expect(text).toMatch(/IEC 60757:\s*\S+/);
+    // Nothing was submitted: still the bare page address, no full navigation.
+    expect(new URL(page.url()).search).toBe("");
+    await page.screenshot({ path: artifact("colours.png"), fullPage: true });
+  });
+});
