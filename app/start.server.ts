@@ -22,7 +22,6 @@ if (!existsSync(path.join(root, "build/server/index.js")) || process.env.REBUILD
 }
 step("migrating the database and seeding the demo library if it is empty", bin("tsx"), ["db/cli.ts", "setup"]);
 
-console.log(`[loomlore] serving on http://localhost:${env.PORT}`);
-const server = spawn(bin("react-router-serve"), ["./build/server/index.js"], { cwd: root, env, stdio: "inherit" });
+const server = spawn(process.execPath, ["--import", "tsx", "app/serve.server.ts"], { cwd: root, env, stdio: "inherit" });
 for (const sig of ["SIGINT", "SIGTERM"] as const) process.on(sig, () => server.kill(sig));
 server.on("exit", (code, signal) => process.exit(code ?? (signal ? 0 : 1)));

@@ -110,10 +110,12 @@ export function FaceView(props: {
   const p = g.pitch;
   const w = g.width;
   const h = g.height;
-  // Room outside the housing for the latch tab and its word; the same on every side so the
-  // drawing's centre stays the housing's centre whichever side the latch is on.
-  const pad = (full ? 0.95 : 0.55) * p;
-  const vb = [-w / 2 - pad, -h / 2 - pad, w + 2 * pad, h + 2 * pad];
+  // Room outside the housing for the latch tab and its word on the latch side only; coordinates keep
+  // their origin at the housing's centre, the viewBox just frames what is drawn (no empty band).
+  const tab = (full ? 0.95 : 0.55) * p;
+  const edge = 0.15 * p;
+  const [left, right, top, bottom] = [g.latch === "left" ? tab : edge, g.latch === "right" ? tab : edge, g.latch === "top" ? tab : edge, g.latch === "bottom" ? tab : edge];
+  const vb = [-w / 2 - left, -h / 2 - top, w + left + right, h + top + bottom];
 
   const caption =
     props.caption ??
@@ -228,9 +230,10 @@ export function FaceView(props: {
               strokeDasharray={empty ? `${fmt(0.08 * p)} ${fmt(0.06 * p)}` : undefined}
             />
             {isPin1 ? (
-              // A solid corner triangle pointing at the cavity: pin 1 found by shape, not by colour.
+              // A solid triangle centred over the cavity, pointing down at it: pin 1 found by shape, not by
+              // colour, and never read as belonging to a neighbour when the face is mirrored.
               <path
-                d={`M ${fmt(-s / 2 - 0.2 * p)} ${fmt(-s / 2 - 0.2 * p)} h ${fmt(0.2 * p)} l ${fmt(-0.2 * p)} ${fmt(0.2 * p)} z`}
+                d={`M ${fmt(-0.16 * p)} ${fmt(-s / 2 - 0.24 * p)} h ${fmt(0.32 * p)} l ${fmt(-0.16 * p)} ${fmt(0.19 * p)} z`}
                 fill={LINE}
                 data-pin1="true"
               />

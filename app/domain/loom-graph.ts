@@ -62,6 +62,11 @@ export class LoomGraph {
     }
   }
 
+  /** Whether an edge conducts with the switches where they are (see `conducts`). */
+  conductsEdge(e: GraphEdge, switches: SwitchState): boolean {
+    return conducts(e, switches);
+  }
+
   /** Edges touching a node. */
   at(node: string): GraphEdge[] {
     return this.adj.get(node) ?? [];

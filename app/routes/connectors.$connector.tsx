@@ -43,21 +43,21 @@ export default function ConnectorCardPage({ loaderData }: Route.ComponentProps) 
       <header className="flex flex-wrap items-start justify-between gap-3">
         <div>
           <p className="text-sm font-semibold uppercase tracking-wide text-muted">{card.family.make.name} {card.family.name} · {card.family.yearFrom}–{card.family.yearTo} · {card.systemName}</p>
-          <h1 className="text-3xl font-bold print:text-2xl">{card.name}</h1>
+          <h1 className="text-3xl font-bold print:text-xl">{card.name}</h1>
           <p className="mt-1">
             {card.housing} · {card.gender} · {card.location}
             {card.matesWith ? <> · mates with <Link to={`/connectors/${card.matesWith}`} className="font-semibold text-signal-dark">{card.mateName}</Link></> : null}
           </p>
         </div>
-        <div className="text-right text-sm">
+        <div className="text-sm sm:text-right print:flex print:gap-3 print:text-[8pt]">
           <p className="font-semibold" data-testid="revision">Revision {card.revision.number}</p>
           <p className="text-muted">published {card.revision.publishedAt.slice(0, 10)}</p>
           <p className="text-muted">{card.bikeChecked} riders bike-checked</p>
         </div>
       </header>
 
-      <div className="grid gap-5 lg:grid-cols-[minmax(280px,420px)_1fr] print:grid-cols-[260px_1fr]">
-        <section aria-labelledby="face-heading" className="print-avoid-break">
+      <div className="grid gap-5 lg:grid-cols-[minmax(280px,420px)_1fr] print:block">
+        <section aria-labelledby="face-heading" className="print-avoid-break print:mb-2 print:flex print:items-end print:gap-4">
           <h2 id="face-heading" className="sr-only">Face view</h2>
           <div role="group" aria-label="Which side you are looking at" className="no-print mb-2 inline-flex overflow-hidden rounded border-2 border-ink">
             {(["mating", "wire"] as const).map((v) => (
@@ -67,48 +67,68 @@ export default function ConnectorCardPage({ loaderData }: Route.ComponentProps) 
               </Link>
             ))}
           </div>
-          <div className="rounded-md border border-rule bg-white p-2">
+          <div className="rounded-md border border-rule bg-white p-2 print:w-[64mm] print:shrink-0 print:p-1">
             <FaceView geometry={geometry} paint={card.paint.map((p) => ({ ...p, href: `${viewLink(view).split("?")[0]}?${view === "wire" ? "view=wire&" : ""}cavity=${encodeURIComponent(p.cavity)}#pin-${p.cavity}` }))}
               highlight={highlight} caption={`${view === "mating" ? "Mating face" : "Wire side"} of ${card.name}`} />
           </div>
-          <p className="mt-2 text-sm" data-testid="view-caption">
+          <p className="mt-2 text-sm print:text-[8pt]" data-testid="view-caption">
             {view === "mating"
               ? "Seen from the mating face: looking into the cavities, as when the two halves are apart."
               : "Seen from the wire side: where the wires enter the housing. This is the mirror image of the mating face."}{" "}
-            Pin 1 is marked ▲; {LATCH_WORDS[geometry.latch]}.
+            Pin 1 is marked ▼; {LATCH_WORDS[geometry.latch]}.
           </p>
         </section>
 
         <section aria-labelledby="pins-heading" className="min-w-0">
-          <h2 id="pins-heading" className="text-xl font-bold">Pin map</h2>
-          <div className="overflow-x-auto">
-            <table className="mt-2 w-full border-collapse bg-white text-left text-[0.95rem] print:text-[9pt]">
+          <h2 id="pins-heading" className="text-xl font-bold print:text-base">Pin map</h2>
+          <ol className="mt-2 space-y-2 md:hidden print:hidden" aria-label="Pin map, one cavity at a time">
+            {card.pins.map((p, i) => (
+              <li key={p.cavity} aria-current={highlight === p.cavity ? "true" : undefined}
+                className={`rounded-md border bg-white p-3 ${highlight === p.cavity ? "border-caution-edge bg-caution" : "border-rule"}`}>
+                <p className="flex flex-wrap items-baseline gap-x-3">
+                  <span className="text-lg font-bold">Cavity {p.cavity}{p.cavity === card.layout.pin1 ? " ▼" : ""}</span>
+                  <code className="text-lg font-semibold">{p.colour.code ?? "—"}</code>
+                  <ColourChip baseHex={card.paint[i]?.baseHex ?? null} tracerHexes={card.paint[i]?.tracerHexes ?? []} words={p.colour.description} />
+                </p>
+                <p className="mt-1 text-sm">{p.circuit}{p.terminal ? ` · terminal ${p.terminal}` : ""}{p.colour.iec ? ` · IEC ${p.colour.iec}` : ""}</p>
+                {p.destinations.length > 0 ? (
+                  <p className="mt-1 text-sm">Goes to:{" "}
+                    {p.destinations.map((d, j) => (
+                      <span key={j}>{j > 0 ? "; " : ""}{d.connector ? <Link to={`/connectors/${d.connector}?cavity=${encodeURIComponent(d.cavity!)}#pin-${d.cavity}`} className="text-signal-dark underline">{d.label}</Link> : d.label}</span>
+                    ))}
+                  </p>
+                ) : null}
+              </li>
+            ))}
+          </ol>
+          <div className="hidden overflow-x-auto md:block print:block">
+            <table className="mt-2 w-full border-collapse bg-white text-left text-[0.95rem] print:mt-1 print:text-[8pt] print:leading-tight">
               <thead className="border-b-2 border-ink">
                 <tr>
-                  <th scope="col" className="p-1.5">Cavity</th>
-                  <th scope="col" className="p-1.5">Code as written</th>
-                  <th scope="col" className="p-1.5">Colour</th>
-                  <th scope="col" className="p-1.5">IEC 60757</th>
-                  <th scope="col" className="p-1.5">Circuit</th>
-                  <th scope="col" className="p-1.5" title="DIN 72552 terminal designation">Terminal</th>
-                  <th scope="col" className="p-1.5">Goes to</th>
+                  <th scope="col" className="p-1.5 print:px-1 print:py-0.5">Cavity</th>
+                  <th scope="col" className="p-1.5 print:px-1 print:py-0.5">Code as written</th>
+                  <th scope="col" className="p-1.5 print:px-1 print:py-0.5">Colour</th>
+                  <th scope="col" className="p-1.5 print:px-1 print:py-0.5">IEC 60757</th>
+                  <th scope="col" className="p-1.5 print:px-1 print:py-0.5">Circuit</th>
+                  <th scope="col" className="p-1.5 print:px-1 print:py-0.5" title="DIN 72552 terminal designation">Terminal</th>
+                  <th scope="col" className="p-1.5 print:px-1 print:py-0.5">Goes to</th>
                 </tr>
               </thead>
               <tbody>
                 {card.pins.map((p, i) => (
                   <tr key={p.cavity} id={`pin-${p.cavity}`} data-cavity={p.cavity} aria-current={highlight === p.cavity ? "true" : undefined}
                     className={`border-b border-rule align-top ${highlight === p.cavity ? "bg-caution outline-2 outline-caution-edge" : ""}`}>
-                    <th scope="row" className="p-1.5 font-bold">{p.cavity}{p.cavity === card.layout.pin1 ? " ▲" : ""}</th>
-                    <td className="p-1.5"><code className="font-semibold">{p.colour.code ?? "—"}</code></td>
-                    <td className="p-1.5"><ColourChip baseHex={card.paint[i]?.baseHex ?? null} tracerHexes={card.paint[i]?.tracerHexes ?? []} words={p.colour.description} /></td>
-                    <td className="p-1.5"><code>{p.colour.iec ?? "—"}</code></td>
-                    <td className="p-1.5">{p.circuit}</td>
-                    <td className="p-1.5">{p.terminal ?? "—"}</td>
-                    <td className="p-1.5">
+                    <th scope="row" className="p-1.5 print:px-1 print:py-0.5 font-bold">{p.cavity}{p.cavity === card.layout.pin1 ? " ▼" : ""}</th>
+                    <td className="p-1.5 print:px-1 print:py-0.5"><code className="font-semibold">{p.colour.code ?? "—"}</code></td>
+                    <td className="p-1.5 print:px-1 print:py-0.5"><ColourChip baseHex={card.paint[i]?.baseHex ?? null} tracerHexes={card.paint[i]?.tracerHexes ?? []} words={p.colour.description} /></td>
+                    <td className="p-1.5 print:px-1 print:py-0.5"><code>{p.colour.iec ?? "—"}</code></td>
+                    <td className="p-1.5 print:px-1 print:py-0.5">{p.circuit}</td>
+                    <td className="p-1.5 print:px-1 print:py-0.5">{p.terminal ?? "—"}</td>
+                    <td className="p-1.5 print:px-1 print:py-0.5">
                       {p.destinations.length === 0 ? "—" : (
-                        <ul>
+                        <ul className="print:inline">
                           {p.destinations.map((d, j) => (
-                            <li key={j}>{d.connector ? <Link to={`/connectors/${d.connector}?cavity=${encodeURIComponent(d.cavity!)}#pin-${d.cavity}`} className="text-signal-dark underline">{d.label}</Link> : d.label}</li>
+                            <li key={j} className="print:inline">{j > 0 ? <span className="hidden print:inline">; </span> : null}{d.connector ? <Link to={`/connectors/${d.connector}?cavity=${encodeURIComponent(d.cavity!)}#pin-${d.cavity}`} className="text-signal-dark underline">{d.label}</Link> : d.label}</li>
                           ))}
                         </ul>
                       )}
@@ -124,30 +144,30 @@ export default function ConnectorCardPage({ loaderData }: Route.ComponentProps) 
 
       {card.specs.length > 0 ? (
         <section aria-labelledby="specs-heading" className="print-avoid-break">
-          <h2 id="specs-heading" className="text-xl font-bold">What it should read</h2>
-          <table className="mt-2 w-full max-w-4xl border-collapse bg-white text-left text-[0.95rem] print:text-[9pt]">
-            <thead className="border-b-2 border-ink"><tr><th className="p-1.5">Measurement</th><th className="p-1.5">Between cavities</th><th className="p-1.5">Range</th><th className="p-1.5">At</th><th className="p-1.5">Source</th></tr></thead>
+          <h2 id="specs-heading" className="text-xl font-bold print:text-base">What it should read</h2>
+          <table className="mt-2 w-full max-w-4xl border-collapse bg-white text-left text-[0.95rem] print:mt-1 print:max-w-none print:text-[8pt] print:leading-tight">
+            <thead className="border-b-2 border-ink"><tr><th className="p-1.5 print:px-1 print:py-0.5">Measurement</th><th className="p-1.5 print:px-1 print:py-0.5">Between cavities</th><th className="p-1.5 print:px-1 print:py-0.5">Range</th><th className="p-1.5 print:px-1 print:py-0.5">At</th><th className="hidden p-1.5 sm:table-cell print:table-cell print:px-1 print:py-0.5">Source</th></tr></thead>
             <tbody>
               {card.specs.map((s, i) => (
                 <tr key={i} className="border-b border-rule align-top">
-                  <td className="p-1.5">{s.name}</td><td className="p-1.5">{s.between[0]} – {s.between[1]}</td>
-                  <td className="p-1.5 whitespace-nowrap">{s.min}–{s.max} {s.unit}</td><td className="p-1.5">{s.atC} °C</td><td className="p-1.5 text-sm text-muted">{s.source}</td>
+                  <td className="p-1.5 print:px-1 print:py-0.5">{s.name}<span className="mt-0.5 block text-xs text-muted sm:hidden print:hidden">{s.source}</span></td><td className="p-1.5 print:px-1 print:py-0.5">{s.between[0]} – {s.between[1]}</td>
+                  <td className="p-1.5 print:px-1 print:py-0.5 whitespace-nowrap">{s.min}–{s.max} {s.unit}</td><td className="p-1.5 print:px-1 print:py-0.5 whitespace-nowrap">{s.atC} °C</td><td className="hidden p-1.5 text-sm text-muted sm:table-cell print:table-cell print:px-1 print:py-0.5 print:text-[7pt] print:leading-tight">{s.source}</td>
                 </tr>
               ))}
             </tbody>
           </table>
-          <p className="mt-1 text-sm text-muted">Measure with the ignition off and the connector unplugged. A copper winding reads about 0.4 % higher per °C above 20 °C.</p>
+          <p className="mt-1 text-sm text-muted print:text-[8pt]">Measure with the ignition off and the connector unplugged. A copper winding reads about 0.4 % higher per °C above 20 °C.</p>
         </section>
       ) : null}
 
       {notesHtml ? (
         <section aria-labelledby="notes-heading" className="print-avoid-break">
-          <h2 id="notes-heading" className="text-xl font-bold">Notes</h2>
-          <div className="prose max-w-3xl" dangerouslySetInnerHTML={{ __html: notesHtml }} />
+          <h2 id="notes-heading" className="text-xl font-bold print:text-base">Notes</h2>
+          <div className="prose max-w-3xl print:text-[8.5pt] print:leading-snug" dangerouslySetInnerHTML={{ __html: notesHtml }} />
         </section>
       ) : null}
 
-      <Cautions kinds={cautions} />
+      <Cautions kinds={cautions} className="print:py-1.5 print:text-[8pt] print:leading-snug" />
 
       <footer className="no-print flex flex-wrap gap-3 text-sm">
         <a href={`/api/v1/connectors/${card.slug}?format=csv`} className="rounded border border-ink bg-white px-3 py-1.5 font-semibold no-underline">Download CSV</a>

@@ -4,6 +4,7 @@ import { Component, Connector, Family, Make, Pin, SpecValue, System, Wire } from
 import { decodeColour, describeColour, swatch, type ColourSystemId } from "~/domain/colours";
 import { faceGeometry, type FaceHalf, type FaceSide, type HousingLayout } from "~/domain/connector-face";
 import { ensureDatabase } from "./database.server";
+import { isSlug } from "~/validation/library";
 
 export interface MakeSummary { slug: string; name: string; colourSystem: string; familyCount: number; blurb: string }
 export interface FamilySummary {
@@ -30,6 +31,7 @@ export async function listMakes(): Promise<MakeSummary[]> {
 
 /** One make and its families, or null. */
 export async function getMake(slug: string) {
+  if (!isSlug(slug)) return null;
   await ensureDatabase();
   const make = await Make.findOne({ where: { slug } });
   if (!make) return null;
@@ -73,6 +75,7 @@ function paintFor(pins: Pin[], system: ColourSystemId): FacePaint[] {
 
 /** A family with its systems and their connectors (thumbnails included), or null. */
 export async function getFamily(slug: string) {
+  if (!isSlug(slug)) return null;
   await ensureDatabase();
   const family = await Family.findOne({ where: { slug }, include: [{ model: Make, as: "make" }] });
   if (!family) return null;
@@ -106,6 +109,7 @@ export interface PinRow {
 
 /** The published connector card in the API's shape (plus display extras), or null. */
 export async function getConnectorCard(slug: string) {
+  if (!isSlug(slug)) return null;
   await ensureDatabase();
   const c = await Connector.findOne({ where: { slug } });
   if (!c) return null;

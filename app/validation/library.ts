@@ -1,7 +1,13 @@
 import { z } from "zod";
 import { COLOUR_SYSTEM_IDS } from "~/domain/colours";
 
-const slug = z.string().regex(/^[a-z0-9]+(?:-[a-z0-9]+)*$/, "must be a lowercase kebab-case slug");
+const SLUG = /^[a-z0-9]+(?:-[a-z0-9]+)*$/;
+const slug = z.string().max(120, "is too long for a slug").regex(SLUG, "must be a lowercase kebab-case slug");
+
+/** Whether a URL segment can be a slug at all; anything else is simply not in the library (404, never a query). */
+export function isSlug(value: string | undefined): value is string {
+  return typeof value === "string" && value.length <= 120 && SLUG.test(value);
+}
 
 /** limit (default 20, max 100) and offset, as every list route takes them. */
 export const pageQuery = z.object({

@@ -20,7 +20,7 @@ async function freePort(): Promise<number> {
 
 export interface TestServer { url: string; dbPath: string; stop: () => Promise<void>; output: () => string }
 
-/** Boot `react-router-serve build/server/index.js` against a new SQLite file (migrated and seeded on first request). */
+/** Boot our production server (app/serve.server.ts on build/) against a new SQLite file (migrated and seeded on first request). */
 export async function startServer(env: Record<string, string> = {}): Promise<TestServer> {
   const entry = path.join(root, "build/server/index.js");
   if (!existsSync(entry)) throw new Error("No production build: run `npm run build` first (npm test does).");
@@ -28,7 +28,7 @@ export async function startServer(env: Record<string, string> = {}): Promise<Tes
   const dbPath = path.join(dir, "test.sqlite");
   const port = await freePort();
   let log = "";
-  const child: ChildProcess = spawn(path.join(root, "node_modules/.bin/react-router-serve"), [entry], {
+  const child: ChildProcess = spawn(process.execPath, ["--import", "tsx", path.join(root, "app/serve.server.ts")], {
     cwd: root,
     env: { ...process.env, NODE_ENV: "production", PORT: String(port), HOST: "127.0.0.1", DB_PATH: dbPath, ...env },
     stdio: ["ignore", "pipe", "pipe"],

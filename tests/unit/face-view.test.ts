@@ -38,7 +38,8 @@ describe("FaceView", () => {
     expect(count(html, /data-pin1="true"/g)).toBe(1);
     expect(count(html, /data-highlight="true"/g)).toBe(1);
     expect(html).toMatch(/<g data-latch="left">.*>latch<\/text>/);
-    expect(html).toContain('viewBox="-29.5 -24.5 59 49"');
+    // Latch on the left: the tab's room on that side only (0.95 pitch), a thin edge elsewhere (0.15 pitch).
+    expect(html).toContain('viewBox="-29.5 -16.5 51 33"');
   });
 
   it("links a cavity with an href so the drawing works without JavaScript", () => {

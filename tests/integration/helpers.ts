@@ -1,0 +1,87 @@
+/** Shared helpers for the integration tests: the API's error shape, a small CSV reader, and the "state digest" of a database file. */
+import { createHash } from "node:crypto";
+import sqlite3 from "sqlite3";
+import { z } from "zod";
+
+// API.md, Conventions: {"error": {"code": "snake_case_code", "message": "A sentence a person can act on", "field": "name-if-any"}}
+export const errorBody = z.strictObject({
+  error: z.strictObject({
+    code: z.string().regex(/^[a-z]+(?:_[a-z]+)*$/, "snake_case"),
+    message: z.string().min(1),
+    field: z.string().min(1).optional(),
+  }),
+});
+export type ErrorBody = z.infer<typeof errorBody>;
+
+/** Parse a strict schema and fail with zod's own explanation (path + message) instead of a bare "false". */
+export function shape<T extends z.ZodType>(schema: T, value: unknown, what = "body"): z.infer<T> {
+  const r = schema.safeParse(value);
+  if (!r.success) throw new Error(`${what} does not match the API.md shape:\n${z.prettifyError(r.error)}\n${JSON.stringify(value).slice(0, 600)}`);
+  return r.data;
+}
+
+/**
+ * RFC 4180-style CSV reader: quoted fields, doubled quotes, CRLF or LF records.
+ * Returns rows of cells; a trailing line break does not make an empty last row.
+ */
+export function parseCsv(text: string): string[][] {
+  const rows: string[][] = [];
+  let row: string[] = [];
+  let cell = "";
+  let quoted = false;
+  for (let i = 0; i < text.length; i++) {
+    const ch = text[i];
+    if (quoted) {
+      if (ch === '"' && text[i + 1] === '"') { cell += '"'; i++; }
+      else if (ch === '"') quoted = false;
+      else cell += ch;
+    } else if (ch === '"' && cell === "") quoted = true;
+    else if (ch === ",") { row.push(cell); cell = ""; }
+    else if (ch === "\r" && text[i + 1] === "\n") { /* the \n ends the record */ }
+    else if (ch === "\n") { row.push(cell); rows.push(row); row = []; cell = ""; }
+    else cell += ch;
+  }
+  if (quoted) throw new Error("CSV ends inside a quoted field");
+  if (cell !== "" || row.length) { row.push(cell); rows.push(row); }
+  return rows;
+}
+
+/** Undo the spreadsheet-formula defusing (a leading ' before = + - @ tab CR, OWASP CSV injection advice) to compare a cell with the JSON value. */
+export const undefuse = (cell: string) => (/^'[=+\-@\t\r]/.test(cell) ? cell.slice(1) : cell);
+
+function all(db: sqlite3.Database, sql: string): Promise<Record<string, unknown>[]> {
+  return new Promise((resolve, reject) => db.all(sql, (err, rows) => (err ? reject(err) : resolve(rows as Record<string, unknown>[]))));
+}
+
+/**
+ * QUALITY.md, general rule: a denied or failed request must leave the database unchanged. The digest is a SHA-256 over every
+ * row of every user table (ordered by rowid) plus the schema, read through a separate read-only handle.
+ */
+export async function stateDigest(dbPath: string): Promise<string> {
+  const db = await new Promise<sqlite3.Database>((resolve, reject) => {
+    const d = new sqlite3.Database(dbPath, sqlite3.OPEN_READONLY, (err) => (err ? reject(err) : resolve(d)));
+  });
+  try {
+    const hash = createHash("sha256");
+    const tables = await all(db, "SELECT name, sql FROM sqlite_master WHERE type = 'table' AND name NOT LIKE 'sqlite_%' ORDER BY name");
+    for (const t of tables) {
+      hash.update(`${t.name}\n${t.sql}\n`);
+      for (const row of await all(db, `SELECT * FROM "${String(t.name).replaceAll('"', '""')}" ORDER BY rowid`)) hash.update(JSON.stringify(row) + "\n");
+    }
+    return hash.digest("hex");
+  } finally {
+    await new Promise<void>((resolve) => db.close(() => resolve()));
+  }
+}
+
+/** Run one statement on a database file (used to inject faults from outside the process under test). */
+export async function execSql(dbPath: string, sql: string): Promise<void> {
+  const db = await new Promise<sqlite3.Database>((resolve, reject) => {
+    const d = new sqlite3.Database(dbPath, (err) => (err ? reject(err) : resolve(d)));
+  });
+  try {
+    await new Promise<void>((resolve, reject) => db.exec(sql, (err) => (err ? reject(err) : resolve())));
+  } finally {
+    await new Promise<void>((resolve) => db.close(() => resolve()));
+  }
+}
