@@ -9,6 +9,9 @@ export const links: Route.LinksFunction = () => [{ rel: "icon", href: "/favicon.
 
 const nav = [
   { to: "/", label: "Library", end: true },
+  { to: "/finder", label: "Colour finder", end: false },
+  { to: "/bench", label: "Bench sheet", end: false },
+  { to: "/planner", label: "Loom planner", end: false },
   { to: "/colours", label: "Colour codes", end: false },
 ];
 

@@ -170,7 +170,7 @@ export function walkCircuit(
       p.how = p.connector
         ? `Connector mated: back-probe ${p.connectorName}, cavity ${p.cavity}${p.colour ? ` (${p.colour})` : ""}, from the wire side; black lead on the battery − post.`
         : `Red lead on ${p.label}${p.colour ? ` (${p.colour} wire)` : ""}; black lead on the battery − post.`;
-      if (p === points[points.length - 1] && p.node === circuit.to) p.how = "This is the meter's reference, the battery − post: it reads 0 V by definition. Check the lead is tight and clean.";
+      if (p.node === circuit.to) p.how = "This is the meter's reference, the battery − post: it reads 0 V by definition. Check the lead is tight and clean.";
     } else if (p === ref) {
       p.expect = { quantity: "continuity", min: 0, max: 0, unit: "Ω" };
       p.how = `Ignition off and the connectors of this loop unplugged. Put one ohmmeter lead on ${p.label}${p.colour ? ` (${p.colour})` : ""} and keep it there.`;

@@ -172,6 +172,7 @@ export default function ConnectorCardPage({ loaderData }: Route.ComponentProps) 
       <footer className="no-print flex flex-wrap gap-3 text-sm">
         <a href={`/api/v1/connectors/${card.slug}?format=csv`} className="rounded border border-ink bg-white px-3 py-1.5 font-semibold no-underline">Download CSV</a>
         <a href={`/api/v1/connectors/${card.slug}`} className="rounded border border-ink bg-white px-3 py-1.5 font-semibold no-underline">JSON</a>
+        {card.specs.length > 0 ? <Link to={`/bench?connector=${card.slug}`} className="rounded border border-ink bg-white px-3 py-1.5 font-semibold no-underline">Bench sheet from these specs</Link> : null}
         <PrintButton />
       </footer>
     </article>

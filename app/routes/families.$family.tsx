@@ -33,6 +33,11 @@ export default function FamilyPage({ loaderData }: Route.ComponentProps) {
       <header className="max-w-4xl">
         <h1 className="text-3xl font-bold">{family.make.name} {family.name}</h1>
         <p className="mt-1 text-muted">{family.blurb}</p>
+        <p className="mt-3 flex flex-wrap gap-2">
+          <Link to={`/families/${family.slug}/circuits`} className="rounded bg-ink px-3 py-1.5 font-semibold text-paper no-underline">Circuit walk</Link>
+          <Link to={`/planner?family=${family.slug}`} className="rounded border-2 border-ink bg-white px-3 py-1.5 font-semibold text-ink no-underline">Plan a minimal loom</Link>
+          <Link to={`/finder?family=${family.slug}`} className="rounded border-2 border-ink bg-white px-3 py-1.5 font-semibold text-ink no-underline">Identify a cut-off plug</Link>
+        </p>
         <dl className="mt-3 grid grid-cols-[max-content_1fr] gap-x-4 gap-y-1 text-[0.95rem] sm:grid-cols-[max-content_1fr_max-content_1fr]">
           {facts.map(([k, v]) => (
             <div key={k} className="contents"><dt className="font-semibold">{k}</dt><dd>{k === "Colour notation" ? <Link to={`/colours#system-${family.colourSystem}`} className="underline">{v}</Link> : v}</dd></div>

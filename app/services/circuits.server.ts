@@ -1,8 +1,10 @@
 /** Circuits of a family: the walk (probe points and expectations) and the diagnosis, from the stored loom graph. */
-import { Circuit, Family, Make, SpecValue, System } from "~db/models/index.ts";
+import { Circuit, Family, Make, SpecValue, System, Wire } from "~db/models/index.ts";
 import { loadFamilyGraph } from "~db/graph.ts";
-import { diagnose, walkCircuit, type Reading, type WalkNode } from "~/domain/circuit-walk";
-import { resolveSwitches, type GraphEdge } from "~/domain/loom-graph";
+import { diagnose, potentials, walkCircuit, type Reading, type WalkNode } from "~/domain/circuit-walk";
+import { decodeColour, type ColourSystemId } from "~/domain/colours";
+import { nominalLoadA } from "~/domain/loom-planner";
+import { resolveSwitches, type GraphEdge, type SwitchState } from "~/domain/loom-graph";
 import { wastedSparkPairs } from "~/domain/wasted-spark";
 import { ensureDatabase } from "./database.server";
 import { isSlug } from "~/validation/library";
@@ -87,7 +89,10 @@ async function load(slug: string) {
       switches: c.switches,
     };
   });
-  return { family, graph: g.graph, nodes, describe, loadSpec, circuits: circuitDefs };
+  const loadKinds = new Map(g.links.map((l) => [`l${l.id}`, compById.get(l.componentId)?.kind ?? "load"]));
+  const loadNames = new Map(g.links.map((l) => [`l${l.id}`, compById.get(l.componentId)?.name ?? ""]));
+  const fuses = new Map(g.links.filter((l) => l.kind === "fuse").map((l) => [`l${l.id}`, { name: compById.get(l.componentId)?.name ?? "fuse", ratingA: l.ratingA ?? 0 }]));
+  return { family, graph: g.graph, nodes, nodeLabel, describe, loadSpec, loadKinds, loadNames, fuses, circuits: circuitDefs };
 }
 
 function familyGraph(slug: string) {
@@ -148,3 +153,75 @@ export async function diagnoseFor(familySlug: string, circuitSlug: string, switc
   return { ok: true as const, walk: w.walk, diagnosis: diagnose(w.walk, readings) };
 }
 
+
+/** What the loom planner needs of a family: every circuit's wires and load current, and each wire's role. */
+export async function plannerData(familySlug: string) {
+  const f = await familyGraph(familySlug);
+  if (!f) return null;
+  const wires = await Wire.findAll({ where: { familyId: f.family.id } });
+  const linkComp = new Map<string, { kind: string; label: string }>();
+  for (const c of f.circuits) for (const l of c.def.loads) linkComp.set(l.id, { kind: f.loadKinds.get(l.id) ?? "load", label: `${f.loadNames.get(l.id) ?? ""} ${l.label ?? ""}`.trim() });
+  const loadCurrent = (kind: string, label: string) => {
+    try {
+      return nominalLoadA(kind, label);
+    } catch (e) {
+      // No rule of thumb for this part: say so rather than invent a figure silently.
+      if (e instanceof RangeError) return { amps: 1, basis: `${label}: no rule of thumb for a ${kind}, 1 A assumed — enter your own figure` };
+      throw e;
+    }
+  };
+  const riding = resolveSwitches({}).ok ? (resolveSwitches({}) as { value: SwitchState }).value : ({} as SwitchState);
+  const plus = f.circuits.find((c) => c.def.powered)?.def.from;
+  const minus = f.circuits.find((c) => c.def.powered)?.def.to;
+  const allOn: SwitchState = { ...riding, main: "on", kill: "run", lights: "on", brake: "pressed", start: "released" };
+  const off = plus && minus ? potentials(f.graph, plus, minus, { ...riding, main: "off" }) : null;
+  const on = plus && minus ? potentials(f.graph, plus, minus, allOn) : null;
+  const circuits = f.circuits.map((c) => {
+    const sw = resolveSwitches(c.switches);
+    const ids = new Set<string>();
+    let fuse: { name: string; ratingA: number } | null = null;
+    for (const load of c.def.loads) {
+      const loop = f.graph.loop(c.def.from, load, c.def.to, sw.ok ? sw.value : riding);
+      for (const e of [...(loop?.supply.edges ?? []), ...(loop?.ret.edges ?? [])]) if (e.kind === "wire") ids.add(e.id);
+      // The fuse nearest the load protects this circuit's own wires.
+      for (const e of loop?.supply.edges ?? []) if (f.fuses.has(e.id)) fuse = f.fuses.get(e.id)!;
+    }
+    const loads = c.def.loads.map((l) => {
+      // A load whose card gives its resistance draws I = U / R (Ohm's law) at 12 V; otherwise a rule of thumb.
+      const spec = f.loadSpec(l);
+      if (spec && spec.unit === "Ω" && spec.min > 0) {
+        const r = (spec.min + spec.max) / 2;
+        return { amps: 12 / r, basis: `${linkComp.get(l.id)?.label}: 12 V / ${r} Ω (card spec ${spec.min}–${spec.max} Ω) ≈ ${(12 / r).toFixed(1)} A (Ohm's law)` };
+      }
+      return loadCurrent(linkComp.get(l.id)?.kind ?? "load", linkComp.get(l.id)?.label ?? "");
+    });
+    return {
+      slug: c.slug, name: c.name, system: c.system, wires: [...ids], fuse,
+      loadA: c.def.powered ? loads.reduce((s, l) => s + l.amps, 0) : 0,
+      loadBasis: c.def.powered ? loads.map((l) => l.basis).join("; ") : "signal loop: no load current",
+    };
+  });
+  const signal = new Set(circuits.filter((c) => c.loadA === 0).flatMap((c) => c.wires));
+  // "Connector: cavity n" so the planner can tell which wires share a housing.
+  const label = (id: number) => {
+    const n = f.nodes.get(String(id))!;
+    if (n.kind === "splice") return "splice (in the loom)";
+    return n.connector ? `${n.connectorName}: cavity ${n.cavity}` : `${n.componentName}: ${n.cavity}`;
+  };
+  return {
+    family: { slug: f.family.slug, name: f.family.name, colourSystem: f.family.colourSystem },
+    circuits,
+    wires: wires.map((w) => {
+      const [a, b] = [String(w.fromPinId), String(w.toPinId)];
+      const d = decodeColour(w.colourCode, f.family.colourSystem as ColourSystemId);
+      const feed = on && on(a) === "low" && on(b) === "low" ? "earth" as const
+        : off && off(a) === "high" ? "battery" as const
+        : signal.has(`w${w.id}`) ? "signal" as const
+        : on && on(a) === "high" ? "switched" as const : "load" as const;
+      return {
+        id: `w${w.id}`, from: label(w.fromPinId), to: label(w.toPinId), code: w.colourCode, colours: d.ok ? d.value.colours : [],
+        defaultLengthM: w.lengthMm ? w.lengthMm / 1000 : null, factorySizeMm2: w.sizeMm2, earth: feed === "earth", feed,
+      };
+    }),
+  };
+}

@@ -31,3 +31,36 @@ export function validationError(issues: { path: PropertyKey[]; message: string }
   const field = first?.path.map(String).join(".") || undefined;
   return apiError(400, "bad_request", field ? `${field}: ${first.message}` : first?.message ?? "The request was not understood.", field);
 }
+
+const MAX_JSON_BYTES = 64 * 1024;
+
+/**
+ * Read a JSON request body and validate it: 415 unless it is JSON, 413 past 64 KiB, 400 for malformed JSON or a
+ * failed schema. Returns either the parsed value or the Response to send.
+ */
+export async function readJson<T>(request: Request, schema: { safeParse: (v: unknown) => { success: true; data: T } | { success: false; error: { issues: { path: PropertyKey[]; message: string }[] } } }):
+  Promise<{ ok: true; data: T } | { ok: false; response: Response }> {
+  const type = request.headers.get("Content-Type") ?? "";
+  if (!/^application\/([a-z.+-]*\+)?json\b/i.test(type)) {
+    return { ok: false, response: apiError(415, "unsupported_media_type", "Send the body as JSON with Content-Type: application/json.") };
+  }
+  const declared = Number(request.headers.get("Content-Length") ?? 0);
+  if (declared > MAX_JSON_BYTES) return { ok: false, response: apiError(413, "too_large", `The body may be at most ${MAX_JSON_BYTES / 1024} KiB.`) };
+  const text = await request.text();
+  if (Buffer.byteLength(text) > MAX_JSON_BYTES) return { ok: false, response: apiError(413, "too_large", `The body may be at most ${MAX_JSON_BYTES / 1024} KiB.`) };
+  let value: unknown;
+  try {
+    value = JSON.parse(text);
+  } catch {
+    return { ok: false, response: apiError(400, "bad_request", "The body is not valid JSON.") };
+  }
+  const parsed = schema.safeParse(value);
+  if (!parsed.success) return { ok: false, response: validationError(parsed.error.issues) };
+  return { ok: true, data: parsed.data };
+}
+
+/** A domain computation's input error (RangeError with a field) as our 400; anything else is rethrown. */
+export function domainError(e: unknown): Response {
+  if (e instanceof RangeError) return apiError(400, "bad_request", e.message, (e as RangeError & { field?: string }).field);
+  throw e;
+}

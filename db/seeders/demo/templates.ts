@@ -39,10 +39,11 @@ const coil = (key: string, name: string, twoEnded: boolean, primary?: string): C
       : { from: `${key}.-`, to: `${key}.HT`, kind: "winding" as const, label: "secondary" },
   ],
 });
+// Lamp wattages are part of the link label: the loom planner reads a load's current from it (W / 12 V).
 const lamp = (key: string, name: string, feedTerminal: string, location: string): ComponentSpec => ({
   key, kind: "lamp", name, system: "lighting", location,
   terminals: [{ label: "feed", terminal: feedTerminal }, { label: "E", terminal: "31" }],
-  links: [{ from: `${key}.feed`, to: `${key}.E`, kind: "lamp", label: "filament" }],
+  links: [{ from: `${key}.feed`, to: `${key}.E`, kind: "lamp", label: "filament 60/55 W" }],
 });
 const brakeSwitch = (location: string): ComponentSpec => ({
   key: "brake-switch", kind: "brake-switch", name: "Rear brake light switch", system: "lighting", location,
@@ -52,8 +53,8 @@ const brakeSwitch = (location: string): ComponentSpec => ({
 const tailLamp = (): ComponentSpec => ({
   key: "tail-lamp", kind: "lamp", name: "Tail and brake lamp", system: "lighting", location: "rear mudguard",
   links: [
-    { from: "tail-lamp:1", to: "tail-lamp:3", kind: "lamp", label: "tail filament" },
-    { from: "tail-lamp:2", to: "tail-lamp:3", kind: "lamp", label: "brake filament" },
+    { from: "tail-lamp:1", to: "tail-lamp:3", kind: "lamp", label: "tail filament 5 W" },
+    { from: "tail-lamp:2", to: "tail-lamp:3", kind: "lamp", label: "brake filament 21 W" },
   ],
 });
 const tailPair = (housing: string, latch: PairSpec["latch"]): PairSpec => ({
@@ -88,9 +89,9 @@ const starterCircuits = (viaKill: boolean): CircuitSpec[] => [
   { slug: "starter-motor", name: "Starting: relay contact to motor", system: "starting", from: "battery.+", to: "battery.-", via: ["starter-motor.motor"], switches: { start: "pressed" } },
 ];
 const lightCircuits = (): CircuitSpec[] => [
-  { slug: "headlamp", name: "Lighting: headlamp", system: "lighting", from: "battery.+", to: "battery.-", via: ["headlamp.filament"], switches: { main: "on", lights: "on" } },
-  { slug: "tail-lamp", name: "Lighting: tail lamp", system: "lighting", from: "battery.+", to: "battery.-", via: ["tail-lamp.tail filament"], switches: { main: "on", lights: "on" } },
-  { slug: "brake-lamp", name: "Lighting: brake lamp", system: "lighting", from: "battery.+", to: "battery.-", via: ["tail-lamp.brake filament"], switches: { main: "on", brake: "pressed" } },
+  { slug: "headlamp", name: "Lighting: headlamp", system: "lighting", from: "battery.+", to: "battery.-", via: ["headlamp.filament 60/55 W"], switches: { main: "on", lights: "on" } },
+  { slug: "tail-lamp", name: "Lighting: tail lamp", system: "lighting", from: "battery.+", to: "battery.-", via: ["tail-lamp.tail filament 5 W"], switches: { main: "on", lights: "on" } },
+  { slug: "brake-lamp", name: "Lighting: brake lamp", system: "lighting", from: "battery.+", to: "battery.-", via: ["tail-lamp.brake filament 21 W"], switches: { main: "on", brake: "pressed" } },
 ];
 
 type FourNet = "batt" | "main-fused" | "ign-sw" | "ign-fused" | "kill-run" | "coil1-neg" | "coil2-neg" | "pick1-a" | "pick1-b"
@@ -430,7 +431,7 @@ export function pointsTwin(base: Base, c: Codes<BritNet>, o: { blade: string }):
         { from: "lights-switch:1", to: "lights-switch:3", kind: "contact", label: "tail contact", switch: "lights", positions: ["on"] },
       ] },
     { key: "headlamp", kind: "lamp", name: "Headlamp", system: "lighting", location: "front",
-      links: [{ from: "headlamp:1", to: "headlamp:2", kind: "lamp", label: "filament" }] },
+      links: [{ from: "headlamp:1", to: "headlamp:2", kind: "lamp", label: "filament 60/55 W" }] },
     tailLamp(), brakeSwitch("under the gearbox, right side"),
   ];
   const circuits: CircuitSpec[] = [

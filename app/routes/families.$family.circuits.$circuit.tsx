@@ -1,0 +1,172 @@
+import { data, Form, Link, useNavigation } from "react-router";
+import type { Route } from "./+types/families.$family.circuits.$circuit";
+import { Cautions } from "~/components/cautions";
+import { CircuitDrawing } from "~/components/circuit-drawing";
+import { decodeColour, swatch, type ColourSystemId } from "~/domain/colours";
+import { SWITCH_POSITIONS, type SwitchId } from "~/domain/loom-graph";
+import { diagnoseFor, walkFor } from "~/services/circuits.server";
+
+export const meta: Route.MetaFunction = ({ loaderData }) => [
+  { title: loaderData ? `${loaderData.circuit.name} · ${loaderData.family.name} · Loomlore` : "Not found · Loomlore" },
+];
+
+const SWITCH_NAMES: Record<SwitchId, string> = { main: "Main switch", kill: "Kill switch", start: "Start button", lights: "Lights", brake: "Brake" };
+
+function switchesFrom(params: URLSearchParams | FormData, fallback: Record<string, string>) {
+  const out: Record<string, string> = { ...fallback };
+  for (const id of Object.keys(SWITCH_POSITIONS)) {
+    const v = params.get(id);
+    if (typeof v === "string" && v) out[id] = v;
+  }
+  return out;
+}
+
+async function load(family: string, circuit: string, switches: (fallback: Record<string, string>) => Record<string, string>) {
+  const first = await walkFor(family, circuit, {});
+  if (!first.ok) throw data(first.error.message, { status: first.error.status });
+  const chosen = switches(first.circuit.workingSwitches);
+  const w = await walkFor(family, circuit, chosen);
+  if (!w.ok) throw data(w.error.message, { status: w.error.status });
+  const notation = w.family.colourSystem as ColourSystemId;
+  const paint = w.walk.probePoints.map((p) => {
+    const d = p.colour ? decodeColour(p.colour, notation) : null;
+    const cols = d?.ok ? d.value.colours : [];
+    return { baseHex: cols[0] ? swatch(cols[0]).hex : null, tracerHex: cols[1] ? swatch(cols[1]).hex : null };
+  });
+  return { walk: w.walk, circuit: w.circuit, family: { slug: w.family.slug, name: w.family.name }, paint };
+}
+
+export async function loader({ params, request }: Route.LoaderArgs) {
+  const url = new URL(request.url);
+  return load(params.family, params.circuit, (fallback) => switchesFrom(url.searchParams, fallback));
+}
+
+/** Diagnose from the readings typed into the form; bad numbers come back beside their field, nothing lost. */
+export async function action({ params, request }: Route.ActionArgs) {
+  const form = await request.formData();
+  const { walk } = await load(params.family, params.circuit, (fallback) => switchesFrom(form, fallback));
+  const values: Record<string, string> = {};
+  const errors: Record<string, string> = {};
+  const readings: { step: number; value: number }[] = [];
+  for (const p of walk.probePoints) {
+    const raw = String(form.get(`r${p.step}`) ?? "").trim().replace(",", ".");
+    values[p.step] = raw;
+    if (!raw) continue;
+    const value = /^(ol|open)$/i.test(raw) ? Number.POSITIVE_INFINITY : Number(raw);
+    if (!Number.isFinite(value) && value !== Number.POSITIVE_INFINITY) errors[p.step] = "Enter a number (e.g. 12.4), or OL for an open circuit.";
+    else readings.push({ step: p.step, value });
+  }
+  if (Object.keys(errors).length) return data({ values, errors, diagnosis: null }, { status: 400 });
+  const d = await diagnoseFor(params.family, params.circuit, walk.switches, readings);
+  if (!d.ok) return data({ values, errors: { form: d.error.message } as Record<string, string>, diagnosis: null }, { status: d.error.status });
+  return { values, errors, diagnosis: d.diagnosis };
+}
+
+const expectWords = (e: { quantity: string; min: number | null; max: number | null; unit: string }) =>
+  e.quantity === "voltage"
+    ? e.min !== null && e.min >= 11 ? `battery voltage (${e.min}–${e.max} V)` : e.max !== null && e.max <= 0.5 ? `near 0 V (≤ ${e.max} V)` : `0–${e.max} V (depends on the load)`
+    : e.quantity === "continuity" ? e.max === 0 ? "reference (0 Ω)" : `continuity (≤ ${e.max ?? "a few"} Ω)` : `${e.min}–${e.max} ${e.unit}`;
+
+export default function CircuitWalkPage({ loaderData, actionData }: Route.ComponentProps) {
+  const { walk, circuit, family, paint } = loaderData;
+  const nav = useNavigation();
+  const diagnosis = actionData?.diagnosis ?? null;
+  const errors: Record<string, string> = actionData?.errors ?? {};
+  const values: Record<string, string> = actionData?.values ?? {};
+  const highlight = diagnosis?.fault ? diagnosis.fault.between : diagnosis?.next ? [diagnosis.next] : [];
+  const powered = walk.circuit.powered;
+  return (
+    <div className="space-y-6">
+      <nav aria-label="Breadcrumb" className="no-print text-sm">
+        <Link to="/" className="underline">Library</Link> › <Link to={`/families/${family.slug}`} className="underline">{family.name}</Link> ›{" "}
+        <Link to={`/families/${family.slug}/circuits`} className="underline">Circuits</Link> › {circuit.name}
+      </nav>
+      <header>
+        <h1 className="text-3xl font-bold">{circuit.name}</h1>
+        <p className="mt-1 max-w-3xl text-muted">
+          {powered
+            ? "Battery connected, meter on DC volts, black lead on the battery − post. Work along the probe points in order; the first one that reads wrong tells you where to look."
+            : "Ignition off, battery earth lead off, the loop's connectors unplugged. Ohmmeter: one lead stays on step 1, the other goes to each point in turn."}
+        </p>
+      </header>
+
+      <Cautions kinds={["ignition", "battery"]} />
+
+      {powered ? (
+        <Form method="get" className="no-print flex flex-wrap items-end gap-3 rounded-md border border-rule bg-white p-3" aria-label="Switch positions">
+          {(Object.keys(SWITCH_POSITIONS) as SwitchId[]).map((id) => (
+            <label key={id} className="flex flex-col text-sm font-semibold">{SWITCH_NAMES[id]}
+              <select name={id} defaultValue={walk.switches[id]} className="mt-1 rounded border-2 border-ink bg-white px-2 py-1 text-base font-normal">
+                {SWITCH_POSITIONS[id].map((pos) => <option key={pos} value={pos}>{pos}</option>)}
+              </select>
+            </label>
+          ))}
+          <button type="submit" className="rounded bg-ink px-4 py-2 font-semibold text-paper">Show readings for these positions</button>
+        </Form>
+      ) : null}
+
+      <section aria-labelledby="drawing" className="rounded-md border border-rule bg-white p-2">
+        <h2 id="drawing" className="sr-only">Drawing</h2>
+        <CircuitDrawing powered={powered} loads={walk.loadNames} highlight={highlight}
+          points={walk.probePoints.map((p, i) => ({ step: p.step, label: p.label, side: p.side, code: p.colour, ...paint[i], expectWords: expectWords(p.expect) }))} />
+        <p className="px-2 pb-1 text-sm"><span className="font-semibold">{walk.loadNames.length > 1 ? "Loads" : "Load"}:</span> {walk.loadNames.join(" · ")}</p>
+      </section>
+
+      {diagnosis ? (
+        <section aria-live="polite" aria-labelledby="verdict" className={`rounded-md border-l-4 p-4 ${diagnosis.fault ? "border-signal bg-white" : "border-ink bg-white"}`} data-testid="diagnosis">
+          <h2 id="verdict" className="text-xl font-bold">
+            {diagnosis.fault ? `The fault lies between step ${diagnosis.fault.between[0]} and step ${diagnosis.fault.between[1]}` : "No fault located yet"}
+          </h2>
+          {diagnosis.fault ? (
+            <>
+              <p className="mt-1">{diagnosis.fault.reason}</p>
+              <p className="mt-2 font-semibold">Look at:</p>
+              <ul className="list-disc pl-6">{diagnosis.fault.likely.map((l, i) => <li key={i}>{l}</li>)}</ul>
+            </>
+          ) : <p className="mt-1">Every reading you entered is as expected.</p>}
+          {diagnosis.next ? <p className="mt-2"><strong>Measure step {diagnosis.next} next</strong> — it halves what is left to search.</p> : null}
+        </section>
+      ) : null}
+
+      <Form method="post" className="space-y-3" aria-label="Your readings">
+        {Object.entries(walk.switches).map(([k, v]) => <input key={k} type="hidden" name={k} value={v} />)}
+        {errors.form ? <p role="alert" className="font-semibold text-signal-dark">{errors.form}</p> : null}
+        <div className="overflow-x-auto">
+          <table className="w-full border-collapse bg-white text-left text-[0.95rem]">
+            <thead className="border-b-2 border-ink">
+              <tr><th className="p-2">Step</th><th className="p-2">Where</th><th className="p-2">Wire</th><th className="p-2">Expect</th><th className="p-2">How</th><th className="p-2 no-print">Your reading</th></tr>
+            </thead>
+            <tbody>
+              {walk.probePoints.map((p) => (
+                <tr key={p.step} data-step={p.step} className={`border-b border-rule align-top ${highlight.includes(p.step) ? "bg-caution" : ""}`}>
+                  <th scope="row" className="p-2 text-lg">{p.step}</th>
+                  <td className="p-2">{p.connector ? <Link to={`/connectors/${p.connector}?cavity=${encodeURIComponent(p.cavity)}#pin-${p.cavity}`} className="text-signal-dark underline">{p.label}</Link> : p.label}</td>
+                  <td className="p-2"><code className="font-semibold">{p.colour ?? "—"}</code></td>
+                  <td className="p-2 whitespace-nowrap">{expectWords(p.expect)}</td>
+                  <td className="p-2 text-sm">{p.how}</td>
+                  <td className="p-2 no-print">
+                    <label className="sr-only" htmlFor={`r${p.step}`}>Reading at step {p.step} ({p.expect.unit})</label>
+                    <span className="flex items-center gap-1">
+                      <input id={`r${p.step}`} name={`r${p.step}`} inputMode="decimal" defaultValue={values[p.step] ?? ""} aria-invalid={errors[p.step] ? true : undefined}
+                        aria-describedby={errors[p.step] ? `e${p.step}` : undefined} className="w-24 rounded border-2 border-ink px-2 py-1" />
+                      <span className="text-sm">{p.expect.unit}</span>
+                    </span>
+                    {errors[p.step] ? <span id={`e${p.step}`} className="mt-1 block text-sm font-semibold text-signal-dark">{errors[p.step]}</span> : null}
+                  </td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
+        <button type="submit" className="no-print rounded bg-signal px-5 py-2 text-lg font-semibold text-white hover:bg-signal-dark" disabled={nav.state === "submitting"}>
+          {nav.state === "submitting" ? "Working it out…" : "Where is the fault?"}
+        </button>
+        <p className="text-sm text-muted">
+          How this works: with the meter drawing no current, every point joined to battery + by closed contacts reads battery voltage and every point joined to battery − reads 0 V.
+          An open switch, fuse, connector or wire shows as the first point on the supply side that loses its voltage — or, on the return side, a point that floats up to battery voltage.
+          When every point reads right yet nothing works, nothing is flowing to show a drop: measure the load itself.
+        </p>
+      </Form>
+    </div>
+  );
+}

@@ -1,0 +1,44 @@
+import { z } from "zod";
+
+const finite = z.number({ error: "must be a number" }).finite("must be a finite number");
+
+export const finderBody = z.object({
+  wires: z.array(z.string().trim().min(1, "an empty wire colour").max(60)).min(1, "give at least one wire colour").max(40, "at most 40 wires"),
+  pinCount: z.number().int().min(1).max(200).optional(),
+  gender: z.enum(["plug", "socket"]).optional(),
+  family: z.string().max(120).optional(),
+  familyMode: z.enum(["filter", "boost"]).optional(),
+  system: z.string().max(40).optional(),
+  notation: z.enum(["auto", "jis", "iec", "din", "bs", "en"]).optional(),
+  limit: z.number().int().min(1).max(50).optional(),
+});
+
+export const wireSizeBody = z.object({
+  currentA: finite.positive("must be more than 0 A").max(1000),
+  lengthM: finite.positive("must be more than 0 m").max(100),
+  systemV: finite.positive().max(100).default(12),
+  maxDropPct: finite.positive().max(50).default(3),
+  roundTrip: z.boolean().default(true),
+  tempC: finite.min(-50).max(250).default(20),
+});
+
+export const benchBody = z.object({
+  readings: z.array(z.object({
+    name: z.string().trim().min(1).max(120),
+    min: finite,
+    max: finite,
+    unit: z.string().trim().min(1).max(12),
+    measured: finite,
+    tempC: finite.min(-50).max(250).optional().nullable(),
+    copper: z.boolean().optional().nullable(),
+  })).min(1, "give at least one reading").max(200),
+});
+
+export const diagnoseBody = z.object({
+  switches: z.record(z.string(), z.string()).default({}),
+  readings: z.array(z.object({
+    step: z.number().int().min(1),
+    // An ohmmeter's "OL" (over limit: open circuit) is accepted as a reading too.
+    value: z.union([finite, z.literal("OL"), z.literal("open")]).transform((v) => (typeof v === "number" ? v : Number.POSITIVE_INFINITY)),
+  })).max(200),
+});
