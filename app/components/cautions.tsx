@@ -26,7 +26,7 @@ export function Cautions({ kinds, className = "" }: { kinds: CautionKind[]; clas
           <li key={k}><span className="font-semibold">{TEXT[k].title}:</span> {TEXT[k].body}</li>
         ))}
       </ul>
-      <p className="mt-1 text-sm print:text-[8pt]">The factory service manual, your local road-worthiness rules and a qualified mechanic take precedence over this card.</p>
+      <p className="mt-1 text-sm print:text-[8pt]">The factory service manual, your local road-worthiness rules and a qualified mechanic take precedence over anything shown here.</p>
     </aside>
   );
 }

@@ -2,11 +2,31 @@
  * A circuit as a loop: supply points along the top from the battery, the load(s) at the right, the return
  * along the bottom back to the battery's negative post. Numbered probe points; every point labelled in words.
  */
-export interface DrawnPoint { step: number; label: string; side: "supply" | "return"; code: string | null; baseHex: string | null; tracerHex: string | null; expectWords: string }
+export interface DrawnPoint {
+  step: number; label: string; side: "supply" | "return"; code: string | null; baseHex: string | null; tracerHex: string | null; expectWords: string;
+  after: number | null; before: number | null;
+}
+
+/** How many points lie between a point and the battery along its own path (branches of a parallel feed share a depth). */
+function depths(points: DrawnPoint[], link: "after" | "before") {
+  const by = new Map(points.map((p) => [p.step, p]));
+  const memo = new Map<number, number>();
+  const depth = (p: DrawnPoint, guard = 0): number => {
+    if (memo.has(p.step)) return memo.get(p.step)!;
+    const next = p[link] !== null ? by.get(p[link]!) : undefined;
+    const d = next && guard < points.length ? depth(next, guard + 1) + 1 : 0;
+    memo.set(p.step, d);
+    return d;
+  };
+  return (p: DrawnPoint) => depth(p);
+}
 
 export function CircuitDrawing({ points, loads, powered, highlight = [] }: { points: DrawnPoint[]; loads: string[]; powered: boolean; highlight?: number[] }) {
-  const top = points.filter((p) => p.side === "supply");
-  const bottom = points.filter((p) => p.side === "return").reverse();
+  // Supply: from the battery outwards; return: the battery − at the far left, so current runs round the loop.
+  const fromPlus = depths(points, "after");
+  const toMinus = depths(points, "before");
+  const top = points.filter((p) => p.side === "supply").sort((a, b) => fromPlus(a) - fromPlus(b) || a.step - b.step);
+  const bottom = points.filter((p) => p.side === "return").sort((a, b) => toMinus(a) - toMinus(b) || a.step - b.step);
   const cols = Math.max(top.length, bottom.length, 2);
   const gap = 74;
   const left = 70;
@@ -53,8 +73,7 @@ export function CircuitDrawing({ points, loads, powered, highlight = [] }: { poi
         <rect x={loadX - 34} y={(yTop + yBot) / 2 - 22} width={68} height={44} rx={6} fill="#fff1c2" stroke="#1d2327" strokeWidth={2} />
         <text x={loadX} y={(yTop + yBot) / 2 + 4} textAnchor="middle" fontSize={11} fontWeight={700}>{loads.length > 1 ? `${loads.length} loads` : "load"}</text>
       </g>
-      <text x={left} y={18} fontSize={11} fill="#5b646b">{powered ? "supply side (battery + → load)" : "one lead on step 1 throughout"}</text>
-      <text x={left} y={height - 6} fontSize={11} fill="#5b646b">{powered ? "return side (load → battery −)" : "through the load and back"}</text>
+
       {top.map((p, i) => dot(p, x(i, top.length), yTop, false))}
       {bottom.map((p, i) => dot(p, x(i, bottom.length), yBot, true))}
     </svg>

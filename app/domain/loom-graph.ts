@@ -41,7 +41,8 @@ export function conducts(e: GraphEdge, switches: SwitchState): boolean {
 export function resolveSwitches(partial: Record<string, string>): { ok: true; value: SwitchState } | { ok: false; error: string } {
   const value = { ...RIDING_POSITIONS };
   for (const [id, pos] of Object.entries(partial)) {
-    const allowed = SWITCH_POSITIONS[id as SwitchId] as readonly string[] | undefined;
+    // Own keys only: "constructor" or "__proto__" must not find Object.prototype's members.
+    const allowed = Object.hasOwn(SWITCH_POSITIONS, id) ? (SWITCH_POSITIONS[id as SwitchId] as readonly string[]) : undefined;
     if (!allowed) return { ok: false, error: `"${id}" is not a switch; use one of ${Object.keys(SWITCH_POSITIONS).join(", ")}` };
     if (!allowed.includes(pos)) return { ok: false, error: `"${pos}" is not a position of the ${id} switch; use ${allowed.join(" or ")}` };
     value[id as SwitchId] = pos;

@@ -9,6 +9,7 @@
 
 import { COLOUR_SYSTEM_IDS, encodeColour, type ColourName, type ColourSystemId } from "./colours";
 import {
+  SHORT_TERM_A_PER_MM2,
   AMPACITY_A_PER_MM2,
   AWG_GAUGES,
   CIRCUIT_KINDS,
@@ -53,8 +54,10 @@ export interface PlannerCircuit {
   loadBasis: string;
   /** Ids of the wires current passes in this circuit, supply and return. */
   wires: string[];
-  /** The factory fuse on its supply path, if any. */
+  /** The factory fuse on its supply path nearest the load, if any. */
   fuse: { name: string; ratingA: number } | null;
+  /** Every factory fuse on its supply path, battery first (the main fuse feeds every circuit behind it). Defaults to [fuse]. */
+  fusesOnPath?: { name: string; ratingA: number }[];
 }
 
 /** What the builder asks for: the family's circuits and wires, the circuits to keep, and how to colour and measure. */
@@ -122,8 +125,8 @@ export const MAX_RUN_M = 10;
 export const ASSUMED_RUN_M = 1.0;
 /** A starting circuit drawing at least this much is the starter motor itself (cranking, rule of thumb 100–150 A); nothing else on the loom comes close. */
 export const CRANKING_MIN_A = 50;
-/** Short-term current per mm² of copper (German automotive practice, rule of thumb): what a starter cable may carry for the seconds it cranks. */
-export const SHORT_TERM_A_PER_MM2 = 10;
+/** Short-term current per mm² (wire-size.ts): what a starter cable may carry for the seconds it cranks. */
+export { SHORT_TERM_A_PER_MM2 };
 /** The nominal voltage nominalLoadA divides by (REFERENCE-FACTS §5: 6 cells ≈ 12 V). */
 export const NOMINAL_V = 12;
 
@@ -441,13 +444,13 @@ function buildPlan(input: PlannerInput): PlanResult {
   const totals = { wires: rows.length, lengthM: round3(rows.reduce((s, r) => s + r.lengthM, 0)), byGauge };
 
   const assumptions = [
-    `Conductor temperature ${fmt(tempC)} °C${input.tempC === undefined ? " (the default; copper's resistance rises 0.393 %/°C, so give tempC for a hot run)" : ""}; system ${fmt(systemV)} V${input.systemV === undefined ? " (the default)" : ""}.`,
-    "Each wire is sized on its own one-way length (roundTrip false): its return is another row or the frame. The drop target applies to each wire; a circuit's total drop is the sum of its wires' dropV.",
+    `Conductor temperature ${fmt(tempC)} °C${input.tempC === undefined ? " (the default; copper's resistance rises 0.393 %/°C, so choose a higher temperature for a hot run)" : ""}; system ${fmt(systemV)} V${input.systemV === undefined ? " (the default)" : ""}.`,
+    "Each wire is sized on its own length: its return is another row of the list or the frame. The drop target applies to each wire; a circuit's total drop is the sum of its wires' drops.",
     "Drop targets: 3 % for ignition and charging, 10 % for the rest (ABYC critical / non-critical); a shared wire takes the strictest of its circuits.",
     `Ampacity: at most ${AMPACITY_A_PER_MM2} A/mm² continuous, a rule of thumb of German automotive practice, not a standard.`,
     `No wire thinner than ${MIN_PRACTICAL_MM2} mm², for mechanical strength (common practice).`,
-    `Fuses: the smallest standard rating at or above ${FUSE_MARGIN} × the current behind it (common practice), and no more than the thinnest wire it protects carries by the ${AMPACITY_A_PER_MM2} A/mm² rule.`,
-    ...kept.map((c) => `Load of ${c.name}: ${fmt(c.loadA)} A, nominal (rule of thumb)${c.loadBasis ? `: ${c.loadBasis}` : ""}.`),
+    `Fuses: the smallest standard rating at or above ${FUSE_MARGIN} × the current behind it (common practice), and no more than the thinnest wire it protects stands short-term by the ${SHORT_TERM_A_PER_MM2} A/mm² rule of thumb.`,
+    ...kept.map((c) => `Load of ${c.name}: ${fmt(c.loadA)} A${c.loadBasis ? ` — ${c.loadBasis}` : ""}.`),
   ];
   if (kept.some(isCranking)) {
     assumptions.push(`Starter cables: sized for the cranking drop with the short-term ${SHORT_TERM_A_PER_MM2} A/mm² rule of thumb, not continuous ampacity; usually unfused.`);
@@ -457,14 +460,18 @@ function buildPlan(input: PlannerInput): PlanResult {
   if (ignored.length > 0) assumptions.push(`Lengths entered for ${ignored.join(", ")} are unused: no kept circuit passes ${ignored.length === 1 ? "that wire" : "those wires"}.`);
   assumptions.push(
     input.scheme === "factory"
-      ? `Colours: the factory's, written in ${input.notation}.`
-      : `Colours: Loomlore's simple scheme, written in ${input.notation}: ${SIMPLE_SCHEME.join("; ")}.`,
+      ? `Colours: the factory's, written in ${NOTATION_WORDS[input.notation]}.`
+      : `Colours: Loomlore's simple scheme, written in ${NOTATION_WORDS[input.notation]}: ${SIMPLE_SCHEME.join("; ")}.`,
   );
 
   return { rows, fuses, dropped, totals, assumptions };
 }
 
 const round3 = (x: number) => Math.round(x * 1000) / 1000;
+
+const NOTATION_WORDS: Record<ColourSystemId, string> = {
+  jis: "Japanese-style letter codes", iec: "IEC 60757 codes", din: "DIN abbreviations", bs: "the older British letter code", en: "English names",
+};
 
 function colourRows(
   rows: CutRow[],
@@ -512,28 +519,38 @@ function planFuses(
   tempC: number,
   systemV: number,
 ): FuseRow[] {
+  const pathOf = (c: PlannerCircuit) => c.fusesOnPath ?? (c.fuse ? [c.fuse] : []);
+  // A fuse carries the current of every kept circuit whose supply passes through it, not only of those it is nearest to:
+  // the main fuse feeds the lot (Kirchhoff's current law).
   const groups = new Map<string, PlannerCircuit[]>();
+  const ratingOf = new Map<string, number>();
   for (const c of kept) {
-    if (!c.fuse) continue;
-    const list = groups.get(c.fuse.name);
-    if (list) list.push(c);
-    else groups.set(c.fuse.name, [c]);
+    for (const f of pathOf(c)) {
+      ratingOf.set(f.name, f.ratingA);
+      const list = groups.get(f.name);
+      if (list) list.push(c);
+      else groups.set(f.name, [c]);
+    }
   }
+  // A wire is protected by the nearest fuse that every circuit using it (in the factory loom) passes through.
+  const protector = (wire: string): string | null => {
+    const paths = all.filter((c) => Array.isArray(c.wires) && c.wires.includes(wire)).map(pathOf);
+    if (!paths.length || paths.some((p) => p.length === 0)) return null;
+    const common = paths[0].filter((f) => paths.every((p) => p.some((x) => x.name === f.name)));
+    return common.at(-1)?.name ?? null;
+  };
   const fuses: FuseRow[] = [];
   for (const [name, cs] of groups) {
-    // Downstream of a fuse only its own circuits' current flows, so a wire that (in the factory loom)
-    // also serves a circuit on another fuse, or on none, lies upstream of it. Earth returns and
-    // signal wires are not on its supply path: a short to the frame bypasses them.
+    // Earth returns and signal wires are not on a fuse's supply path: a short to the frame bypasses them.
     const protectedRows = rows.filter((r) => {
       const w = wiresById.get(r.wire)!;
       if (isEarth(w) || w.feed === "signal") return false;
-      const users = all.filter((c) => Array.isArray(c.wires) && c.wires.includes(r.wire));
-      return users.length > 0 && users.every((c) => c.fuse?.name === name);
+      return protector(r.wire) === name;
     });
     const currentA = cs.reduce((s, c) => s + c.loadA, 0);
     const needA = FUSE_MARGIN * currentA;
-    const factory = cs[0].fuse!.ratingA;
-    const factoryRatings = [...new Set(cs.map((c) => c.fuse!.ratingA))];
+    const factory = ratingOf.get(name)!;
+    const factoryRatings = [factory];
     const candidate = FUSE_RATINGS_A.find((r) => r >= needA * (1 - EPS));
     const parts: string[] = [
       `"${name}": kept circuits draw ${fmt(currentA)} A; ${FUSE_MARGIN} × ${fmt(currentA)} A = ${fmt(needA)} A (common practice).`,
@@ -550,14 +567,14 @@ function planFuses(
       } else {
         const thinnest = protectedRows.reduce((a, b) => (b.sizeMm2 < a.sizeMm2 ? b : a));
         const thinnestMm2 = thinnest.sizeMm2; // before any upsizing below
-        const limitA = AMPACITY_A_PER_MM2 * thinnestMm2;
+        const limitA = SHORT_TERM_A_PER_MM2 * thinnestMm2;
         if (candidate > limitA * (1 + EPS)) {
           // The fuse protects the wire: rather than a fuse the wire cannot carry, the wire grows to the fuse.
-          const needMm2 = candidate / AMPACITY_A_PER_MM2;
+          const needMm2 = candidate / SHORT_TERM_A_PER_MM2;
           const size = smallestMetric(needMm2)!;
           const grown: string[] = [];
           for (const r of protectedRows) {
-            if (AMPACITY_A_PER_MM2 * r.sizeMm2 >= candidate * (1 - EPS)) continue;
+            if (SHORT_TERM_A_PER_MM2 * r.sizeMm2 >= candidate * (1 - EPS)) continue;
             const from = r.sizeMm2;
             r.sizeMm2 = size;
             const g = smallestAwg(needMm2);
@@ -565,15 +582,15 @@ function planFuses(
             r.dropV = r.currentA > 0 ? r.currentA * conductorResistance(size, r.lengthM, tempC) : 0;
             r.dropPct = (r.dropV / systemV) * 100;
             r.decidedBy = "ampacity";
-            r.notes.push(`Upsized from ${from} to ${size} mm² so the ${candidate} A fuse "${name}" protects it (${AMPACITY_A_PER_MM2} A/mm² rule of thumb).`);
+            r.notes.push(`Upsized from ${from} to ${size} mm² so the ${candidate} A fuse "${name}" protects it (${SHORT_TERM_A_PER_MM2} A/mm² rule of thumb).`);
             grown.push(r.wire);
           }
           parts.push(
-            `The thinnest wire it protects (${thinnest.wire}, ${fmt(thinnestMm2)} mm²) carries only ${fmt(limitA)} A by the ${AMPACITY_A_PER_MM2} A/mm² rule of thumb, ` +
+            `The thinnest wire it protects (${thinnest.wire}, ${fmt(thinnestMm2)} mm²) carries only ${fmt(limitA)} A by the ${SHORT_TERM_A_PER_MM2} A/mm² rule of thumb, ` +
               `so ${grown.join(", ")} ${grown.length === 1 ? "is" : "are"} upsized to ${size} mm² (or split these circuits across smaller fuses).`,
           );
         } else {
-          parts.push(`The thinnest wire it protects (${thinnest.wire}, ${fmt(thinnestMm2)} mm²) carries ${fmt(limitA)} A by the ${AMPACITY_A_PER_MM2} A/mm² rule of thumb.`);
+          parts.push(`The thinnest wire it protects (${thinnest.wire}, ${fmt(thinnestMm2)} mm²) carries ${fmt(limitA)} A by the ${SHORT_TERM_A_PER_MM2} A/mm² rule of thumb.`);
         }
       }
     }
@@ -668,7 +685,7 @@ const LOAD_KINDS: readonly LoadKind[] = [
   { match: /pick-?up|pulser|sensor|signal generator|trigger/i, what: "pickup", amps: 0, source: "a few mA, taken as 0" },
   { match: /solenoid|starter relay|start relay/i, what: "starter solenoid coil", ohms: 3, source: "a solenoid coil of ≈ 3 Ω" },
   { match: /starter|starting motor|cranking/i, what: "starter motor", amps: 150, source: "cranking ≈ 100–150 A; the upper end taken" },
-  { match: /\bcoil/i, what: "ignition coil primary", ohms: 3, source: "coil primary ≈ 3 Ω, points closed (dwell lowers the average)" },
+  { match: /\bcoil/i, what: "ignition coil primary", ohms: 3, source: "coil primary ≈ 3 Ω while it is switched on (the dwell lowers the average)" },
   { match: /relay/i, what: "relay coil", ohms: 85, source: "a mini relay coil of ≈ 85 Ω" },
   { match: /igniter|ignition unit|\bcdi\b|control unit|ignition module/i, what: "electronic ignition unit", amps: 1, source: "≈ 1 A for the unit itself" },
   { match: /alternator|generator|dynamo|stator|charging|regulator|rectifier/i, what: "charging output", watts: 180, source: "a 150–200 W alternator of the era" },

@@ -24,6 +24,8 @@ export const COPPER_RESISTIVITY_20C = 0.017241;
 export const COPPER_ALPHA_20C = 0.00393;
 /** Continuous current per mm² of copper: a rule of thumb of German automotive practice, not a standard. */
 export const AMPACITY_A_PER_MM2 = 5;
+/** Short-term current density a wire stands, A/mm² (rule of thumb, German automotive practice): the fuse's limit. */
+export const SHORT_TERM_A_PER_MM2 = 10;
 /** Fuse margin over the continuous current: common practice, so a fuse doesn't blow at normal load. */
 export const FUSE_MARGIN = 1.25;
 /** Standard blade and glass fuse ratings, A. */
@@ -131,7 +133,7 @@ export interface WireSizeResult {
   maxDropPct: number;
   metric: { sizeMm2: number; series: "ISO 6722-1" | "Japanese"; dropV: number; dropPct: number; decidedBy: Constraint };
   awg: { gauge: number; label: string; areaMm2: number; dropV: number; dropPct: number; decidedBy: Constraint };
-  /** Smallest standard fuse ≥ 1.25 × current that neither chosen wire is too thin for; null when there is none (see warnings). */
+  /** Smallest standard fuse ≥ 1.25 × current; null only past the largest standard rating (see warnings). */
   fuseA: number | null;
   warnings: string[];
   basis: BasisEntry[];
@@ -206,22 +208,21 @@ export function wireSize(input: WireSizeInput): WireSizeResult {
     decidedBy: (gauge < gByDrop ? "ampacity" : "voltage-drop") as Constraint,
   };
 
-  // The fuse protects the wire, so it may not exceed what the thinner of the two chosen wires carries.
+  // The fuse protects the wire: it carries up to its rating until it opens, so it may not exceed what the thinner of
+  // the two chosen wires stands short-term (10 A/mm², the trade's short-term figure beside the 5 A/mm² continuous one).
   const warnings: string[] = [];
   const minFuseA = FUSE_MARGIN * currentA;
-  const wireLimitA = AMPACITY_A_PER_MM2 * Math.min(metric.sizeMm2, awg.areaMm2);
+  const wireLimitA = SHORT_TERM_A_PER_MM2 * Math.min(metric.sizeMm2, awg.areaMm2);
   const candidate = FUSE_RATINGS_A.find((r) => r >= minFuseA * (1 - EPS));
   let fuseA: number | null = null;
   if (candidate === undefined) {
     warnings.push(`No standard blade or glass fuse is rated ${fmt(minFuseA)} A (1.25 × ${fmt(currentA)} A) or more; the largest is ${FUSE_RATINGS_A[FUSE_RATINGS_A.length - 1]} A. Split the load.`);
   } else if (candidate > wireLimitA * (1 + EPS)) {
-    const mUp = smallestAtLeast(METRIC_SIZES_MM2, id, candidate / AMPACITY_A_PER_MM2);
-    const gUp = smallestAtLeast(AWG_BY_AREA, awgAreaMm2, candidate / AMPACITY_A_PER_MM2);
-    const upsize = mUp !== undefined && gUp !== undefined ? `; fit ${mUp} mm² or ${awgLabel(gUp)} to use a ${candidate} A fuse` : "";
     warnings.push(
-      `No standard fuse fits: the smallest at or above ${fmt(minFuseA)} A (1.25 × ${fmt(currentA)} A) is ${candidate} A, ` +
-        `more than ${metric.sizeMm2} mm² / ${awg.label} carries by the 5 A/mm² rule of thumb (${fmt(wireLimitA)} A)${upsize}.`,
+      `The ${candidate} A fuse (the smallest at or above 1.25 × ${fmt(currentA)} A) is more than ${metric.sizeMm2} mm² / ${awg.label} stands short-term ` +
+        `(${fmt(wireLimitA)} A at 10 A/mm², rule of thumb): use the next size up.`,
     );
+    fuseA = candidate;
   } else {
     fuseA = candidate;
   }
@@ -243,7 +244,8 @@ export function wireSize(input: WireSizeInput): WireSizeResult {
       source: `${fmt(maxDropPct)} % of ${fmt(systemV)} V${dropDefaulted ? " (default: ABYC 3 % for critical circuits, 10 % for the rest)" : ""}`,
     },
     { quantity: "continuous current density", value: AMPACITY_A_PER_MM2, unit: "A/mm²", source: "rule of thumb (German automotive practice), not a standard" },
-    { quantity: "fuse margin", value: FUSE_MARGIN, unit: "× current", source: "common practice: fuse ≥ 1.25 × continuous current, and no more than the wire carries" },
+    { quantity: "fuse margin", value: FUSE_MARGIN, unit: "× current", source: "common practice: fuse ≥ 1.25 × continuous current" },
+    { quantity: "short-term current density (fuse limit)", value: SHORT_TERM_A_PER_MM2, unit: "A/mm²", source: "rule of thumb (German automotive practice): the fuse must not exceed what the wire stands short-term" },
     {
       quantity: "metric size",
       value: metric.sizeMm2,

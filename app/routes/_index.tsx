@@ -41,6 +41,25 @@ export default function Home({ loaderData }: Route.ComponentProps) {
         {missed ? <p role="status" className="mt-2 font-semibold text-signal-dark">No single family matches “{typed}”. Pick one from the list below.</p> : null}
       </section>
 
+      <section aria-labelledby="tools-heading">
+        <h2 id="tools-heading" className="text-xl font-bold">Workshop tools</h2>
+        <ul className="mt-2 grid gap-3 sm:grid-cols-2 lg:grid-cols-4">
+          {[
+            { to: "/finder", title: "Colour finder", body: "The plug is gone: enter the colours left on the wires and see which connector they came from." },
+            { to: "/families/rx750-four/circuits", title: "Circuit walk", body: "Follow a circuit point by point with what your meter should read, and find where the power stops." },
+            { to: "/bench", title: "Bench sheet", body: "Check coil, pickup and wire resistances against spec, corrected to 20 °C." },
+            { to: "/planner", title: "Loom planner", body: "Keep the circuits you need and get a cut list with wire sizes and fuses." },
+          ].map((t) => (
+            <li key={t.to}>
+              <Link to={t.to} className="block h-full rounded-md border border-rule bg-white p-3 text-ink no-underline hover:border-ink">
+                <span className="block font-semibold text-signal-dark underline">{t.title}</span>
+                <span className="mt-1 block text-sm text-muted">{t.body}</span>
+              </Link>
+            </li>
+          ))}
+        </ul>
+      </section>
+
       <section aria-labelledby="makes-heading">
         <h2 id="makes-heading" className="sr-only">Makes and families</h2>
         <div className="grid gap-5 md:grid-cols-3">

@@ -30,10 +30,11 @@ export async function loader({ request }: Route.LoaderArgs) {
     const card = await getConnectorCard(slug);
     if (card) {
       source = { slug, name: `${card.connector.family.name}: ${card.connector.name}` };
-      rows = card.connector.specs.map((s) => ({ name: `${s.name} (cavities ${s.between.join("–")})`, min: String(s.min), max: String(s.max), unit: s.unit, measured: "", tempC: "", copper: "" }));
+      rows = card.connector.specs.map((s) => ({ name: `${s.name}, between cavities ${s.between[0]} and ${s.between[1]}`, min: String(s.min), max: String(s.max), unit: s.unit, measured: "", tempC: "", copper: "" }));
     }
   }
-  const blanks = Math.max(0, Math.min(MAX_ROWS, Number(q.get("rows")) || rows.length + 3) - rows.length);
+  // Two spare rows for a new sheet; "Add rows" asks for more. Checking a sheet never grows it by itself.
+  const blanks = Math.max(0, Math.min(MAX_ROWS, Number(q.get("rows")) || rows.length + 2) - rows.length);
   const results: (BenchResult | { error: string; field: string } | null)[] = rows.map((r, i) => {
     if (r.measured.trim() === "") return null;
     try {
@@ -65,7 +66,7 @@ export default function BenchPage({ loaderData }: Route.ComponentProps) {
         {source ? <p className="mt-2">Started from the card <Link to={`/connectors/${source.slug}`} className="font-semibold text-signal-dark underline">{source.name}</Link>.</p> : null}
       </header>
       <Form method="get" aria-label="Bench readings">
-        <div className="overflow-x-auto">
+        <div className="relative overflow-x-auto">
           <table className="w-full min-w-[860px] border-collapse bg-white text-left text-[0.95rem] print:min-w-0 print:text-[9pt]">
             <thead className="border-b-2 border-ink">
               <tr><th className="p-1.5">What</th><th className="p-1.5">Min</th><th className="p-1.5">Max</th><th className="p-1.5">Unit</th><th className="p-1.5">Measured</th><th className="p-1.5">At °C</th><th className="p-1.5">Copper?</th><th className="p-1.5">At 20 °C</th><th className="p-1.5">Verdict</th></tr>
@@ -86,7 +87,7 @@ export default function BenchPage({ loaderData }: Route.ComponentProps) {
                       </select>
                     </td>
                     <td className="p-1.5"><input aria-label={`Row ${i + 1}: measured`} name={`m${i}`} defaultValue={r.measured} inputMode="decimal" aria-invalid={err ? true : undefined} className={`${input} w-24 font-semibold`} /></td>
-                    <td className="p-1.5"><input aria-label={`Row ${i + 1}: temperature °C`} name={`t${i}`} defaultValue={r.tempC} inputMode="decimal" className={`${input} w-16`} placeholder="20" /></td>
+                    <td className="p-1.5"><input aria-label={`Row ${i + 1}: temperature °C`} name={`t${i}`} defaultValue={r.tempC} inputMode="decimal" className={`${input} w-16`} placeholder="°C" /></td>
                     <td className="p-1.5">
                       <select aria-label={`Row ${i + 1}: copper winding`} name={`cu${i}`} defaultValue={r.copper} className="rounded border-2 border-ink/70 bg-white px-1 py-1">
                         <option value="">auto</option><option value="yes">copper</option><option value="no">not copper</option>
@@ -103,9 +104,9 @@ export default function BenchPage({ loaderData }: Route.ComponentProps) {
             </tbody>
           </table>
         </div>
-        <input type="hidden" name="rows" value={rows.length + 2} />
         <div className="no-print mt-3 flex flex-wrap items-center gap-3">
-          <button type="submit" className="rounded bg-signal px-4 py-2 font-semibold text-white hover:bg-signal-dark">Check readings</button>
+          <button type="submit" name="rows" value={rows.length} className="rounded bg-signal px-4 py-2 font-semibold text-white hover:bg-signal-dark">Check readings</button>
+          <button type="submit" name="rows" value={Math.min(MAX_ROWS, rows.length + 3)} className="rounded border-2 border-ink bg-white px-3 py-1.5 font-semibold">Add rows</button>
           <span className="text-sm text-muted">The sheet lives in its address: bookmark or share it{link ? <> (<a href={`/bench${link}`} className="underline">this sheet</a>)</> : null}, or print it.</span>
         </div>
       </Form>

@@ -101,7 +101,7 @@ export default function ConnectorCardPage({ loaderData }: Route.ComponentProps) 
               </li>
             ))}
           </ol>
-          <div className="hidden overflow-x-auto md:block print:block">
+          <div className="relative hidden overflow-x-auto md:block print:block">
             <table className="mt-2 w-full border-collapse bg-white text-left text-[0.95rem] print:mt-1 print:text-[8pt] print:leading-tight">
               <thead className="border-b-2 border-ink">
                 <tr>

@@ -108,7 +108,8 @@ export default function CircuitWalkPage({ loaderData, actionData }: Route.Compon
       <section aria-labelledby="drawing" className="rounded-md border border-rule bg-white p-2">
         <h2 id="drawing" className="sr-only">Drawing</h2>
         <CircuitDrawing powered={powered} loads={walk.loadNames} highlight={highlight}
-          points={walk.probePoints.map((p, i) => ({ step: p.step, label: p.label, side: p.side, code: p.colour, ...paint[i], expectWords: expectWords(p.expect) }))} />
+          points={walk.probePoints.map((p, i) => ({ step: p.step, label: p.label, side: p.side, code: p.colour, ...paint[i], expectWords: expectWords(p.expect), after: p.after, before: p.before }))} />
+        <p className="px-2 text-sm text-muted">{powered ? "Top: the supply side, battery + outwards (points fed in parallel sit side by side). Bottom: the return, back to the battery − post on the left." : "Top: from step 1 to the load. Bottom: from the load back."}</p>
         <p className="px-2 pb-1 text-sm"><span className="font-semibold">{walk.loadNames.length > 1 ? "Loads" : "Load"}:</span> {walk.loadNames.join(" · ")}</p>
       </section>
 
@@ -131,7 +132,7 @@ export default function CircuitWalkPage({ loaderData, actionData }: Route.Compon
       <Form method="post" className="space-y-3" aria-label="Your readings">
         {Object.entries(walk.switches).map(([k, v]) => <input key={k} type="hidden" name={k} value={v} />)}
         {errors.form ? <p role="alert" className="font-semibold text-signal-dark">{errors.form}</p> : null}
-        <div className="overflow-x-auto">
+        <div className="relative overflow-x-auto">
           <table className="w-full border-collapse bg-white text-left text-[0.95rem]">
             <thead className="border-b-2 border-ink">
               <tr><th className="p-2">Step</th><th className="p-2">Where</th><th className="p-2">Wire</th><th className="p-2">Expect</th><th className="p-2">How</th><th className="p-2 no-print">Your reading</th></tr>
@@ -165,6 +166,11 @@ export default function CircuitWalkPage({ loaderData, actionData }: Route.Compon
           How this works: with the meter drawing no current, every point joined to battery + by closed contacts reads battery voltage and every point joined to battery − reads 0 V.
           An open switch, fuse, connector or wire shows as the first point on the supply side that loses its voltage — or, on the return side, a point that floats up to battery voltage.
           When every point reads right yet nothing works, nothing is flowing to show a drop: measure the load itself.
+        </p>
+        <p className="text-sm text-muted">
+          Rule of thumb for the ranges: a healthy battery rests at about 12.6 V (flooded lead-acid, fully charged); 11.5–13.2 V allows for state of charge and the
+          current the ignition draws, and a point more than about 0.5 V below the battery reading has a poor contact before it. Resistances are the card&apos;s own spec values plus
+          up to 1 Ω for the loom&apos;s wires and terminals.
         </p>
       </Form>
     </div>

@@ -16,6 +16,7 @@ type Candidate = { connector: { slug: string; name: string; family: string; fami
 
 const splitWires = (raw: string) => raw.split(/[\n,;]+/).map((w) => w.trim()).filter(Boolean);
 const PICKABLE = COLOUR_NAMES.filter((c) => c !== "gold" && c !== "silver");
+const SYSTEMS = ["ignition", "charging", "starting", "lighting", "signals", "instruments"] as const;
 
 export async function loader({ request }: Route.LoaderArgs) {
   const url = new URL(request.url);
@@ -25,10 +26,11 @@ export async function loader({ request }: Route.LoaderArgs) {
   const gender = (["plug", "socket"] as const).find((g) => g === url.searchParams.get("gender"));
   const family = url.searchParams.get("family") || undefined;
   const familyMode = url.searchParams.get("familyMode") === "boost" ? "boost" as const : "filter" as const;
+  const system = SYSTEMS.find((s) => s === url.searchParams.get("system"));
   const { families } = await listFamilies({ limit: 100, offset: 0 });
-  const form = { wires: wires.join("\n"), pinCount: pinCount ? String(pinCount) : "", gender: gender ?? "", family: family ?? "", familyMode };
+  const form = { wires: wires.join("\n"), pinCount: pinCount ? String(pinCount) : "", gender: gender ?? "", family: family ?? "", familyMode, system: system ?? "" };
   if (!wires.length) return { form, families, candidates: null as Candidate[] | null, error: null as string | null, tookMs: null as number | null };
-  const { result, tookMs } = await findByColours({ wires, pinCount, gender, family, familyMode });
+  const { result, tookMs } = await findByColours({ wires, pinCount, gender, family, familyMode, system });
   if (!result.ok) return { form, families, candidates: null, error: result.error.message, tookMs };
   return { form, families, candidates: result.candidates as Candidate[], error: null, tookMs };
 }
@@ -55,7 +57,8 @@ export default function FinderPage({ loaderData }: Route.ComponentProps) {
     if (!wires.length) return;
     timer.current = setTimeout(() => {
       fetcher.submit(
-        { wires, ...(next.pinCount ? { pinCount: Number(next.pinCount) } : {}), ...(next.gender ? { gender: next.gender } : {}), ...(next.family ? { family: next.family, familyMode: next.familyMode } : {}) },
+        { wires, ...(next.pinCount ? { pinCount: Number(next.pinCount) } : {}), ...(next.gender ? { gender: next.gender } : {}), ...(next.system ? { system: next.system } : {}),
+          ...(next.family ? { family: next.family, familyMode: next.familyMode } : {}) },
         { method: "post", action: "/api/v1/colour-finder", encType: "application/json" },
       );
     }, 200);
@@ -100,6 +103,12 @@ export default function FinderPage({ loaderData }: Route.ComponentProps) {
               </select>
             </label>
           </div>
+          <label className="block text-sm font-semibold">System
+            <select name="system" value={state.system} onChange={(e) => update({ ...state, system: e.target.value })} className="mt-1 block w-full rounded border-2 border-ink bg-white px-2 py-1 text-base font-normal">
+              <option value="">any system</option>
+              {SYSTEMS.map((s) => <option key={s} value={s}>{s}</option>)}
+            </select>
+          </label>
           <label className="block text-sm font-semibold">Your bike&apos;s family
             <select name="family" value={state.family} onChange={(e) => update({ ...state, family: e.target.value })} className="mt-1 block w-full rounded border-2 border-ink bg-white px-2 py-1 text-base font-normal">
               <option value="">any family</option>
@@ -112,7 +121,7 @@ export default function FinderPage({ loaderData }: Route.ComponentProps) {
             <label><input type="radio" name="familyMode" value="boost" checked={state.familyMode === "boost"} onChange={() => update({ ...state, familyMode: "boost" })} /> rank it first</label>
           </fieldset>
           <button type="submit" className="rounded bg-signal px-4 py-2 font-semibold text-white hover:bg-signal-dark">Find connectors</button>
-          <p className="text-xs text-muted">
+          <p className="text-sm text-muted">
             Rule of thumb: faded insulation is matched using common workshop experience ({FADING_PAIRS.slice(0, 6).map(([a, b]) => `${a}↔${b}`).join(", ")} …);
             a missing tracer counts less against a match than a wrong base colour, and a wire the card has no place for counts most.
           </p>

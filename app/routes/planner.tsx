@@ -33,10 +33,11 @@ export default function PlannerPage({ loaderData }: Route.ComponentProps) {
         </p>
       </header>
       <Form method="get" className="space-y-4 rounded-md border border-rule bg-white p-4 no-print" aria-label="What to keep">
-        <input type="hidden" name="planned" value="1" />
+        {/* Marks "the boxes below were shown for this family": a first visit, or a new family, keeps every circuit. */}
+        {planned ? <input type="hidden" name="planned" value={planned.family.slug} /> : null}
         <div className="flex flex-wrap items-end gap-4">
           <label className="text-sm font-semibold">Family
-            <select name="family" defaultValue={query.family} className="mt-1 block rounded border-2 border-ink bg-white px-2 py-1.5 text-base font-normal">
+            <select name="family" defaultValue={query.family} className="mt-1 block w-full max-w-[calc(100vw-4rem)] rounded border-2 border-ink bg-white px-2 py-1.5 text-base font-normal">
               <option value="">choose…</option>
               {families.map((f) => <option key={f.slug} value={f.slug}>{f.make.name} {f.name} ({f.yearFrom}–{f.yearTo})</option>)}
             </select>
@@ -74,7 +75,7 @@ export default function PlannerPage({ loaderData }: Route.ComponentProps) {
 
       {plan && planned ? (
         <Form method="get" aria-label="Cut list">
-          {[["family", query.family], ["planned", "1"], ["scheme", query.scheme], ["tempC", String(query.tempC)], ...planned.keep.map((k) => ["keep", k])].map(([k, v], i) => <input key={i} type="hidden" name={k} value={v} />)}
+          {[["family", query.family], ["planned", query.family], ["scheme", query.scheme], ["tempC", String(query.tempC)], ...planned.keep.map((k) => ["keep", k])].map(([k, v], i) => <input key={i} type="hidden" name={k} value={v} />)}
           <section aria-labelledby="cut" className="space-y-2">
             <div className="flex flex-wrap items-baseline justify-between gap-2">
               <h2 id="cut" className="text-2xl font-bold">Cut list: {planned.family.name}</h2>
@@ -82,8 +83,9 @@ export default function PlannerPage({ loaderData }: Route.ComponentProps) {
                 <a href={`/planner/cut-list.csv${search}`} className="rounded border border-ink bg-white px-3 py-1.5 font-semibold no-underline">Download CSV</a>
               </span>
             </div>
-            <p className="text-sm">{plan.totals.wires} wires, {plan.totals.lengthM.toFixed(1)} m in all: {Object.entries(plan.totals.byGauge).map(([g, m]) => `${g} mm² × ${m.toFixed(1)} m`).join(" · ")}.</p>
-            <div className="overflow-x-auto">
+            <p className="text-sm">{plan.totals.wires} wires, {plan.totals.lengthM.toFixed(1)} m in all: {Object.entries(plan.totals.byGauge).sort(([a], [b]) => Number(a) - Number(b)).map(([g, m]) => `${g} mm² × ${m.toFixed(1)} m`).join(" · ")}.</p>
+            <p className="text-sm text-muted">Lengths: type your own run lengths (metres) where you know them; empty boxes use the family&apos;s default shown in grey.</p>
+            <div className="relative overflow-x-auto">
               <table className="w-full min-w-[980px] border-collapse bg-white text-left text-[0.92rem] print:min-w-0 print:text-[8pt]">
                 <thead className="border-b-2 border-ink">
                   <tr><th className="p-1.5">From</th><th className="p-1.5">To</th><th className="p-1.5">Colour</th><th className="p-1.5">Length (m)</th><th className="p-1.5">Current</th><th className="p-1.5">Size</th><th className="p-1.5">Drop</th><th className="p-1.5">Why this size</th></tr>
@@ -95,7 +97,7 @@ export default function PlannerPage({ loaderData }: Route.ComponentProps) {
                       <td className="p-1.5">{r.to}</td>
                       <td className="p-1.5 whitespace-nowrap"><ColourChip baseHex={r.colours[0] ? swatch(r.colours[0]).hex : null} tracerHexes={r.colours.slice(1).map((c) => swatch(c).hex)} code={r.colour} /></td>
                       <td className="p-1.5">
-                        <input name={`len_${r.wire}`} aria-label={`Length of ${r.from} to ${r.to}, metres`} defaultValue={query.lengthsM[r.wire] ?? r.lengthM} inputMode="decimal"
+                        <input name={`len_${r.wire}`} aria-label={`Length of ${r.from} to ${r.to}, metres`} defaultValue={query.lengthsM[r.wire] ?? ""} placeholder={String(r.lengthM)} inputMode="decimal"
                           aria-invalid={errors[`len_${r.wire}`] ? true : undefined} className="w-16 rounded border-2 border-ink/70 px-1 py-0.5 print:border-0" />
                         <span className="block text-xs text-muted">{r.lengthSource}</span>
                         {errors[`len_${r.wire}`] ? <span className="block text-xs font-semibold text-signal-dark">{errors[`len_${r.wire}`]}</span> : null}

@@ -179,13 +179,17 @@ export async function plannerData(familySlug: string) {
   const circuits = f.circuits.map((c) => {
     const sw = resolveSwitches(c.switches);
     const ids = new Set<string>();
-    let fuse: { name: string; ratingA: number } | null = null;
+    // Every fuse on the supply path, battery first: the last one is nearest the load.
+    const fusesOnPath: { name: string; ratingA: number }[] = [];
     for (const load of c.def.loads) {
       const loop = f.graph.loop(c.def.from, load, c.def.to, sw.ok ? sw.value : riding);
       for (const e of [...(loop?.supply.edges ?? []), ...(loop?.ret.edges ?? [])]) if (e.kind === "wire") ids.add(e.id);
-      // The fuse nearest the load protects this circuit's own wires.
-      for (const e of loop?.supply.edges ?? []) if (f.fuses.has(e.id)) fuse = f.fuses.get(e.id)!;
+      for (const e of loop?.supply.edges ?? []) {
+        const fz = f.fuses.get(e.id);
+        if (fz && !fusesOnPath.some((x) => x.name === fz.name)) fusesOnPath.push(fz);
+      }
     }
+    const fuse = fusesOnPath.at(-1) ?? null;
     const loads = c.def.loads.map((l) => {
       // A load whose card gives its resistance draws I = U / R (Ohm's law) at 12 V; otherwise a rule of thumb.
       const spec = f.loadSpec(l);
@@ -196,7 +200,7 @@ export async function plannerData(familySlug: string) {
       return loadCurrent(linkComp.get(l.id)?.kind ?? "load", linkComp.get(l.id)?.label ?? "");
     });
     return {
-      slug: c.slug, name: c.name, system: c.system, wires: [...ids], fuse,
+      slug: c.slug, name: c.name, system: c.system, wires: [...ids], fuse, fusesOnPath,
       loadA: c.def.powered ? loads.reduce((s, l) => s + l.amps, 0) : 0,
       loadBasis: c.def.powered ? loads.map((l) => l.basis).join("; ") : "signal loop: no load current",
     };

@@ -5,7 +5,7 @@ import { plannerData } from "./circuits.server";
 
 export interface PlanQuery { family: string; keep: string[] | null; scheme: "factory" | "simple"; tempC: number; lengthsM: Record<string, number> }
 
-/** Parse the planner's query string: ?family=&keep=…&keep=…&scheme=&tempC=&len_w12=1.4 (planned=1 marks a submitted form). */
+/** Parse the planner's query string: ?family=&keep=…&keep=…&scheme=&tempC=&len_w12=1.4 (planned=<family> marks a submitted form). */
 export function parsePlanQuery(url: URL): { query: PlanQuery; errors: Record<string, string> } {
   const q = url.searchParams;
   const errors: Record<string, string> = {};
@@ -20,7 +20,8 @@ export function parsePlanQuery(url: URL): { query: PlanQuery; errors: Record<str
   return {
     query: {
       family: q.get("family") ?? "",
-      keep: q.get("planned") ? q.getAll("keep") : null,
+      // The boxes count only when they were shown for this same family; otherwise every circuit is kept.
+      keep: q.get("planned") && q.get("planned") === q.get("family") ? q.getAll("keep") : null,
       scheme: q.get("scheme") === "simple" ? "simple" : "factory",
       tempC: Number.isFinite(tempC) && tempC >= -30 && tempC <= 120 ? tempC : 20,
       lengthsM,

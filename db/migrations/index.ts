@@ -1,4 +1,8 @@
 import * as library from "./2026-12-01-01-library.ts";
+import * as accounts from "./2026-12-01-02-accounts.ts";
 
 /** Every migration in order. Listed by hand so the same list works under tsx, vitest and a bundle. */
-export const migrations = [{ name: "2026-12-01-01-library", ...library }];
+export const migrations = [
+  { name: "2026-12-01-01-library", ...library },
+  { name: "2026-12-01-02-accounts", ...accounts },
+];
