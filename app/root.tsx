@@ -1,11 +1,20 @@
-import { isRouteErrorResponse, Link, Links, Meta, NavLink, Outlet, Scripts, ScrollRestoration } from "react-router";
+import { Form, isRouteErrorResponse, Link, Links, Meta, NavLink, Outlet, Scripts, ScrollRestoration, useRouteLoaderData } from "react-router";
 import type { Route } from "./+types/root";
 import "@fontsource/source-sans-3/400.css";
 import "@fontsource/source-sans-3/600.css";
 import "@fontsource/source-sans-3/700.css";
 import "./app.css";
 
+import { can } from "~/domain/roles";
+import { optionalUser } from "~/services/guards.server";
+
 export const links: Route.LinksFunction = () => [{ rel: "icon", href: "/favicon.svg", type: "image/svg+xml" }];
+
+/** Who is signed in, for the header (every page). */
+export async function loader({ request }: Route.LoaderArgs) {
+  const user = await optionalUser(request);
+  return { user: user ? { displayName: user.displayName, role: user.role } : null };
+}
 
 const nav = [
   { to: "/", label: "Library", end: true },
@@ -40,6 +49,7 @@ export function Layout({ children }: { children: React.ReactNode }) {
                 </NavLink>
               ))}
             </nav>
+            <AccountLinks />
           </div>
         </header>
         <main id="main" className="mx-auto max-w-6xl px-4 py-6">{children}</main>
@@ -51,6 +61,28 @@ export function Layout({ children }: { children: React.ReactNode }) {
         <Scripts />
       </body>
     </html>
+  );
+}
+
+/** Sign in / join, or the rider's garage, admin (for admins) and sign out. */
+function AccountLinks() {
+  const data = useRouteLoaderData<typeof loader>("root");
+  const user = data?.user ?? null;
+  if (!user) {
+    return (
+      <div className="ml-auto flex gap-3 text-sm">
+        <Link to="/login" className="text-paper underline">Sign in</Link>
+        <Link to="/join" className="rounded bg-paper px-2 py-0.5 font-semibold text-ink no-underline">Join</Link>
+      </div>
+    );
+  }
+  return (
+    <div className="ml-auto flex flex-wrap items-center gap-3 text-sm">
+      <Link to="/garage" className="text-paper underline">Garage</Link>
+      {can(user.role, "admin.roles") ? <Link to="/admin" className="text-paper underline">Admin</Link> : null}
+      <Link to="/account" className="text-paper/85 no-underline hover:underline" data-testid="signed-in-as">{user.displayName}</Link>
+      <Form method="post" action="/logout" reloadDocument><button className="rounded border border-paper/60 px-2 py-0.5 text-paper">Sign out</button></Form>
+    </div>
   );
 }
 

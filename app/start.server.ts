@@ -1,6 +1,7 @@
 // `npm start`: everything a newcomer needs on a fresh clone. Builds the app if there is no build, migrates the
-// database and seeds the demo library into an empty one, then serves on PORT (default 3000).
-import { spawn, spawnSync } from "node:child_process";
+// database and seeds the demo library into an empty one, starts the local mail stand-in (mail/server.ts) unless mail
+// goes to a real relay, then serves on PORT (default 3000).
+import { spawn, spawnSync, type ChildProcess } from "node:child_process";
 import { existsSync } from "node:fs";
 import path from "node:path";
 
@@ -22,6 +23,71 @@ if (!existsSync(path.join(root, "build/server/index.js")) || process.env.REBUILD
 }
 step("migrating the database and seeding the demo library if it is empty", bin("tsx"), ["db/cli.ts", "setup"]);
 
-const server = spawn(process.execPath, ["--import", "tsx", "app/serve.server.ts"], { cwd: root, env, stdio: "inherit" });
-for (const sig of ["SIGINT", "SIGTERM"] as const) process.on(sig, () => server.kill(sig));
-server.on("exit", (code, signal) => process.exit(code ?? (signal ? 0 : 1)));
+/**
+ * The mail stand-in runs when mail would go to this machine: SMTP_URL unset (the app's default is smtp://127.0.0.1:2525)
+ * or a plain smtp:// URL on loopback (the stand-in then listens on its port). MAIL_STANDIN=off, or any other relay, skips it.
+ */
+function standInPort(): number | null {
+  if (process.env.MAIL_STANDIN === "off") return null;
+  const raw = process.env.SMTP_URL;
+  if (!raw) return 2525;
+  let url: URL;
+  try {
+    url = new URL(raw);
+  } catch {
+    return null; // the app reports a bad SMTP_URL itself (without echoing it: it may hold a password)
+  }
+  const local = ["127.0.0.1", "localhost", "[::1]"].includes(url.hostname.toLowerCase());
+  return local && url.protocol === "smtp:" ? Number(url.port || 25) : null;
+}
+
+let stopping = false;
+let mailStandIn: ChildProcess | null = null;
+let server: ChildProcess | null = null;
+
+async function startMailStandIn(smtpPort: number): Promise<void> {
+  const httpPort = process.env.MAIL_HTTP_PORT ?? "8025";
+  console.log(`[loomlore] starting the mail stand-in (SMTP port ${smtpPort}; received mail at http://127.0.0.1:${httpPort}/messages)`);
+  const child = spawn(process.execPath, ["--import", "tsx", "mail/server.ts"], {
+    cwd: root,
+    env: { ...env, MAIL_SMTP_PORT: String(smtpPort), MAIL_HTTP_PORT: httpPort },
+    stdio: "inherit",
+  });
+  mailStandIn = child;
+  child.on("exit", (code, signal) => {
+    if (!stopping) console.error(`[loomlore] the mail stand-in stopped (${code ?? signal}); mail stays queued until an SMTP server answers on port ${smtpPort}.`);
+  });
+  // Start the app once the stand-in answers (or after 10 s: the outbox keeps mail until it does).
+  const deadline = Date.now() + 10_000;
+  while (child.exitCode === null && Date.now() < deadline) {
+    try {
+      if ((await fetch(`http://127.0.0.1:${httpPort}/health`)).ok) break;
+    } catch { /* not listening yet */ }
+    await new Promise((r) => setTimeout(r, 100));
+  }
+}
+
+async function stopMailStandIn() {
+  stopping = true;
+  const child = mailStandIn;
+  if (!child || child.exitCode !== null || child.signalCode !== null) return;
+  const exited = new Promise((r) => child.once("exit", r));
+  child.kill("SIGTERM");
+  await Promise.race([exited, new Promise((r) => setTimeout(r, 3_000))]);
+}
+
+for (const sig of ["SIGINT", "SIGTERM"] as const) {
+  process.on(sig, () => {
+    if (server) server.kill(sig); // its exit stops the stand-in and this process
+    else stopMailStandIn().then(() => process.exit(0));
+  });
+}
+
+const mailPort = standInPort();
+if (mailPort !== null) await startMailStandIn(mailPort);
+
+server = spawn(process.execPath, ["--import", "tsx", "app/serve.server.ts"], { cwd: root, env, stdio: "inherit" });
+server.on("exit", async (code, signal) => {
+  await stopMailStandIn();
+  process.exit(code ?? (signal ? 0 : 1));
+});

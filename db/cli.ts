@@ -4,7 +4,9 @@ import { databasePath, sequelize } from "./index.server.ts";
 import { migrateUp } from "./migrate.ts";
 import { setupDatabase } from "./setup.ts";
 import { checkLibrary } from "./check.ts";
-import { Make } from "./models/index.ts";
+import { Make, User } from "./models/index.ts";
+import { passwordProblem } from "../app/domain/passwords.ts";
+import { hashPassword } from "../app/services/password-hash.server.ts";
 import { seedDemo } from "./seeders/demo.ts";
 
 const command = process.argv[2];
@@ -29,8 +31,23 @@ try {
     for (const p of problems) console.error(`✗ ${p}`);
     console.log(problems.length ? `${problems.length} problem(s) in the library` : "library consistent: wires, cavities, colours and circuits check out");
     process.exitCode = problems.length ? 1 : 0;
+  } else if (command === "create-admin") {
+    // For a real deployment, where no demo accounts exist: ADMIN_PASSWORD=… tsx db/cli.ts create-admin email "Name"
+    const [email, name] = [process.argv[3]?.trim().toLowerCase(), process.argv[4]?.trim()];
+    const password = process.env.ADMIN_PASSWORD ?? "";
+    const problem = passwordProblem(password, { email, displayName: name });
+    if (!email || !name || problem) {
+      console.error(`usage: ADMIN_PASSWORD=… tsx db/cli.ts create-admin <email> <display name>${problem ? `\n${problem}` : ""}`);
+      process.exitCode = 2;
+    } else {
+      await migrateUp();
+      const now = new Date();
+      const [user, created] = await User.findOrCreate({ where: { email }, defaults: { email, displayName: name, role: "admin", passwordHash: await hashPassword(password), emailVerifiedAt: now, passwordChangedAt: now, createdAt: now, disabledAt: null } });
+      if (!created) await user.update({ role: "admin" });
+      console.log(`${email} is an admin${created ? " (new account)" : ""}`);
+    }
   } else {
-    console.error("usage: tsx db/cli.ts migrate|seed|setup|reset|check");
+    console.error("usage: tsx db/cli.ts migrate|seed|setup|reset|check|create-admin");
     process.exitCode = 2;
   }
 } finally {

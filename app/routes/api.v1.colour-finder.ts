@@ -1,4 +1,5 @@
 import type { Route } from "./+types/api.v1.colour-finder";
+import { assertSameOrigin } from "~/services/guards.server";
 import { apiError, methodNotAllowed, readJson } from "~/services/http.server";
 import { findByColours } from "~/services/finder.server";
 import { finderBody } from "~/validation/workshop";
@@ -8,6 +9,7 @@ export const loader = () => methodNotAllowed("POST");
 /** The plug is gone; some colours are left: rank the library's connectors, each with its wire-to-cavity match. */
 export async function action({ request }: Route.ActionArgs) {
   if (request.method !== "POST") return methodNotAllowed("POST");
+  assertSameOrigin(request);
   const body = await readJson(request, finderBody);
   if (!body.ok) return body.response;
   const { result, tookMs } = await findByColours(body.data);

@@ -9,7 +9,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   if (!q.success) return validationError(q.error.issues);
   const found = await getConnectorCard(params.slug);
   if (!found) return apiError(404, "not_found", `There is no connector card "${params.slug}" in the library.`);
-  const { paint: _paint, ...connector } = found.connector;
+  const { paint: _paint, id: _id, ...connector } = found.connector;
   if (q.data.format === "csv") {
     return new Response(cardCsv(found.connector), {
       headers: {

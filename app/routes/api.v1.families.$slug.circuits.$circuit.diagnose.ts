@@ -1,4 +1,5 @@
 import type { Route } from "./+types/api.v1.families.$slug.circuits.$circuit.diagnose";
+import { assertSameOrigin } from "~/services/guards.server";
 import { diagnoseFor } from "~/services/circuits.server";
 import { apiError, methodNotAllowed, readJson } from "~/services/http.server";
 import { diagnoseBody } from "~/validation/workshop";
@@ -8,6 +9,7 @@ export const loader = () => methodNotAllowed("POST");
 /** From the readings a rider enters: between which two probe points the fault lies, and where to measure next. */
 export async function action({ request, params }: Route.ActionArgs) {
   if (request.method !== "POST") return methodNotAllowed("POST");
+  assertSameOrigin(request);
   const body = await readJson(request, diagnoseBody);
   if (!body.ok) return body.response;
   const d = await diagnoseFor(params.slug, params.circuit, body.data.switches, body.data.readings);

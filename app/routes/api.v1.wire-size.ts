@@ -1,4 +1,5 @@
 import type { Route } from "./+types/api.v1.wire-size";
+import { assertSameOrigin } from "~/services/guards.server";
 import { wireSize } from "~/domain/wire-size";
 import { domainError, methodNotAllowed, readJson } from "~/services/http.server";
 import { wireSizeBody } from "~/validation/workshop";
@@ -8,6 +9,7 @@ export const loader = () => methodNotAllowed("POST");
 /** Size one run: the smallest metric and AWG sizes within the voltage-drop target and the ampacity rule of thumb. */
 export async function action({ request }: Route.ActionArgs) {
   if (request.method !== "POST") return methodNotAllowed("POST");
+  assertSameOrigin(request);
   const body = await readJson(request, wireSizeBody);
   if (!body.ok) return body.response;
   try {

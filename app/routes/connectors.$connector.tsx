@@ -1,9 +1,12 @@
-import { data, Link } from "react-router";
+import { data, Form, Link } from "react-router";
 import type { Route } from "./+types/connectors.$connector";
 import { Cautions, type CautionKind } from "~/components/cautions";
 import { ColourChip } from "~/components/colour-chip";
 import { FaceView } from "~/components/face-view";
 import { faceGeometry } from "~/domain/connector-face";
+import { can } from "~/domain/roles";
+import { checkCard, reportMistake, riderCardState, saveCard } from "~/services/garage.server";
+import { optionalUser, requireCan } from "~/services/guards.server";
 import { getConnectorCard } from "~/services/library.server";
 import { renderNotes } from "~/services/markdown.server";
 
@@ -18,18 +21,44 @@ export async function loader({ params, request }: Route.LoaderArgs) {
   const view = url.searchParams.get("view") === "wire" ? "wire" : "mating";
   const cavity = url.searchParams.get("cavity");
   const card = found.connector;
+  const user = await optionalUser(request);
   return {
     card,
+    rider: user ? { role: user.role, ...(await riderCardState(user.id, card.id)) } : null,
     view,
     highlight: card.pins.some((p) => p.cavity === cavity) ? cavity : null,
     notesHtml: card.notes ? renderNotes(card.notes) : "",
   } as const;
 }
 
+/** A rider's actions on a card: save it, confirm it on their bike, report a mistake. Each checks its own role. */
+export async function action({ request, params }: Route.ActionArgs) {
+  const form = await request.formData();
+  const intent = String(form.get("intent") ?? "");
+  if (intent === "save") {
+    const { user } = await requireCan(request, "garage.save");
+    return (await saveCard(user.id, params.connector)) ? { done: "Saved to your garage.", error: "" } : data({ done: "", error: "No such card." }, { status: 404 });
+  }
+  if (intent === "check") {
+    const { user } = await requireCan(request, "card.check");
+    const raw = String(form.get("year") ?? "").trim();
+    const year = raw ? Number(raw) : null;
+    if (year !== null && (!Number.isInteger(year) || year < 1900 || year > 2100)) return data({ done: "", error: "Enter your bike's model year, like 1979." }, { status: 400 });
+    return (await checkCard(user.id, params.connector, year)) ? { done: "Thanks: marked as checked on your bike.", error: "" } : data({ done: "", error: "No such card." }, { status: 404 });
+  }
+  if (intent === "report") {
+    const { user } = await requireCan(request, "card.report");
+    const text = String(form.get("text") ?? "").trim();
+    if (text.length < 5 || text.length > 2000) return data({ done: "", error: "Say what is wrong in a sentence or two (at most 2000 characters)." }, { status: 400 });
+    return (await reportMistake(user.id, params.connector, text)) ? { done: "Thanks: a moderator will look at your report.", error: "" } : data({ done: "", error: "No such card." }, { status: 404 });
+  }
+  return data({ done: "", error: "Unknown request." }, { status: 400 });
+}
+
 const LATCH_WORDS = { top: "latch at the top", bottom: "latch at the bottom", left: "latch on the left", right: "latch on the right" } as const;
 
-export default function ConnectorCardPage({ loaderData }: Route.ComponentProps) {
-  const { card, view, highlight, notesHtml } = loaderData;
+export default function ConnectorCardPage({ loaderData, actionData }: Route.ComponentProps) {
+  const { card, view, highlight, notesHtml, rider } = loaderData;
   const geometry = faceGeometry(card.layout, { view });
   const cautions: CautionKind[] = card.system === "ignition" ? ["ignition", "battery"] : card.system === "starting" || card.system === "charging" ? ["battery", "fuel"] : ["battery"];
   const here = `/connectors/${card.slug}`;
@@ -52,7 +81,7 @@ export default function ConnectorCardPage({ loaderData }: Route.ComponentProps) 
         <div className="text-sm sm:text-right print:flex print:gap-3 print:text-[8pt]">
           <p className="font-semibold" data-testid="revision">Revision {card.revision.number}</p>
           <p className="text-muted">published {card.revision.publishedAt.slice(0, 10)}</p>
-          <p className="text-muted">{card.bikeChecked} riders bike-checked</p>
+          <p className="text-muted" data-testid="bike-checked">{card.bikeChecked} {card.bikeChecked === 1 ? "rider" : "riders"} bike-checked{card.bikeCheckedYears.length ? ` (${card.bikeCheckedYears.join(", ")})` : ""}</p>
         </div>
       </header>
 
@@ -168,6 +197,39 @@ export default function ConnectorCardPage({ loaderData }: Route.ComponentProps) 
       ) : null}
 
       <Cautions kinds={cautions} className="print:py-1.5 print:text-[8pt] print:leading-snug" />
+
+      <section aria-labelledby="yours" className="no-print rounded-md border border-rule bg-white p-4">
+        <h2 id="yours" className="text-lg font-bold">On your bike</h2>
+        {actionData?.done ? <p role="status" className="mt-1 font-semibold">{actionData.done}</p> : null}
+        {actionData?.error ? <p role="alert" className="mt-1 font-semibold text-signal-dark">{actionData.error}</p> : null}
+        {rider ? (
+          <div className="mt-2 flex flex-wrap items-start gap-4">
+            {can(rider.role, "garage.save") ? (
+              <Form method="post">{rider.saved ? <span className="text-sm">★ In your garage</span> : <button name="intent" value="save" className="rounded border-2 border-ink px-3 py-1.5 font-semibold">Save to my garage</button>}</Form>
+            ) : null}
+            {can(rider.role, "card.check") ? (
+              <Form method="post" className="flex items-end gap-2">
+                <label className="text-sm font-semibold">Model year
+                  <input name="year" inputMode="numeric" defaultValue={rider.checkedYear ? String(rider.checkedYear) : ""} className="mt-1 block w-20 rounded border-2 border-ink px-2 py-1 font-normal" />
+                </label>
+                <button name="intent" value="check" className="rounded border-2 border-ink px-3 py-1.5 font-semibold">{rider.checkedYear !== null ? "Update: matches my bike" : "It matches my bike"}</button>
+              </Form>
+            ) : null}
+            {can(rider.role, "card.report") ? (
+              <details className="w-full">
+                <summary className="cursor-pointer font-semibold underline">Report a mistake</summary>
+                <Form method="post" className="mt-2 space-y-2">
+                  <label className="block text-sm font-semibold" htmlFor="report-text">What is wrong (cavity, colour, what you found on your bike)</label>
+                  <textarea id="report-text" name="text" rows={3} maxLength={2000} className="block w-full max-w-xl rounded border-2 border-ink px-2 py-1" />
+                  <button name="intent" value="report" className="rounded bg-ink px-3 py-1.5 font-semibold text-paper">Send report</button>
+                </Form>
+              </details>
+            ) : null}
+          </div>
+        ) : (
+          <p className="mt-1 text-sm"><Link to={`/login?next=${encodeURIComponent(`/connectors/${card.slug}`)}`} className="font-semibold underline">Sign in</Link> to save this card, confirm it matches your bike, or report a mistake.</p>
+        )}
+      </section>
 
       <footer className="no-print flex flex-wrap gap-3 text-sm">
         <a href={`/api/v1/connectors/${card.slug}?format=csv`} className="rounded border border-ink bg-white px-3 py-1.5 font-semibold no-underline">Download CSV</a>

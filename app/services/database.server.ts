@@ -1,5 +1,6 @@
 import { sequelize } from "~db/index.server.ts";
 import { setupDatabase } from "~db/setup.ts";
+import { startMailWorker } from "./mail.server";
 
 let ready: Promise<void> | null = null;
 
@@ -7,6 +8,8 @@ let ready: Promise<void> | null = null;
 export function ensureDatabase(): Promise<void> {
   ready ??= (async () => {
     await setupDatabase({ seed: process.env.SEED_DEMO !== "false" });
+    // The outbox worker runs inside the app process once the schema is there (MAIL_WORKER=off to leave it out).
+    if (process.env.MAIL_WORKER !== "off") startMailWorker();
   })().catch((e) => {
     ready = null;
     throw e;

@@ -4,6 +4,7 @@ import { Component, Connector, Family, Make, Pin, SpecValue, System, Wire } from
 import { decodeColour, describeColour, swatch, type ColourSystemId } from "~/domain/colours";
 import { faceGeometry, type FaceHalf, type FaceSide, type HousingLayout } from "~/domain/connector-face";
 import { ensureDatabase } from "./database.server";
+import { bikeChecks } from "./garage.server";
 import { isSlug } from "~/validation/library";
 
 export interface MakeSummary { slug: string; name: string; colourSystem: string; familyCount: number; blurb: string }
@@ -122,7 +123,7 @@ export async function getConnectorCard(slug: string) {
     SpecValue.findAll({ where: { connectorId: c.id }, order: [["id", "ASC"]] }),
   ]);
   const colourSystem = family.colourSystem as ColourSystemId;
-  const destinations = await wireDestinations(pins);
+  const [destinations, checks] = await Promise.all([wireDestinations(pins), bikeChecks(c.id)]);
   const pinRows: PinRow[] = pins.map((p) => {
     const d = p.colourCode ? decodeColour(p.colourCode, colourSystem) : null;
     const dest = owner ? [{ label: `into the ${owner.name.replace(/^./, (ch) => ch.toLowerCase())}`, connector: null, cavity: null }] : destinations.get(p.id) ?? [];
@@ -149,7 +150,9 @@ export async function getConnectorCard(slug: string) {
       photos: [] as { url: string; thumbUrl: string; width: number; height: number; caption: string; credit: string }[],
       notes: c.notes,
       revision: { number: c.revision, publishedAt: c.publishedAt.toISOString() },
-      bikeChecked: 0,
+      bikeChecked: checks.count,
+      bikeCheckedYears: checks.years,
+      id: c.id,
       paint: paintFor(pins, colourSystem),
     },
   };

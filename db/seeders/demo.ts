@@ -1,6 +1,7 @@
 import type { Transaction } from "sequelize";
 import { sequelize } from "../index.server.ts";
-import { Circuit, Component, ComponentLink, Connector, Family, Make, Pin, Revision, SpecValue, System, Wire } from "../models/index.ts";
+import { Circuit, Component, ComponentLink, Connector, Family, Make, Pin, Revision, SpecValue, System, User, Wire } from "../models/index.ts";
+import { hashPassword } from "../../app/services/password-hash.server.ts";
 import { buildFamily } from "./demo/build.ts";
 import { demoMakes } from "./demo/makes.ts";
 import { connectorSnapshot } from "../snapshot.ts";
@@ -11,9 +12,23 @@ const SYSTEM_NAMES: Record<string, string> = {
 // A fixed date so the seeded revisions do not change between runs.
 const PUBLISHED = new Date("2026-11-20T09:00:00Z");
 
+/** Demo accounts, one per role: created only with the demo library (never with SEED_DEMO=false). Listed in the README. */
+export const DEMO_ACCOUNTS = [
+  { email: "rider@loomlore.invalid", displayName: "Demo Rider", role: "rider", password: "throttle-cable-42", verified: false },
+  { email: "contributor@loomlore.invalid", displayName: "Demo Contributor", role: "contributor", password: "crimp-and-solder-7", verified: true },
+  { email: "moderator@loomlore.invalid", displayName: "Demo Moderator", role: "moderator", password: "review-queue-lamp", verified: true },
+  { email: "admin@loomlore.invalid", displayName: "Demo Admin", role: "admin", password: "spark-gap-0.6mm", verified: true },
+] as const;
+
 /** Insert the invented demo library in one transaction; the caller decides whether the database is empty. */
 export async function seedDemo() {
+  // Hash before the transaction: bcrypt takes a quarter of a second each and needs no lock.
+  const hashes = await Promise.all(DEMO_ACCOUNTS.map((a) => hashPassword(a.password)));
   await sequelize.transaction(async (transaction) => {
+    const now = new Date(PUBLISHED);
+    for (const [i, a] of DEMO_ACCOUNTS.entries()) {
+      await User.create({ email: a.email, displayName: a.displayName, role: a.role, passwordHash: hashes[i], emailVerifiedAt: a.verified ? now : null, passwordChangedAt: now, createdAt: now, disabledAt: null }, { transaction });
+    }
     for (const m of demoMakes) {
       const make = await Make.create({ slug: m.slug, name: m.name, colourSystem: m.colourSystem, blurb: m.blurb }, { transaction });
       for (const f of m.families) await seedFamily(make.id, m.colourSystem, f, transaction);

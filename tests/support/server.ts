@@ -18,37 +18,79 @@ async function freePort(): Promise<number> {
   });
 }
 
-export interface TestServer { url: string; dbPath: string; stop: () => Promise<void>; output: () => string }
+export interface TestServer {
+  url: string;
+  dbPath: string;
+  /** With `mail: true`: base URL of the mail stand-in's JSON list (GET `${mailHttp}/messages`, POST `${mailHttp}/fault`). */
+  mailHttp?: string;
+  stop: () => Promise<void>;
+  output: () => string;
+}
 
-/** Boot our production server (app/serve.server.ts on build/) against a new SQLite file (migrated and seeded on first request). */
-export async function startServer(env: Record<string, string> = {}): Promise<TestServer> {
+export interface StartOptions {
+  /** Start a mail stand-in (mail/server.ts) on free ports and point the app's SMTP_URL at it. Default false. */
+  mail?: boolean;
+  /** Extra environment for the app. */
+  env?: Record<string, string>;
+}
+
+/** `startServer({ mail, env })`, or the older `startServer(env)`. */
+function options(arg: StartOptions | Record<string, string>): { mail: boolean; env: Record<string, string> } {
+  const { mail, env, ...rest } = arg as StartOptions & Record<string, unknown>;
+  const legacy = Object.fromEntries(Object.entries(rest).filter((e): e is [string, string] => typeof e[1] === "string"));
+  return { mail: mail === true, env: { ...legacy, ...(env ?? {}) } };
+}
+
+/**
+ * Boot our production server (app/serve.server.ts on build/) against a new SQLite file (migrated and seeded on first request).
+ * Without `mail: true` the app's SMTP_URL points at a closed loopback port, so no test ever mails a stand-in that a
+ * developer left running on 2525: mail stays queued and health reports mail down.
+ */
+export async function startServer(arg: StartOptions | Record<string, string> = {}): Promise<TestServer> {
+  const { mail, env } = options(arg);
   const entry = path.join(root, "build/server/index.js");
   if (!existsSync(entry)) throw new Error("No production build: run `npm run build` first (npm test does).");
   const dir = mkdtempSync(path.join(tmpdir(), "loomlore-test-"));
   const dbPath = path.join(dir, "test.sqlite");
   const port = await freePort();
+  let standIn: { smtpPort: number; httpPort: number; close: () => Promise<void> } | null = null;
+  if (mail) {
+    const { startMailStandIn } = await import("../../mail/server.ts");
+    standIn = await startMailStandIn({ smtpPort: 0, httpPort: 0, dataDir: path.join(dir, "mail") });
+  }
+  const mailHttp = standIn ? `http://127.0.0.1:${standIn.httpPort}` : undefined;
+  const mailEnv = standIn
+    ? { SMTP_URL: `smtp://127.0.0.1:${standIn.smtpPort}`, MAIL_HTTP_URL: mailHttp! }
+    : { SMTP_URL: "smtp://127.0.0.1:1", MAIL_HTTP_URL: "http://127.0.0.1:1" };
   let log = "";
   const child: ChildProcess = spawn(process.execPath, ["--import", "tsx", path.join(root, "app/serve.server.ts")], {
     cwd: root,
-    env: { ...process.env, NODE_ENV: "production", PORT: String(port), HOST: "127.0.0.1", DB_PATH: dbPath, ...env },
+    env: { ...process.env, NODE_ENV: "production", PORT: String(port), HOST: "127.0.0.1", DB_PATH: dbPath, ...mailEnv, ...env },
     stdio: ["ignore", "pipe", "pipe"],
   });
   child.stdout!.on("data", (d) => (log += d));
   child.stderr!.on("data", (d) => (log += d));
   const url = `http://127.0.0.1:${port}`;
   const deadline = Date.now() + 30_000;
-  for (;;) {
-    if (child.exitCode !== null) throw new Error(`server exited early:\n${log}`);
-    try {
-      const r = await fetch(`${url}/api/v1/health`);
-      if (r.status === 200) break;
-    } catch { /* not listening yet */ }
-    if (Date.now() > deadline) throw new Error(`server did not become healthy in 30 s:\n${log}`);
-    await new Promise((r) => setTimeout(r, 150));
+  try {
+    for (;;) {
+      if (child.exitCode !== null) throw new Error(`server exited early:\n${log}`);
+      try {
+        const r = await fetch(`${url}/api/v1/health`);
+        if (r.status === 200) break;
+      } catch { /* not listening yet */ }
+      if (Date.now() > deadline) throw new Error(`server did not become healthy in 30 s:\n${log}`);
+      await new Promise((r) => setTimeout(r, 150));
+    }
+  } catch (e) {
+    if (child.exitCode === null) child.kill("SIGKILL");
+    await standIn?.close();
+    throw e;
   }
   return {
     url,
     dbPath,
+    mailHttp,
     output: () => log,
     stop: async () => {
       if (child.exitCode === null) {
@@ -56,6 +98,7 @@ export async function startServer(env: Record<string, string> = {}): Promise<Tes
         child.kill("SIGTERM");
         await exited;
       }
+      await standIn?.close();
       rmSync(dir, { recursive: true, force: true });
     },
   };

@@ -1,0 +1,93 @@
+import { data, Form } from "react-router";
+import type { Route } from "./+types/admin";
+import { FormMessage } from "~/components/field";
+import { ROLES } from "~/domain/roles";
+import { listAudit, listOutbox, listUsers, revokeUser, setRole } from "~/services/admin.server";
+import { requireCan } from "~/services/guards.server";
+import { capturedMail } from "~/services/mail-standin.server";
+
+export const meta: Route.MetaFunction = () => [{ title: "Admin · Loomlore" }];
+
+export async function loader({ request }: Route.LoaderArgs) {
+  await requireCan(request, "admin.roles");
+  const [users, auditLog, outbox, captured] = await Promise.all([listUsers(), listAudit(60), listOutbox(40), capturedMail(20)]);
+  return { users, auditLog, outbox, captured };
+}
+
+export async function action({ request }: Route.ActionArgs) {
+  const { user } = await requireCan(request, "admin.roles");
+  const form = await request.formData();
+  const userId = Number(form.get("userId"));
+  if (!Number.isInteger(userId)) return data({ error: "Choose an account.", notice: "" }, { status: 400 });
+  if (form.get("intent") === "role") {
+    const r = await setRole(user.id, userId, String(form.get("role") ?? ""));
+    return r.ok ? { error: "", notice: "Role changed." } : data({ error: r.error, notice: "" }, { status: 400 });
+  }
+  if (form.get("intent") === "revoke") {
+    await revokeUser(user.id, userId);
+    return { error: "", notice: "Signed out everywhere." };
+  }
+  return data({ error: "Unknown request.", notice: "" }, { status: 400 });
+}
+
+export default function AdminPage({ loaderData, actionData }: Route.ComponentProps) {
+  const { users, auditLog, outbox, captured } = loaderData;
+  return (
+    <div className="space-y-8">
+      <h1 className="text-3xl font-bold">Admin</h1>
+      <FormMessage error={actionData?.error || undefined} notice={actionData?.notice || undefined} />
+      <section aria-labelledby="users">
+        <h2 id="users" className="border-b-2 border-ink pb-1 text-xl font-bold">Accounts and roles</h2>
+        <div className="relative overflow-x-auto">
+          <table className="mt-2 w-full border-collapse bg-white text-left text-sm">
+            <thead className="border-b-2 border-ink"><tr><th className="p-2">Name</th><th className="p-2">E-mail</th><th className="p-2">Confirmed</th><th className="p-2">Role</th><th className="p-2">Sessions</th></tr></thead>
+            <tbody>
+              {users.map((u) => (
+                <tr key={u.id} className="border-b border-rule" data-user={u.email}>
+                  <td className="p-2">{u.displayName}</td><td className="p-2">{u.email}</td><td className="p-2">{u.verified ? "yes" : "no"}</td>
+                  <td className="p-2">
+                    <Form method="post" className="flex gap-2">
+                      <input type="hidden" name="userId" value={u.id} />
+                      <select name="role" defaultValue={u.role} aria-label={`Role of ${u.displayName}`} className="rounded border border-ink bg-white px-1 py-0.5">{ROLES.map((r) => <option key={r}>{r}</option>)}</select>
+                      <button name="intent" value="role" className="rounded border border-ink px-2 py-0.5 font-semibold">Save</button>
+                    </Form>
+                  </td>
+                  <td className="p-2"><Form method="post"><input type="hidden" name="userId" value={u.id} /><button name="intent" value="revoke" className="underline">Sign out everywhere</button></Form></td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
+      </section>
+      <section aria-labelledby="outbox">
+        <h2 id="outbox" className="border-b-2 border-ink pb-1 text-xl font-bold">Mail outbox</h2>
+        <ul className="mt-2 space-y-1 text-sm">
+          {outbox.map((m) => <li key={m.id}><span className="font-semibold">{m.status}</span> · {m.kind} · {m.to} · {m.subject} · attempts {m.attempts}{m.lastError ? ` · ${m.lastError}` : ""}</li>)}
+        </ul>
+      </section>
+      <section aria-labelledby="captured">
+        <h2 id="captured" className="border-b-2 border-ink pb-1 text-xl font-bold">Captured by the local mail stand-in</h2>
+        {captured.ok ? (
+          <ul className="mt-2 space-y-3">
+            {captured.messages.map((m) => (
+              <li key={m.id} className="rounded border border-rule bg-white p-3 text-sm">
+                <p className="font-semibold">{m.subject}</p>
+                <p className="text-muted">to {m.to} · {m.receivedAt}</p>
+                <pre className="mt-1 whitespace-pre-wrap font-sans">{linkify(m.text)}</pre>
+              </li>
+            ))}
+          </ul>
+        ) : <p className="mt-2 text-muted">The mail stand-in is not reachable ({captured.error}); with a real relay, messages are in its own logs.</p>}
+      </section>
+      <section aria-labelledby="audit">
+        <h2 id="audit" className="border-b-2 border-ink pb-1 text-xl font-bold">Audit log</h2>
+        <ul className="mt-2 space-y-1 text-sm">{auditLog.map((a) => <li key={a.id}>{a.at.slice(0, 19).replace("T", " ")} · {a.actor} · {a.action} · {a.subject} {a.detail !== "{}" ? `· ${a.detail}` : ""}</li>)}</ul>
+      </section>
+    </div>
+  );
+}
+
+/** Plain-text mail with its links clickable (text is React-escaped; only http(s) links become anchors). */
+function linkify(text: string) {
+  return text.split(/(https?:\/\/[^\s<>"]+)/g).map((part, i) => (/^https?:\/\//.test(part) ? <a key={i} href={part} className="text-signal-dark underline">{part}</a> : part));
+}

@@ -1,0 +1,51 @@
+/** Admin work: roles, revoking sessions, the audit log and the mail outbox. */
+import { AuditLog, MailOutbox, User } from "~db/models/index.ts";
+import { isRole, type Role } from "~/domain/roles";
+import { audit, revokeSessions, sequelize } from "./auth.server";
+import { ensureDatabase } from "./database.server";
+
+/** Every account with its role, newest first. */
+export async function listUsers() {
+  await ensureDatabase();
+  const users = await User.findAll({ order: [["createdAt", "DESC"]], limit: 200 });
+  return users.map((u) => ({ id: u.id, email: u.email, displayName: u.displayName, role: u.role, verified: !!u.emailVerifiedAt, createdAt: u.createdAt.toISOString(), disabled: !!u.disabledAt }));
+}
+
+/** Change someone's role; an admin cannot remove the last admin. Audited. */
+export async function setRole(actorId: number, userId: number, role: string): Promise<{ ok: true } | { ok: false; error: string }> {
+  if (!isRole(role)) return { ok: false, error: "Choose rider, contributor, moderator or admin." };
+  return sequelize.transaction(async (transaction) => {
+    const user = await User.findByPk(userId, { transaction });
+    if (!user) return { ok: false as const, error: "There is no such account." };
+    if (user.role === "admin" && role !== "admin" && (await User.count({ where: { role: "admin" }, transaction })) <= 1) {
+      return { ok: false as const, error: "Loomlore needs at least one admin." };
+    }
+    const from = user.role;
+    await user.update({ role: role as Role }, { transaction });
+    await audit(actorId, "user.role", "user", userId, { from, to: role }, transaction);
+    return { ok: true as const };
+  });
+}
+
+/** Sign someone out everywhere. Audited. */
+export async function revokeUser(actorId: number, userId: number) {
+  await sequelize.transaction(async (transaction) => {
+    await revokeSessions(userId, undefined, transaction);
+    await audit(actorId, "user.sessions-revoked", "user", userId, {}, transaction);
+  });
+}
+
+/** The latest audit entries with the actor's name. */
+export async function listAudit(limit = 100) {
+  await ensureDatabase();
+  const rows = await AuditLog.findAll({ order: [["id", "DESC"]], limit });
+  const users = await User.findAll({ where: { id: rows.map((r) => r.actorId).filter((x): x is number => !!x) } });
+  return rows.map((r) => ({ id: r.id, at: r.at.toISOString(), actor: users.find((u) => u.id === r.actorId)?.displayName ?? "—", action: r.action, subject: `${r.subjectType} ${r.subjectId ?? ""}`.trim(), detail: r.detail }));
+}
+
+/** The latest messages in the outbox, with their delivery state. */
+export async function listOutbox(limit = 100) {
+  await ensureDatabase();
+  const rows = await MailOutbox.findAll({ order: [["id", "DESC"]], limit });
+  return rows.map((m) => ({ id: m.id, kind: m.kind, to: m.toAddr, subject: m.subject, status: m.status, attempts: m.attempts, createdAt: m.createdAt.toISOString(), sentAt: m.sentAt?.toISOString() ?? null, lastError: m.lastError, text: m.text }));
+}

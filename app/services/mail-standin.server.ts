@@ -1,0 +1,16 @@
+/** Read what the local mail stand-in captured (admin page); with a real relay configured there is nothing to read. */
+const LIST_URL = () => (process.env.MAIL_HTTP_URL ?? `http://127.0.0.1:${process.env.MAIL_HTTP_PORT ?? 8025}`).replace(/\/$/, "");
+
+export interface CapturedMail { id: string; to: string; subject: string; text: string; receivedAt: string }
+
+/** The newest captured messages, or the reason they could not be read. */
+export async function capturedMail(limit: number): Promise<{ ok: true; messages: CapturedMail[] } | { ok: false; error: string }> {
+  try {
+    const r = await fetch(`${LIST_URL()}/messages`, { signal: AbortSignal.timeout(1500) });
+    if (!r.ok) return { ok: false, error: `HTTP ${r.status}` };
+    const list = (await r.json()) as { id?: string; messageId?: string; to: string | string[]; subject: string; text: string; receivedAt: string }[];
+    return { ok: true, messages: list.slice(0, limit).map((m, i) => ({ id: String(m.id ?? m.messageId ?? i), to: Array.isArray(m.to) ? m.to.join(", ") : String(m.to), subject: m.subject, text: m.text ?? "", receivedAt: m.receivedAt })) };
+  } catch (e) {
+    return { ok: false, error: e instanceof Error ? e.name : "unreachable" };
+  }
+}

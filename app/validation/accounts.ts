@@ -1,0 +1,33 @@
+import { z } from "zod";
+import { MAX_PASSWORD_CHARS } from "~/domain/passwords";
+
+/** An e-mail address as typed: trimmed, lower-cased, at most 254 characters (RFC 5321 path limit). */
+export const email = z.string().trim().toLowerCase().max(254, "That address is too long.").pipe(z.email("Enter an e-mail address like name@example.org."));
+// The length rule itself lives in the domain policy (code points); here only a hard cap against abuse.
+export const password = z.string().max(MAX_PASSWORD_CHARS * 4, "Use at most 128 characters.");
+export const displayName = z.string().trim().min(1, "Tell us what to call you.").max(60, "Use at most 60 characters.")
+  // eslint-disable-next-line no-control-regex
+  .refine((s) => !/[\u0000-\u001f\u007f<>]/.test(s), "Use letters, numbers and ordinary punctuation.");
+
+export const joinForm = z.object({ email, password, displayName });
+export const loginForm = z.object({ email, password: z.string().max(1024) });
+export const forgotForm = z.object({ email });
+export const resetForm = z.object({ token: z.string().min(10).max(200), password });
+export const changePasswordForm = z.object({ current: z.string().max(1024), password, signOutOthers: z.string().optional() });
+
+/** A form's fields as a plain object of strings (files and repeated fields ignored). */
+export function formFields(form: FormData): Record<string, string> {
+  const out: Record<string, string> = {};
+  for (const [k, v] of form) if (typeof v === "string" && !(k in out)) out[k] = v;
+  return out;
+}
+
+/** zod issues as {field: message}, first message per field. */
+export function fieldErrors(issues: { path: PropertyKey[]; message: string }[]): Record<string, string> {
+  const out: Record<string, string> = {};
+  for (const i of issues) {
+    const k = String(i.path[0] ?? "form");
+    out[k] ??= i.message;
+  }
+  return out;
+}
