@@ -2,7 +2,8 @@ import { data, Form } from "react-router";
 import type { Route } from "./+types/admin";
 import { FormMessage } from "~/components/field";
 import { ROLES } from "~/domain/roles";
-import { listAudit, listOutbox, listUsers, revokeUser, setRole } from "~/services/admin.server";
+import { createMake, listAudit, listLibrary, listOutbox, listUsers, revokeUser, setRole, updateFamily } from "~/services/admin.server";
+import { familyForm, fieldErrors, formFields, makeForm } from "~/validation/accounts";
 import { requireCan } from "~/services/guards.server";
 import { capturedMail } from "~/services/mail-standin.server";
 
@@ -10,13 +11,23 @@ export const meta: Route.MetaFunction = () => [{ title: "Admin · Loomlore" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
   await requireCan(request, "admin.roles");
-  const [users, auditLog, outbox, captured] = await Promise.all([listUsers(), listAudit(60), listOutbox(40), capturedMail(20)]);
-  return { users, auditLog, outbox, captured };
+  const [users, auditLog, outbox, captured, library] = await Promise.all([listUsers(), listAudit(60), listOutbox(40), capturedMail(20), listLibrary()]);
+  return { users, auditLog, outbox, captured, library };
 }
 
 export async function action({ request }: Route.ActionArgs) {
   const { user } = await requireCan(request, "admin.roles");
   const form = await request.formData();
+  const intent = form.get("intent");
+  if (intent === "make" || intent === "family") {
+    await requireCan(request, "admin.library");
+    const parsed = (intent === "make" ? makeForm : familyForm).safeParse(formFields(form));
+    if (!parsed.success) return data({ error: Object.values(fieldErrors(parsed.error.issues))[0] ?? "Check the form.", notice: "" }, { status: 400 });
+    const r = intent === "make"
+      ? await createMake(user.id, parsed.data as { slug: string; name: string; colourSystem: string; blurb: string })
+      : await updateFamily(user.id, parsed.data.slug, parsed.data as { name: string; modelRange: string; yearFrom: number; yearTo: number });
+    return r.ok ? { error: "", notice: intent === "make" ? "Make added." : "Family updated." } : data({ error: r.error, notice: "" }, { status: 400 });
+  }
   const userId = Number(form.get("userId"));
   if (!Number.isInteger(userId)) return data({ error: "Choose an account.", notice: "" }, { status: 400 });
   if (form.get("intent") === "role") {
@@ -31,7 +42,7 @@ export async function action({ request }: Route.ActionArgs) {
 }
 
 export default function AdminPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { users, auditLog, outbox, captured } = loaderData;
+  const { users, auditLog, outbox, captured, library } = loaderData;
   return (
     <div className="space-y-8">
       <h1 className="text-3xl font-bold">Admin</h1>
@@ -59,6 +70,32 @@ export default function AdminPage({ loaderData, actionData }: Route.ComponentPro
           </table>
         </div>
       </section>
+      <section aria-labelledby="library">
+        <h2 id="library" className="border-b-2 border-ink pb-1 text-xl font-bold">Makes and families</h2>
+        <div className="mt-2 space-y-2">
+          {library.families.map((f) => (
+            <Form key={f.slug} method="post" className="flex flex-wrap items-end gap-2 text-sm" aria-label={`Edit ${f.name}`}>
+              <input type="hidden" name="intent" value="family" /><input type="hidden" name="slug" value={f.slug} />
+              <label>Name<input name="name" defaultValue={f.name} className="ml-1 w-40 rounded border border-ink px-1" /></label>
+              <label>Models<input name="modelRange" defaultValue={f.modelRange} className="ml-1 w-56 rounded border border-ink px-1" /></label>
+              <label>From<input name="yearFrom" defaultValue={f.yearFrom} inputMode="numeric" className="ml-1 w-16 rounded border border-ink px-1" /></label>
+              <label>To<input name="yearTo" defaultValue={f.yearTo} inputMode="numeric" className="ml-1 w-16 rounded border border-ink px-1" /></label>
+              <button className="rounded border border-ink px-2 font-semibold">Save</button>
+            </Form>
+          ))}
+        </div>
+        <Form method="post" className="mt-4 flex flex-wrap items-end gap-2 text-sm" aria-label="Add a make">
+          <input type="hidden" name="intent" value="make" />
+          <label>Slug<input name="slug" className="ml-1 w-32 rounded border border-ink px-1" /></label>
+          <label>Name<input name="name" className="ml-1 w-48 rounded border border-ink px-1" /></label>
+          <label>Colours written in
+            <select name="colourSystem" className="ml-1 rounded border border-ink bg-white">{["jis", "din", "bs", "en", "iec"].map((c) => <option key={c}>{c}</option>)}</select>
+          </label>
+          <button className="rounded bg-ink px-2 py-0.5 font-semibold text-paper">Add make</button>
+        </Form>
+        <p className="mt-1 text-xs text-muted">{library.makes.length} makes: {library.makes.map((m) => m.name).join(", ")}.</p>
+      </section>
+
       <section aria-labelledby="outbox">
         <h2 id="outbox" className="border-b-2 border-ink pb-1 text-xl font-bold">Mail outbox</h2>
         <ul className="mt-2 space-y-1 text-sm">

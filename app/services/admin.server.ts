@@ -1,8 +1,10 @@
 /** Admin work: roles, revoking sessions, the audit log and the mail outbox. */
-import { AuditLog, MailOutbox, User } from "~db/models/index.ts";
+import { AuditLog, Family, MailOutbox, Make, User } from "~db/models/index.ts";
 import { isRole, type Role } from "~/domain/roles";
 import { audit, revokeSessions, sequelize } from "./auth.server";
+import { forgetFamilyGraph } from "./circuits.server";
 import { ensureDatabase } from "./database.server";
+import { forgetFinderIndex } from "./finder.server";
 
 /** Every account with its role, newest first. */
 export async function listUsers() {
@@ -48,4 +50,40 @@ export async function listOutbox(limit = 100) {
   await ensureDatabase();
   const rows = await MailOutbox.findAll({ order: [["id", "DESC"]], limit });
   return rows.map((m) => ({ id: m.id, kind: m.kind, to: m.toAddr, subject: m.subject, status: m.status, attempts: m.attempts, createdAt: m.createdAt.toISOString(), sentAt: m.sentAt?.toISOString() ?? null, lastError: m.lastError, text: m.text }));
+}
+
+/** Makes and families for the admin page. */
+export async function listLibrary() {
+  await ensureDatabase();
+  const [makes, families] = await Promise.all([Make.findAll({ order: [["name", "ASC"]] }), Family.findAll({ order: [["name", "ASC"]] })]);
+  return {
+    makes: makes.map((m) => ({ id: m.id, slug: m.slug, name: m.name, colourSystem: m.colourSystem })),
+    families: families.map((f) => ({ id: f.id, slug: f.slug, name: f.name, modelRange: f.modelRange, yearFrom: f.yearFrom, yearTo: f.yearTo, makeId: f.makeId })),
+  };
+}
+
+/** Add a make (its families come through contributions). Audited. */
+export async function createMake(actorId: number, input: { slug: string; name: string; colourSystem: string; blurb: string }) {
+  return sequelize.transaction(async (transaction) => {
+    if (await Make.findOne({ where: { slug: input.slug }, transaction })) return { ok: false as const, field: "slug", error: "A make with that slug exists." };
+    const make = await Make.create(input, { transaction });
+    await audit(actorId, "make.create", "make", make.slug, { name: input.name }, transaction);
+    return { ok: true as const };
+  });
+}
+
+/** Correct a family's name, model range or years. Audited with the before and after. */
+export async function updateFamily(actorId: number, slug: string, input: { name: string; modelRange: string; yearFrom: number; yearTo: number }) {
+  return sequelize.transaction(async (transaction) => {
+    const f = await Family.findOne({ where: { slug }, transaction });
+    if (!f) return { ok: false as const, field: "slug", error: "There is no such family." };
+    const before = { name: f.name, modelRange: f.modelRange, yearFrom: f.yearFrom, yearTo: f.yearTo };
+    await f.update(input, { transaction });
+    await audit(actorId, "family.update", "family", slug, { before, after: input }, transaction);
+    return { ok: true as const };
+  }).then((r) => {
+    // The walk and the finder keep the family in memory: let them read it again.
+    if (r.ok) { forgetFamilyGraph(slug); forgetFinderIndex(); }
+    return r;
+  });
 }

@@ -31,3 +31,18 @@ export function fieldErrors(issues: { path: PropertyKey[]; message: string }[]):
   }
   return out;
 }
+
+const slugRule = z.string().trim().toLowerCase().max(60).regex(/^[a-z0-9]+(?:-[a-z0-9]+)*$/, "Use lowercase letters, digits and dashes.");
+export const makeForm = z.object({
+  slug: slugRule,
+  name: z.string().trim().min(2, "Give the make's name.").max(80),
+  colourSystem: z.enum(["jis", "din", "bs", "en", "iec"], { error: "Choose how this make writes colours." }),
+  blurb: z.string().trim().max(400).default(""),
+});
+export const familyForm = z.object({
+  slug: slugRule,
+  name: z.string().trim().min(2, "Give the family's name.").max(80),
+  modelRange: z.string().trim().max(120),
+  yearFrom: z.coerce.number().int().min(1900).max(2100),
+  yearTo: z.coerce.number().int().min(1900).max(2100),
+}).refine((f) => f.yearTo >= f.yearFrom, { message: "The last year comes after the first.", path: ["yearTo"] });
