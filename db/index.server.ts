@@ -1,6 +1,6 @@
 import path from "node:path";
 import { mkdirSync } from "node:fs";
-import { Sequelize } from "sequelize";
+import { Sequelize, Transaction } from "sequelize";
 
 /** Where the SQLite file lives: DB_PATH, else db/data/loomlore.sqlite (":memory:" for throwaway use). */
 export function databasePath(): string {
@@ -15,7 +15,10 @@ function run(conn: { run: (sql: string, cb: (err: Error | null) => void) => void
 
 function createSequelize(storage: string): Sequelize {
   if (storage !== ":memory:") mkdirSync(path.dirname(storage), { recursive: true });
-  const s = new Sequelize({ dialect: "sqlite", storage, logging: false, define: { underscored: true } });
+  // IMMEDIATE: a transaction takes the write lock when it begins, waiting up to the busy timeout. A DEFERRED one that
+  // reads, then writes, is refused at once with SQLITE_BUSY when another writer holds the lock (no timeout applies
+  // to that upgrade), which turned a busy moment into a 500.
+  const s = new Sequelize({ dialect: "sqlite", storage, logging: false, define: { underscored: true }, transactionType: Transaction.TYPES.IMMEDIATE });
   // Sequelize opens a fresh sqlite3 handle per transaction: every handle needs the same pragmas.
   s.addHook("afterConnect", async (conn: any) => {
     conn.configure("busyTimeout", BUSY_TIMEOUT_MS);

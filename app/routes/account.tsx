@@ -1,4 +1,4 @@
-import { data, Form } from "react-router";
+import { data, Form, redirect } from "react-router";
 import type { Route } from "./+types/account";
 import { Field, FormMessage } from "~/components/field";
 import { MIN_PASSWORD_CHARS } from "~/domain/passwords";
@@ -10,8 +10,11 @@ export const meta: Route.MetaFunction = () => [{ title: "Your account · Loomlor
 
 export async function loader({ request }: Route.LoaderArgs) {
   const { user } = await requireUser(request);
-  return { user };
+  return { user, changed: new URL(request.url).searchParams.get("notice") === "password" };
 }
+
+// Retry-After (and any other header an action sets) reaches the browser on a document request too.
+export const headers: Route.HeadersFunction = ({ actionHeaders, loaderHeaders }) => (actionHeaders.has("Retry-After") ? actionHeaders : loaderHeaders);
 
 export async function action({ request, context }: Route.ActionArgs) {
   const { user } = await requireUser(request);
@@ -27,7 +30,8 @@ export async function action({ request, context }: Route.ActionArgs) {
     if (!parsed.success) return data({ notice: "", errors: fieldErrors(parsed.error.issues) }, { status: 400 });
     const r = await changePassword(request, parsed.data.current, parsed.data.password, parsed.data.signOutOthers === "on");
     if (!r.ok) return data({ notice: "", errors: r.errors }, { status: 400 });
-    return data({ notice: "Your password is changed.", errors: {} as Record<string, string> }, { headers: { "Set-Cookie": r.setCookie } });
+    // Redirect with the new session cookie: the page's loader must not run again with the old, ended session.
+    throw redirect("/account?notice=password", { headers: { "Set-Cookie": r.setCookie } });
   }
   return data({ notice: "", errors: { form: "Unknown request." } as Record<string, string> }, { status: 400 });
 }
@@ -41,7 +45,7 @@ export default function AccountPage({ loaderData, actionData }: Route.ComponentP
         <h1 className="text-3xl font-bold">Your account</h1>
         <p className="mt-1">{user.displayName} · {user.email} · <span className="font-semibold">{user.role}</span></p>
       </header>
-      <FormMessage error={errors.form} notice={actionData?.notice || undefined} />
+      <FormMessage error={errors.form} notice={actionData?.notice || (loaderData.changed ? "Your password is changed." : undefined)} />
       {!user.verified ? (
         <section className="rounded-md border border-rule bg-white p-4">
           <h2 className="text-xl font-bold">Confirm your address</h2>

@@ -6,6 +6,9 @@ import { fieldErrors, forgotForm, formFields } from "~/validation/accounts";
 
 export const meta: Route.MetaFunction = () => [{ title: "Forgot your password · Loomlore" }];
 
+// Retry-After (and any other header an action sets) reaches the browser on a document request too.
+export const headers: Route.HeadersFunction = ({ actionHeaders, loaderHeaders }) => (actionHeaders.has("Retry-After") ? actionHeaders : loaderHeaders);
+
 export async function action({ request, context }: Route.ActionArgs) {
   const fields = formFields(await request.formData());
   const parsed = forgotForm.safeParse(fields);

@@ -12,6 +12,9 @@ export async function loader({ request }: Route.LoaderArgs) {
   return null;
 }
 
+// Retry-After (and any other header an action sets) reaches the browser on a document request too.
+export const headers: Route.HeadersFunction = ({ actionHeaders, loaderHeaders }) => (actionHeaders.has("Retry-After") ? actionHeaders : loaderHeaders);
+
 export async function action({ request, context }: Route.ActionArgs) {
   const r = await join(request, context?.ip ?? "unknown");
   if (r.ok) return { sent: r.email };

@@ -12,6 +12,9 @@ export async function loader({ request }: Route.LoaderArgs) {
   return { next: url.searchParams.get("next") ?? "", notice: url.searchParams.get("notice") };
 }
 
+// Retry-After (and any other header an action sets) reaches the browser on a document request too.
+export const headers: Route.HeadersFunction = ({ actionHeaders, loaderHeaders }) => (actionHeaders.has("Retry-After") ? actionHeaders : loaderHeaders);
+
 export async function action({ request, context }: Route.ActionArgs) {
   const next = safeNext(new URL(request.url).searchParams.get("next"));
   const r = await signIn(request, context?.ip ?? "unknown");

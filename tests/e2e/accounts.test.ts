@@ -1,0 +1,175 @@
+// Account journeys in a real browser against the production build with the mail stand-in: join → confirm the address
+// from the mailed link → sign in → save a card → see it in the garage → sign out; and a failed join form that keeps
+// what was typed, with the error beside the password (hydrated and without JavaScript).
+// Screenshots: tests/e2e/artifacts/join.png (the failed form), garage.png (the garage with the saved card).
+import { afterAll, afterEach, beforeAll, describe, expect, it } from "vitest";
+import type { Browser, BrowserContext, Page } from "playwright-core";
+import { startServer, type TestServer } from "../support/server";
+import { artifact, launchBrowser, newContext, requireChromium, skipBrowser, waitForHydration, watchErrors } from "./browser";
+
+const CARD = "/connectors/rx750-four-ignition-unit-plug";
+const CARD_NAME = "Ignition unit, loom plug";
+
+interface Mail { to: string; subject: string; text: string }
+
+describe.skipIf(skipBrowser)("account journeys in Chromium", () => {
+  let server: TestServer;
+  let browser: Browser;
+  let context: BrowserContext;
+  let noJs: BrowserContext | undefined;
+  let pages: { page: Page; errors: string[]; expected400?: RegExp }[] = [];
+
+  beforeAll(async () => {
+    requireChromium();
+    server = await startServer({ mail: true });
+    browser = await launchBrowser();
+    context = await newContext(browser, server.url);
+  });
+
+  afterAll(async () => {
+    await noJs?.close();
+    await context?.close();
+    await browser?.close();
+    await server?.stop();
+  });
+
+  /**
+   * A page whose console and page errors fail the test (checked in afterEach). expected400: the data request the test
+   * makes answer 400 on purpose (a rejected form), whose "Failed to load resource" line is not an error of the page.
+   */
+  async function open(ctx: BrowserContext = context, expected400?: RegExp): Promise<Page> {
+    const page = await ctx.newPage();
+    pages.push({ page, errors: watchErrors(page), expected400 });
+    return page;
+  }
+
+  afterEach(async () => {
+    const seen = pages;
+    pages = [];
+    for (const p of seen) await p.page.close();
+    const errors = seen.flatMap((p) => p.errors.filter((e) => !(p.expected400 && /status of 400/.test(e) && p.expected400.test(e))));
+    expect(errors).toEqual([]);
+  });
+
+  async function gotoHydrated(page: Page, url: string): Promise<void> {
+    const res = await page.goto(url);
+    expect(res?.status(), `GET ${url}`).toBe(200);
+    await waitForHydration(page);
+  }
+
+  /** The newest mail to an address from the stand-in's JSON list (newest first). */
+  async function waitForMail(to: string, subject: RegExp): Promise<Mail> {
+    const deadline = Date.now() + 15_000;
+    for (;;) {
+      const list = (await (await fetch(`${server.mailHttp}/messages?to=${encodeURIComponent(to)}`)).json()) as Mail[];
+      const m = list.find((x) => subject.test(x.subject));
+      if (m) return m;
+      if (Date.now() > deadline) throw new Error(`no mail "${subject}" to ${to}`);
+      await new Promise((r) => setTimeout(r, 150));
+    }
+  }
+
+  it("join → confirm from the mail → sign in → the header shows the name → save a card → the garage lists it → sign out", async () => {
+    const who = { displayName: "Journey Rider", email: "journey-rider@loomlore.invalid", password: "carburettor-float-height" };
+    const page = await open();
+
+    await gotoHydrated(page, "/join");
+    await page.getByLabel("Your name (shown with your contributions)").fill(who.displayName);
+    await page.getByLabel("E-mail address").fill(who.email);
+    await page.getByLabel("Password").fill(who.password);
+    await page.getByRole("button", { name: "Join" }).click();
+    await page.locator("h1", { hasText: "Check your inbox" }).waitFor();
+    expect(await page.locator("main strong").innerText()).toBe(who.email);
+
+    // The mail's link points at APP_URL (http://localhost:<port> here); open the same path on the server under test.
+    const mail = await waitForMail(who.email, /Confirm your e-mail address/);
+    const link = /https?:\/\/\S+\/verify\?token=[A-Za-z0-9_-]+/.exec(mail.text);
+    expect(link, mail.text).not.toBeNull();
+    const url = new URL(link![0]);
+    await gotoHydrated(page, url.pathname + url.search);
+    expect(await page.locator("h1").innerText()).toBe("Confirm your address");
+    await page.getByRole("button", { name: "Confirm my address" }).click();
+    await page.locator("h1", { hasText: "Address confirmed" }).waitFor();
+
+    await page.getByRole("link", { name: "Sign in", exact: true }).last().click();
+    await page.waitForURL(/\/login\?notice=verified$/);
+    await page.locator("[role=status]", { hasText: "Your address is confirmed" }).waitFor();
+    await page.getByLabel("E-mail address").fill(who.email);
+    await page.getByLabel("Password").fill(who.password);
+    await page.getByRole("button", { name: "Sign in" }).click();
+    await page.waitForURL(/\/garage$/);
+    await expect(page.getByTestId("signed-in-as").innerText()).resolves.toBe(who.displayName);
+    const cookies = await context.cookies();
+    const session = cookies.find((c) => c.name === "__Host-loomlore");
+    expect(session, "the session cookie reached the browser").toBeDefined();
+    expect(session).toMatchObject({ httpOnly: true, secure: true, sameSite: "Lax", path: "/" });
+    expect(await page.evaluate(() => document.cookie), "HttpOnly: not readable from scripts").not.toContain("loomlore");
+    const me = await page.request.get("/api/v1/me");
+    expect(await me.json()).toMatchObject({ user: { displayName: who.displayName, role: "contributor" } });
+
+    await gotoHydrated(page, CARD);
+    await page.getByRole("button", { name: "Save to my garage" }).click();
+    await page.locator("[role=status]", { hasText: "Saved to your garage." }).waitFor();
+    await page.getByText("★ In your garage").waitFor();
+
+    await page.locator("header").getByRole("link", { name: "Garage", exact: true }).click();
+    await page.waitForURL(/\/garage$/);
+    await page.locator("h1", { hasText: `${who.displayName}'s garage` }).waitFor();
+    const saved = page.locator("section[aria-labelledby=cards] li a[href^='/connectors/']");
+    expect(await saved.count()).toBe(1);
+    expect(await saved.first().innerText()).toBe(CARD_NAME);
+    expect(await saved.first().getAttribute("href")).toBe(CARD);
+    await page.screenshot({ path: artifact("garage.png"), fullPage: true });
+
+    await page.locator("header").getByRole("button", { name: "Sign out" }).click();
+    await page.waitForURL(/\/login\?notice=signed-out$/);
+    await waitForHydration(page);
+    await page.locator("[role=status]", { hasText: "You are signed out." }).waitFor();
+    expect(await page.locator("header").getByRole("link", { name: "Sign in" }).count()).toBe(1);
+    expect(await page.getByTestId("signed-in-as").count()).toBe(0);
+    expect((await context.cookies()).find((c) => c.name === "__Host-loomlore"), "the cookie is gone").toBeUndefined();
+    expect((await page.request.get("/api/v1/me")).status()).toBe(401);
+    const garage = await page.goto("/garage");
+    expect(new URL(page.url()).pathname, `after sign-out /garage answers ${garage?.status()}`).toBe("/login");
+  });
+
+  async function failedJoin(page: Page) {
+    const typed = { displayName: "Short Password", email: "short-password@loomlore.invalid" };
+    await page.getByLabel("Your name (shown with your contributions)").fill(typed.displayName);
+    await page.getByLabel("E-mail address").fill(typed.email);
+    await page.getByLabel("Password").fill("abcdefghijk"); // 11 characters
+    await page.getByRole("button", { name: "Join" }).click();
+    const error = page.locator("#password-error");
+    await error.waitFor();
+    expect(await error.innerText()).toMatch(/Use at least 12 characters/);
+    // Beside the password field: in the same field wrapper, right under the input, and announced by it.
+    const password = page.locator("input[name=password]");
+    await expect(password.getAttribute("aria-invalid")).resolves.toBe("true");
+    await expect(password.getAttribute("aria-describedby")).resolves.toContain("password-error");
+    const [inputBox, errorBox] = [await password.boundingBox(), await error.boundingBox()];
+    expect(errorBox!.y).toBeGreaterThan(inputBox!.y);
+    expect(errorBox!.y - (inputBox!.y + inputBox!.height)).toBeLessThan(80);
+    expect(Math.abs(errorBox!.x - inputBox!.x)).toBeLessThan(4);
+    await expect(page.locator("input[name=email]").inputValue()).resolves.toBe(typed.email);
+    await expect(page.locator("input[name=displayName]").inputValue()).resolves.toBe(typed.displayName);
+    expect(await page.locator("#email-error, #displayName-error").count()).toBe(0);
+    expect(await page.locator("h1").innerText()).toBe("Join Loomlore");
+  }
+
+  it("a failed join keeps e-mail and name and shows the error beside the password (hydrated)", async () => {
+    const page = await open(context, /\/join/);
+    await gotoHydrated(page, "/join");
+    await failedJoin(page);
+    await page.screenshot({ path: artifact("join.png"), fullPage: true });
+  });
+
+  it("a failed join keeps e-mail and name and shows the error beside the password (no JavaScript: the server re-renders it)", async () => {
+    noJs = await newContext(browser, server.url, { javaScriptEnabled: false });
+    const page = await open(noJs, /\/join/);
+    const res = await page.goto("/join");
+    expect(res?.status()).toBe(200);
+    await failedJoin(page);
+    // The password is never sent back in the page.
+    expect(await page.content()).not.toContain("abcdefghijk");
+  });
+});
