@@ -4,7 +4,7 @@
 // parts are not. Pure TypeScript: POST /api/v1/bench and the bench page both call `benchSheet`.
 // Bad input throws a `WorkshopInputError` naming the field (e.g. "readings[2].measured").
 
-import { COPPER_ALPHA_20C, TEMP_RANGE_C, WorkshopInputError } from "./wire-size";
+import { COPPER_ALPHA_20C, WorkshopInputError, checkTemp, copperTempFactor } from "./wire-size";
 
 export type Verdict = "in_range" | "low" | "high";
 
@@ -54,20 +54,12 @@ export function resistanceUnit(unit: string): string | null {
 
 /** Factor that brings a copper resistance measured at tempC to 20 °C: 1 / (1 + 0.00393·(t − 20)) (IEC 60028 α). */
 export function copperCorrectionFactor(tempC: number): number {
-  return 1 / (1 + COPPER_ALPHA_20C * (checkTemp("tempC", tempC) - 20));
+  return 1 / copperTempFactor(tempC);
 }
 
 /** A copper resistance measured at tempC, as it would read at 20 °C: R20 = R / (1 + α·(t − 20)). */
 export function copperAt20C(measured: number, tempC: number): number {
-  return measured / (1 + COPPER_ALPHA_20C * (checkTemp("tempC", tempC) - 20));
-}
-
-function checkTemp(field: string, tempC: unknown): number {
-  if (typeof tempC !== "number" || !Number.isFinite(tempC)) throw new WorkshopInputError(field, "must be a finite number of °C");
-  if (tempC < TEMP_RANGE_C.min || tempC > TEMP_RANGE_C.max) {
-    throw new WorkshopInputError(field, `must be between ${TEMP_RANGE_C.min} and ${TEMP_RANGE_C.max} °C, got ${tempC}`);
-  }
-  return tempC;
+  return measured / copperTempFactor(tempC);
 }
 
 function finite(field: string, v: unknown): number {

@@ -69,7 +69,8 @@ export function awgLabel(n: number): string {
   return n <= 0 ? `${1 - n}/0 AWG` : `${n} AWG`;
 }
 
-function checkTemp(field: string, tempC: number): number {
+/** A temperature within the range the computations accept, or a WorkshopInputError naming the field. */
+export function checkTemp(field: string, tempC: unknown): number {
   if (typeof tempC !== "number" || !Number.isFinite(tempC)) throw new WorkshopInputError(field, "must be a finite number of °C");
   if (tempC < TEMP_RANGE_C.min || tempC > TEMP_RANGE_C.max) {
     throw new WorkshopInputError(field, `must be between ${TEMP_RANGE_C.min} and ${TEMP_RANGE_C.max} °C, got ${tempC}`);

@@ -5,7 +5,7 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { z } from "zod";
 import { startServer, type TestServer } from "../support/server";
-import { errorBody, parseCsv, shape, stateDigest, undefuse } from "./helpers";
+import { errorBody, parseCsv, shape, stateDigest, undefuse, client } from "./helpers";
 
 // ---------------------------------------------------------------------------------------------------------------------
 // Shapes (API.md). z.object ignores extra keys ("add fields freely") but fails on a renamed, dropped or retyped one.
@@ -83,19 +83,7 @@ let digestBefore: string;
 let families: FamilySummary[] = [];
 const cards = new Map<string, Card>();
 
-async function call(path: string, init?: RequestInit) {
-  const res = await fetch(server.url + path, { redirect: "manual", ...init });
-  const body = await res.text();
-  return { res, status: res.status, type: res.headers.get("content-type") ?? "", body };
-}
-
-/** GET → 200 JSON, parsed against a schema. */
-async function getJson<T extends z.ZodType>(path: string, schema: T): Promise<z.infer<T>> {
-  const r = await call(path);
-  expect(r.status, `${path}: ${r.body.slice(0, 300)}`).toBe(200);
-  expect(r.type, path).toMatch(/^application\/json\b/);
-  return shape(schema, JSON.parse(r.body), path);
-}
+const { call, getJson } = client(() => server.url);
 
 /** Any request that must fail: status, JSON Content-Type, the error shape; returns the error. */
 async function expectError(path: string, status: number | number[], init?: RequestInit) {

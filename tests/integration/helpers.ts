@@ -1,6 +1,7 @@
 /** Shared helpers for the integration tests: the API's error shape, a small CSV reader, and the "state digest" of a database file. */
 import { createHash } from "node:crypto";
 import sqlite3 from "sqlite3";
+import { expect } from "vitest";
 import { z } from "zod";
 
 // API.md, Conventions: {"error": {"code": "snake_case_code", "message": "A sentence a person can act on", "field": "name-if-any"}}
@@ -84,4 +85,22 @@ export async function execSql(dbPath: string, sql: string): Promise<void> {
   } finally {
     await new Promise<void>((resolve) => db.close(() => resolve()));
   }
+}
+
+/** HTTP helpers bound to a test server's base URL (read when called, so it can be set in beforeAll). */
+export function client(base: () => string) {
+  /** Any request, no redirects followed: status, content type and the body as text. */
+  async function call(path: string, init?: RequestInit) {
+    const res = await fetch(base() + path, { redirect: "manual", ...init });
+    const body = await res.text();
+    return { res, status: res.status, type: res.headers.get("content-type") ?? "", body };
+  }
+  /** GET → 200 JSON, parsed against a schema. */
+  async function getJson<T extends z.ZodType>(path: string, schema: T): Promise<z.infer<T>> {
+    const r = await call(path);
+    expect(r.status, `GET ${path}: ${r.body.slice(0, 300)}`).toBe(200);
+    expect(r.type, path).toMatch(/^application\/json\b/);
+    return shape(schema, JSON.parse(r.body), path);
+  }
+  return { call, getJson };
 }

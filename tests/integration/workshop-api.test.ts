@@ -6,7 +6,7 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { z } from "zod";
 import { startServer, type TestServer } from "../support/server";
-import { errorBody, shape, stateDigest } from "./helpers";
+import { errorBody, shape, stateDigest, client } from "./helpers";
 
 // ---------------------------------------------------------------------------------------------------------------------
 // Shapes (API.md). z.object ignores extra keys ("add fields freely") but fails on a renamed, dropped or retyped one.
@@ -84,19 +84,7 @@ let digestBefore: string;
 let familySlugs: string[] = [];
 const cards = new Map<string, Card>();
 
-async function call(path: string, init?: RequestInit) {
-  const res = await fetch(server.url + path, { redirect: "manual", ...init });
-  const body = await res.text();
-  return { res, status: res.status, type: res.headers.get("content-type") ?? "", body };
-}
-
-/** GET → 200 JSON, parsed against a schema. */
-async function getJson<T extends z.ZodType>(path: string, schema: T): Promise<z.infer<T>> {
-  const r = await call(path);
-  expect(r.status, `GET ${path}: ${r.body.slice(0, 300)}`).toBe(200);
-  expect(r.type, path).toMatch(/^application\/json\b/);
-  return shape(schema, JSON.parse(r.body), path);
-}
+const { call, getJson } = client(() => server.url);
 
 const jsonInit = (body: unknown, type = "application/json"): RequestInit => ({
   method: "POST", headers: { "Content-Type": type }, body: typeof body === "string" ? body : JSON.stringify(body),
