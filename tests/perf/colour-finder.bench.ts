@@ -4,6 +4,7 @@
 // worn off, re-written in another notation) against both. Prints figures; asserts nothing.
 
 import { loadavg } from "node:os";
+import { mulberry32, pick } from "../fixtures/random.ts";
 import { performance } from "node:perf_hooks";
 import { encodeColour, type ColourName, type ColourSystemId } from "../../app/domain/colours/index.ts";
 import {
@@ -14,17 +15,6 @@ import {
   type FinderIndex,
 } from "../../app/domain/colour-finder.ts";
 
-function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-const pick = <T>(rnd: () => number, xs: readonly T[]): T => xs[Math.floor(rnd() * xs.length)];
 
 const PALETTE: ColourName[] = [
   "black", "brown", "red", "orange", "yellow", "green", "blue", "violet", "grey", "white", "pink",

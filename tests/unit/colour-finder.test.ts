@@ -1,4 +1,5 @@
 import { describe, expect, it } from "vitest";
+import { mulberry32, pick } from "../fixtures/random";
 import {
   COLOUR_NAMES,
   encodeColour,
@@ -25,18 +26,6 @@ import {
 
 // All connectors, families and slugs here are invented test data.
 
-/** mulberry32: a tiny seeded PRNG (public-domain algorithm), so every trial is reproducible. */
-function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-const pick = <T,>(rnd: () => number, xs: readonly T[]): T => xs[Math.floor(rnd() * xs.length)];
 
 // Colours an old loom is made of; the tracer is never the base colour.
 const PALETTE: ColourName[] = [
