@@ -3,6 +3,7 @@ import { Connector, Family, Pin, System } from "~db/models/index.ts";
 import { buildFinderIndex, findConnectors, readWires, type FinderConnector, type FinderIndex, type FinderQuery } from "~/domain/colour-finder";
 import { decodeColour, type ColourSystemId } from "~/domain/colours";
 import { ensureDatabase } from "./database.server";
+import { isSlug } from "~/validation/library";
 
 let index: Promise<FinderIndex> | null = null;
 
@@ -38,7 +39,7 @@ async function build(): Promise<FinderIndex> {
 export async function findByColours(query: FinderQuery) {
   index ??= build().catch((e) => { index = null; throw e; });
   let notation = query.notation;
-  if (!notation && query.family) {
+  if (!notation && query.family && isSlug(query.family)) {
     const fam = await Family.findOne({ where: { slug: query.family } });
     const own = fam?.colourSystem as FinderQuery["notation"] | undefined;
     if (own && own !== "auto" && readWires(query.wires, own).ok) notation = own;

@@ -6,7 +6,7 @@ export const finderBody = z.object({
   wires: z.array(z.string().trim().min(1, "an empty wire colour").max(60)).min(1, "give at least one wire colour").max(40, "at most 40 wires"),
   pinCount: z.number().int().min(1).max(200).optional(),
   gender: z.enum(["plug", "socket"]).optional(),
-  family: z.string().max(120).optional(),
+  family: z.string().max(120).regex(/^[a-z0-9]+(?:-[a-z0-9]+)*$/, "must be a family slug, e.g. rx750-four").optional(),
   familyMode: z.enum(["filter", "boost"]).optional(),
   system: z.string().max(40).optional(),
   notation: z.enum(["auto", "jis", "iec", "din", "bs", "en"]).optional(),

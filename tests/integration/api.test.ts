@@ -583,3 +583,16 @@ describe("hostile input sweep", () => {
     expect(card("rx750-four-ignition-unit-plug").pins).toHaveLength((await getJson("/api/v1/connectors/rx750-four-ignition-unit-plug", connectorBody)).connector.pins.length);
   });
 });
+
+describe("control characters never reach a query (pages and the finder)", () => {
+  // Sequelize's SQLite dialect inlines string values: a NUL byte once turned into SQLITE_ERROR and a 500.
+  it.each(["/?family=%00", "/?family=a%00b", "/finder?wires=W%2FR&family=%00", "/planner?family=%00"])("GET %s is never a 500", async (path) => {
+    expect((await call(path)).status).toBeLessThan(500);
+  });
+
+  it("a family that is not a slug is a 400 on the colour finder, naming the field", async () => {
+    const r = await call("/api/v1/colour-finder", { method: "POST", headers: { "Content-Type": "application/json", Origin: server.url }, body: JSON.stringify({ wires: ["W/R"], family: "a\u0000b" }) });
+    expect(r.status).toBe(400);
+    expect(JSON.parse(r.body).error.field).toBe("family");
+  });
+});
