@@ -38,6 +38,16 @@ app.use((req, res, next) => {
   }
 });
 
+// Behind a trusted proxy, React Router's Express adapter takes only the port from X-Forwarded-Host and keeps the
+// Host header's port otherwise (https://public.example:3000), so request.url stops matching the browser's Origin and
+// every post fails the CSRF check. Express's req.hostname already honours the forwarded host only for a trusted
+// proxy: when it does, let the forwarded host stand in for Host.
+app.use((req, _res, next) => {
+  const forwarded = req.get("X-Forwarded-Host")?.split(",")[0]?.trim();
+  if (forwarded && app.enabled("trust proxy") && req.hostname === forwarded.split(":")[0]) req.headers.host = forwarded;
+  next();
+});
+
 // Fingerprinted assets never change; everything else in public/ may.
 app.use("/assets", express.static(path.join(root, "build/client/assets"), { immutable: true, maxAge: "1y" }));
 app.use(express.static(path.join(root, "build/client"), { maxAge: "1h" }));
