@@ -550,7 +550,6 @@ function planFuses(
     const currentA = cs.reduce((s, c) => s + c.loadA, 0);
     const needA = FUSE_MARGIN * currentA;
     const factory = ratingOf.get(name)!;
-    const factoryRatings = [factory];
     const candidate = FUSE_RATINGS_A.find((r) => r >= needA * (1 - EPS));
     const parts: string[] = [
       `"${name}": kept circuits draw ${fmt(currentA)} A; ${FUSE_MARGIN} × ${fmt(currentA)} A = ${fmt(needA)} A (common practice).`,
@@ -594,12 +593,10 @@ function planFuses(
         }
       }
     }
-    if (factoryRatings.length > 1) {
-      parts.push(`Warning: the circuits give this fuse different factory ratings (${factoryRatings.join(", ")} A).`);
-    } else if (factory !== ratingA) {
+    for (const r of protectedRows) r.notes.push(`Protected by fuse "${name}" (${ratingA} A).`);
+    if (factory !== ratingA) {
       parts.push(`Warning: the factory fitted ${factory} A; ${ratingA} A suits the kept circuits${factory > ratingA ? " (the factory's also fed circuits now dropped, or was generous)" : ""}.`);
     }
-    for (const r of protectedRows) r.notes.push(`Protected by fuse "${name}" (${ratingA} A).`);
     fuses.push({ circuits: cs.map((c) => c.slug), ratingA, protects: protectedRows.map((r) => r.wire), basis: parts.join(" ") });
   }
   return fuses;

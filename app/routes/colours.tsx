@@ -46,7 +46,7 @@ export default function ColoursPage({ loaderData }: Route.ComponentProps) {
   const live: Decoded = fetcher.data && typed.code.trim()
     ? "error" in fetcher.data ? { ok: false, message: fetcher.data.error.message } : { ok: true, value: fetcher.data }
     : null;
-  const shown = typed.code === code && typed.system === system ? loaderData.decoded : live ?? (typed.code.trim() ? null : null);
+  const shown = typed.code === code && typed.system === system ? loaderData.decoded : live;
 
   return (
     <div className="space-y-8">

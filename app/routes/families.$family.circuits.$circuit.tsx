@@ -12,8 +12,9 @@ export const meta: Route.MetaFunction = ({ loaderData }) => [
 
 const SWITCH_NAMES: Record<SwitchId, string> = { main: "Main switch", kill: "Kill switch", start: "Start button", lights: "Lights", brake: "Brake" };
 
-function switchesFrom(params: URLSearchParams | FormData, fallback: Record<string, string>) {
-  const out: Record<string, string> = { ...fallback };
+/** The switch positions chosen in the form or query; the rest take the circuit's working positions. */
+function switchesFrom(params: URLSearchParams | FormData) {
+  const out: Record<string, string> = {};
   for (const id of Object.keys(SWITCH_POSITIONS)) {
     const v = params.get(id);
     if (typeof v === "string" && v) out[id] = v;
@@ -21,11 +22,8 @@ function switchesFrom(params: URLSearchParams | FormData, fallback: Record<strin
   return out;
 }
 
-async function load(family: string, circuit: string, switches: (fallback: Record<string, string>) => Record<string, string>) {
-  const first = await walkFor(family, circuit, {});
-  if (!first.ok) throw data(first.error.message, { status: first.error.status });
-  const chosen = switches(first.circuit.workingSwitches);
-  const w = await walkFor(family, circuit, chosen);
+export async function loader({ params, request }: Route.LoaderArgs) {
+  const w = await walkFor(params.family, params.circuit, switchesFrom(new URL(request.url).searchParams), "working");
   if (!w.ok) throw data(w.error.message, { status: w.error.status });
   const notation = w.family.colourSystem as ColourSystemId;
   const paint = w.walk.probePoints.map((p) => {
@@ -36,28 +34,25 @@ async function load(family: string, circuit: string, switches: (fallback: Record
   return { walk: w.walk, circuit: w.circuit, family: { slug: w.family.slug, name: w.family.name }, paint };
 }
 
-export async function loader({ params, request }: Route.LoaderArgs) {
-  const url = new URL(request.url);
-  return load(params.family, params.circuit, (fallback) => switchesFrom(url.searchParams, fallback));
-}
-
-/** Diagnose from the readings typed into the form; bad numbers come back beside their field, nothing lost. */
+/** Diagnose from the readings typed into the form (fields r1, r2 …); bad numbers come back beside their field, nothing lost. */
 export async function action({ params, request }: Route.ActionArgs) {
   const form = await request.formData();
-  const { walk } = await load(params.family, params.circuit, (fallback) => switchesFrom(form, fallback));
   const values: Record<string, string> = {};
   const errors: Record<string, string> = {};
   const readings: { step: number; value: number }[] = [];
-  for (const p of walk.probePoints) {
-    const raw = String(form.get(`r${p.step}`) ?? "").trim().replace(",", ".");
-    values[p.step] = raw;
+  for (const [key, entry] of form) {
+    const m = /^r(\d{1,3})$/.exec(key);
+    if (!m || typeof entry !== "string") continue;
+    const step = Number(m[1]);
+    const raw = entry.trim().replace(",", ".");
+    values[step] = raw;
     if (!raw) continue;
     const value = /^(ol|open)$/i.test(raw) ? Number.POSITIVE_INFINITY : Number(raw);
-    if (!Number.isFinite(value) && value !== Number.POSITIVE_INFINITY) errors[p.step] = "Enter a number (e.g. 12.4), or OL for an open circuit.";
-    else readings.push({ step: p.step, value });
+    if (!Number.isFinite(value) && value !== Number.POSITIVE_INFINITY) errors[step] = "Enter a number (e.g. 12.4), or OL for an open circuit.";
+    else readings.push({ step, value });
   }
   if (Object.keys(errors).length) return data({ values, errors, diagnosis: null }, { status: 400 });
-  const d = await diagnoseFor(params.family, params.circuit, walk.switches, readings);
+  const d = await diagnoseFor(params.family, params.circuit, switchesFrom(form), readings, "working");
   if (!d.ok) return data({ values, errors: { form: d.error.message } as Record<string, string>, diagnosis: null }, { status: d.error.status });
   return { values, errors, diagnosis: d.diagnosis };
 }

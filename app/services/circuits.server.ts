@@ -130,13 +130,16 @@ export function parseSwitches(raw: string | null | undefined): { ok: true; value
   return { ok: true, value: out };
 }
 
-/** The probe points of one circuit in the given switch positions. */
-export async function walkFor(familySlug: string, circuitSlug: string, switches: Record<string, string>) {
+/**
+ * The probe points of one circuit in the given switch positions. An omitted switch takes its riding position (the
+ * API's rule) or, with `fill: "working"`, the position the circuit works in (the page's starting point).
+ */
+export async function walkFor(familySlug: string, circuitSlug: string, given: Record<string, string>, fill: "riding" | "working" = "riding") {
   const f = await familyGraph(familySlug);
   if (!f) return { ok: false as const, error: { status: 404, code: "not_found", message: `There is no family "${familySlug}" in the library.` } satisfies WalkError };
   const c = f.circuits.find((x) => x.slug === circuitSlug);
   if (!c) return { ok: false as const, error: { status: 404, code: "not_found", message: `The ${f.family.name} has no circuit "${circuitSlug}".` } satisfies WalkError };
-  const sw = resolveSwitches(switches);
+  const sw = resolveSwitches(fill === "working" ? { ...c.switches, ...given } : given);
   if (!sw.ok) return { ok: false as const, error: { status: 400, code: "bad_request", message: sw.error, field: "switches" } satisfies WalkError };
   const walk = walkCircuit(f.graph, f.nodes, c.def, sw.value, f.describe, f.loadSpec);
   if (!walk) return { ok: false as const, error: { status: 404, code: "not_found", message: `The ${c.name} circuit does not close in the library's data.` } satisfies WalkError };
@@ -144,8 +147,8 @@ export async function walkFor(familySlug: string, circuitSlug: string, switches:
 }
 
 /** Locate the fault from the rider's readings. */
-export async function diagnoseFor(familySlug: string, circuitSlug: string, switches: Record<string, string>, readings: Reading[]) {
-  const w = await walkFor(familySlug, circuitSlug, switches);
+export async function diagnoseFor(familySlug: string, circuitSlug: string, switches: Record<string, string>, readings: Reading[], fill: "riding" | "working" = "riding") {
+  const w = await walkFor(familySlug, circuitSlug, switches, fill);
   if (!w.ok) return w;
   const steps = new Set(w.walk.probePoints.map((p) => p.step));
   const unknown = readings.find((r) => !steps.has(r.step));

@@ -200,8 +200,16 @@ async function wireDestinations(pins: Pin[]) {
   return out;
 }
 
-/** Face geometry for a connector card, in the API's shape. */
-export function cardFace(card: ConnectorCard, view: FaceSide, half: FaceHalf) {
+/** Just a connector's housing layout and revision (what the face route needs), or null. */
+export async function getConnectorLayout(slug: string): Promise<{ slug: string; revision: number; layout: HousingLayout } | null> {
+  if (!isSlug(slug)) return null;
+  await ensureDatabase();
+  const c = await Connector.findOne({ where: { slug } });
+  return c ? { slug: c.slug, revision: c.revision, layout: layoutOf(c) } : null;
+}
+
+/** Face geometry for a connector, in the API's shape. */
+export function cardFace(card: { layout: HousingLayout }, view: FaceSide, half: FaceHalf) {
   const g = faceGeometry(card.layout, { view, half });
   return { view: g.view, half: g.half, width: g.width, height: g.height, pitch: g.pitch, cavities: g.cavities, pin1: g.pin1, latch: g.latch };
 }

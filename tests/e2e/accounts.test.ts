@@ -2,10 +2,9 @@
 // from the mailed link → sign in → save a card → see it in the garage → sign out; and a failed join form that keeps
 // what was typed, with the error beside the password (hydrated and without JavaScript).
 // Screenshots: tests/e2e/artifacts/join.png (the failed form), garage.png (the garage with the saved card).
-import { afterAll, afterEach, beforeAll, describe, expect, it } from "vitest";
-import type { Browser, BrowserContext, Page } from "playwright-core";
-import { startServer, type TestServer } from "../support/server";
-import { artifact, launchBrowser, newContext, requireChromium, skipBrowser, waitForHydration, watchErrors } from "./browser";
+import { describe, expect, it } from "vitest";
+import type { Page } from "playwright-core";
+import { browserSuite, artifact, skipBrowser, waitForHydration } from "./browser";
 
 const CARD = "/connectors/rx750-four-ignition-unit-plug";
 const CARD_NAME = "Ignition unit, loom plug";
@@ -13,55 +12,14 @@ const CARD_NAME = "Ignition unit, loom plug";
 interface Mail { to: string; subject: string; text: string }
 
 describe.skipIf(skipBrowser)("account journeys in Chromium", () => {
-  let server: TestServer;
-  let browser: Browser;
-  let context: BrowserContext;
-  let noJs: BrowserContext | undefined;
-  let pages: { page: Page; errors: string[]; expected400?: RegExp }[] = [];
-
-  beforeAll(async () => {
-    requireChromium();
-    server = await startServer({ mail: true });
-    browser = await launchBrowser();
-    context = await newContext(browser, server.url);
-  });
-
-  afterAll(async () => {
-    await noJs?.close();
-    await context?.close();
-    await browser?.close();
-    await server?.stop();
-  });
-
-  /**
-   * A page whose console and page errors fail the test (checked in afterEach). expected400: the data request the test
-   * makes answer 400 on purpose (a rejected form), whose "Failed to load resource" line is not an error of the page.
-   */
-  async function open(ctx: BrowserContext = context, expected400?: RegExp): Promise<Page> {
-    const page = await ctx.newPage();
-    pages.push({ page, errors: watchErrors(page), expected400 });
-    return page;
-  }
-
-  afterEach(async () => {
-    const seen = pages;
-    pages = [];
-    for (const p of seen) await p.page.close();
-    const errors = seen.flatMap((p) => p.errors.filter((e) => !(p.expected400 && /status of 400/.test(e) && p.expected400.test(e))));
-    expect(errors).toEqual([]);
-  });
-
-  async function gotoHydrated(page: Page, url: string): Promise<void> {
-    const res = await page.goto(url);
-    expect(res?.status(), `GET ${url}`).toBe(200);
-    await waitForHydration(page);
-  }
+  const suite = browserSuite({ mail: true });
+  const { open, gotoHydrated } = suite;
 
   /** The newest mail to an address from the stand-in's JSON list (newest first). */
   async function waitForMail(to: string, subject: RegExp): Promise<Mail> {
     const deadline = Date.now() + 15_000;
     for (;;) {
-      const list = (await (await fetch(`${server.mailHttp}/messages?to=${encodeURIComponent(to)}`)).json()) as Mail[];
+      const list = (await (await fetch(`${suite.server.mailHttp}/messages?to=${encodeURIComponent(to)}`)).json()) as Mail[];
       const m = list.find((x) => subject.test(x.subject));
       if (m) return m;
       if (Date.now() > deadline) throw new Error(`no mail "${subject}" to ${to}`);
@@ -99,7 +57,7 @@ describe.skipIf(skipBrowser)("account journeys in Chromium", () => {
     await page.getByRole("button", { name: "Sign in" }).click();
     await page.waitForURL(/\/garage$/);
     await expect(page.getByTestId("signed-in-as").innerText()).resolves.toBe(who.displayName);
-    const cookies = await context.cookies();
+    const cookies = await suite.context.cookies();
     const session = cookies.find((c) => c.name === "__Host-loomlore");
     expect(session, "the session cookie reached the browser").toBeDefined();
     expect(session).toMatchObject({ httpOnly: true, secure: true, sameSite: "Lax", path: "/" });
@@ -127,7 +85,7 @@ describe.skipIf(skipBrowser)("account journeys in Chromium", () => {
     await page.locator("[role=status]", { hasText: "You are signed out." }).waitFor();
     expect(await page.locator("header").getByRole("link", { name: "Sign in" }).count()).toBe(1);
     expect(await page.getByTestId("signed-in-as").count()).toBe(0);
-    expect((await context.cookies()).find((c) => c.name === "__Host-loomlore"), "the cookie is gone").toBeUndefined();
+    expect((await suite.context.cookies()).find((c) => c.name === "__Host-loomlore"), "the cookie is gone").toBeUndefined();
     expect((await page.request.get("/api/v1/me")).status()).toBe(401);
     const garage = await page.goto("/garage");
     expect(new URL(page.url()).pathname, `after sign-out /garage answers ${garage?.status()}`).toBe("/login");
@@ -157,15 +115,14 @@ describe.skipIf(skipBrowser)("account journeys in Chromium", () => {
   }
 
   it("a failed join keeps e-mail and name and shows the error beside the password (hydrated)", async () => {
-    const page = await open(context, /\/join/);
+    const page = await open(suite.context, { allow400: (u) => /\/join/.test(u) });
     await gotoHydrated(page, "/join");
     await failedJoin(page);
     await page.screenshot({ path: artifact("join.png"), fullPage: true });
   });
 
   it("a failed join keeps e-mail and name and shows the error beside the password (no JavaScript: the server re-renders it)", async () => {
-    noJs = await newContext(browser, server.url, { javaScriptEnabled: false });
-    const page = await open(noJs, /\/join/);
+    const page = await open(await suite.noJsContext(), { allow400: (u) => /\/join/.test(u) });
     const res = await page.goto("/join");
     expect(res?.status()).toBe(200);
     await failedJoin(page);

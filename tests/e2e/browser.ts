@@ -2,6 +2,8 @@
 import { existsSync, mkdirSync } from "node:fs";
 import path from "node:path";
 import { chromium, type Browser, type BrowserContext, type BrowserContextOptions, type Page } from "playwright-core";
+import { afterAll, afterEach, beforeAll, expect } from "vitest";
+import { startServer, type TestServer } from "../support/server";
 
 export const chromiumPath = process.env.CHROMIUM_PATH || "/usr/bin/chromium";
 export const haveChromium = existsSync(chromiumPath);
@@ -45,17 +47,25 @@ export function artifact(name: string): string {
   return path.join(artifactsDir, name);
 }
 
+export interface WatchOptions {
+  /** A URL the test expects to answer 404 (the not-found page itself). */
+  allow404?: (url: string) => boolean;
+  /** A URL the test makes answer 400 on purpose (a rejected form), whose "Failed to load resource" line is no page error. */
+  allow400?: (url: string) => boolean;
+}
+
 /**
- * Collect console errors and uncaught page errors. Only a 404 for a favicon (or for a URL
- * the test expects to be 404, e.g. the not-found page itself) is let through.
+ * Collect console errors and uncaught page errors. Only a 404 for a favicon, and the 404s and 400s a test says it
+ * expects, are let through.
  */
-export function watchErrors(page: Page, opts: { allow404?: (url: string) => boolean } = {}): string[] {
+export function watchErrors(page: Page, opts: WatchOptions = {}): string[] {
   const errors: string[] = [];
   const allowed = (url: string) => /\/favicon\.(ico|svg)(\?|$)/.test(url) || (opts.allow404?.(url) ?? false);
   page.on("console", (msg) => {
     if (msg.type() !== "error") return;
     const url = msg.location().url ?? "";
     if (/status of 404/.test(msg.text()) && allowed(url)) return;
+    if (/status of 400/.test(msg.text()) && opts.allow400?.(url)) return;
     errors.push(`console.error ${msg.text()}${url ? ` (${url})` : ""}`);
   });
   page.on("pageerror", (err) => errors.push(`pageerror ${err.message}`));
@@ -73,4 +83,58 @@ export async function waitForHydration(page: Page, selector = "main"): Promise<v
     const el = document.querySelector(sel);
     return Boolean(router?.state.initialized && router.state.navigation.state === "idle" && el && Object.keys(el).some((k) => k.startsWith("__reactFiber$")));
   }, selector, { timeout: 10_000 });
+}
+
+/**
+ * One browser suite's plumbing, registered on the enclosing describe: a production server with a fresh database, a
+ * browser, a default context (and a no-JavaScript one on demand), and pages whose console and page errors fail the test.
+ */
+export function browserSuite(serverOptions?: Parameters<typeof startServer>[0]) {
+  let server: TestServer | undefined;
+  let browser: Browser | undefined;
+  let context: BrowserContext | undefined;
+  let noJs: BrowserContext | undefined;
+  let pages: { page: Page; errors: string[] }[] = [];
+
+  beforeAll(async () => {
+    requireChromium();
+    server = await startServer(serverOptions);
+    browser = await launchBrowser();
+    context = await newContext(browser, server.url);
+  });
+  afterAll(async () => {
+    await noJs?.close();
+    await context?.close();
+    await browser?.close();
+    await server?.stop();
+  });
+  afterEach(async () => {
+    const seen = pages;
+    pages = [];
+    for (const p of seen) await p.page.close();
+    expect(seen.flatMap((p) => p.errors)).toEqual([]);
+  });
+
+  return {
+    get server(): TestServer { return server!; },
+    get browser(): Browser { return browser!; },
+    get context(): BrowserContext { return context!; },
+    /** A context with JavaScript off (made once), for the no-JavaScript paths. */
+    async noJsContext(): Promise<BrowserContext> {
+      noJs ??= await newContext(browser!, server!.url, { javaScriptEnabled: false });
+      return noJs;
+    },
+    /** A page whose errors are checked after the test. */
+    async open(ctx?: BrowserContext, opts: WatchOptions = {}): Promise<Page> {
+      const page = await (ctx ?? context!).newPage();
+      pages.push({ page, errors: watchErrors(page, opts) });
+      return page;
+    },
+    /** Go to a URL, expect 200 and wait for hydration. */
+    async gotoHydrated(page: Page, url: string): Promise<void> {
+      const res = await page.goto(url);
+      expect(res?.status(), `GET ${url}`).toBe(200);
+      await waitForHydration(page);
+    },
+  };
 }

@@ -1,38 +1,14 @@
 // The colour-code translator in a real browser: once hydrated it decodes as the rider types,
 // through a fetcher on the JSON route, without the form being submitted.
-import { afterAll, afterEach, beforeAll, describe, expect, it } from "vitest";
-import type { Browser, BrowserContext, Page } from "playwright-core";
-import { startServer, type TestServer } from "../support/server";
-import { artifact, launchBrowser, newContext, requireChromium, skipBrowser, waitForHydration, watchErrors } from "./browser";
+import { describe, expect, it } from "vitest";
+import { browserSuite, artifact, skipBrowser, waitForHydration } from "./browser";
 
 describe.skipIf(skipBrowser)("colour codes page in Chromium", () => {
-  let server: TestServer;
-  let browser: Browser;
-  let context: BrowserContext;
-  let page: Page;
-  let errors: string[] = [];
-
-  beforeAll(async () => {
-    requireChromium();
-    server = await startServer();
-    browser = await launchBrowser();
-    context = await newContext(browser, server.url);
-  });
-
-  afterAll(async () => {
-    await context?.close();
-    await browser?.close();
-    await server?.stop();
-  });
-
-  afterEach(async () => {
-    await page?.close();
-    expect(errors).toEqual([]);
-  });
+  const suite = browserSuite();
+  const { open, gotoHydrated } = suite;
 
   it("decodes ws/rt live as it is typed (no submit) and shows white with red", async () => {
-    page = await context.newPage();
-    errors = watchErrors(page);
+    const page = await open();
     const res = await page.goto("/colours");
     expect(res?.status()).toBe(200);
     await waitForHydration(page, "input[name=code]");

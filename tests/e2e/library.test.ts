@@ -1,53 +1,15 @@
 // Journey 1 of PRODUCT.md in a real browser against the production build: find the family,
 // open the card, read it from either side, follow a wire, print it; plus the 404 page.
 import { writeFileSync } from "node:fs";
-import { afterAll, afterEach, beforeAll, describe, expect, it } from "vitest";
-import type { Browser, BrowserContext, Page } from "playwright-core";
-import { startServer, type TestServer } from "../support/server";
-import { artifact, launchBrowser, newContext, requireChromium, skipBrowser, waitForHydration, watchErrors } from "./browser";
+import { describe, expect, it } from "vitest";
+import type { Page } from "playwright-core";
+import { browserSuite, artifact, skipBrowser, waitForHydration } from "./browser";
 
 const CARD = "/connectors/rx750-four-ignition-unit-plug";
 
 describe.skipIf(skipBrowser)("library journeys in Chromium", () => {
-  let server: TestServer;
-  let browser: Browser;
-  let context: BrowserContext;
-  let noJs: BrowserContext | undefined;
-  let pages: { page: Page; errors: string[] }[] = [];
-
-  beforeAll(async () => {
-    requireChromium();
-    server = await startServer();
-    browser = await launchBrowser();
-    context = await newContext(browser, server.url);
-  });
-
-  afterAll(async () => {
-    await noJs?.close();
-    await context?.close();
-    await browser?.close();
-    await server?.stop();
-  });
-
-  /** A page whose console errors and page errors fail the test (checked in afterEach). */
-  async function open(ctx: BrowserContext = context, opts: Parameters<typeof watchErrors>[1] = {}): Promise<Page> {
-    const page = await ctx.newPage();
-    pages.push({ page, errors: watchErrors(page, opts) });
-    return page;
-  }
-
-  async function gotoHydrated(page: Page, url: string): Promise<void> {
-    const res = await page.goto(url);
-    expect(res?.status(), `GET ${url}`).toBe(200);
-    await waitForHydration(page);
-  }
-
-  afterEach(async () => {
-    const seen = pages;
-    pages = [];
-    for (const p of seen) await p.page.close();
-    expect(seen.flatMap((p) => p.errors)).toEqual([]);
-  });
+  const suite = browserSuite();
+  const { open, gotoHydrated } = suite;
 
   /** Cavity centres as drawn: each cavity group's translate(x y) in the card's face view. */
   async function cavityPositions(page: Page): Promise<Record<string, { x: number; y: number }>> {
@@ -145,8 +107,7 @@ describe.skipIf(skipBrowser)("library journeys in Chromium", () => {
   });
 
   it("without JavaScript: the jump form and the card's Wire side link still work", async () => {
-    noJs = await newContext(browser, server.url, { javaScriptEnabled: false });
-    const page = await open(noJs);
+    const page = await open(await suite.noJsContext());
     await page.goto("/");
     await page.getByRole("combobox", { name: "Jump to a family" }).fill("RX400");
     await page.getByRole("button", { name: "Open" }).click();
@@ -278,7 +239,7 @@ describe.skipIf(skipBrowser)("library journeys in Chromium", () => {
   });
 
   it("an unknown family is a real 404 with the Nothing here page", async () => {
-    const page = await open(context, { allow404: (u) => u.endsWith("/families/no-such-family") });
+    const page = await open(suite.context, { allow404: (u) => u.endsWith("/families/no-such-family") });
     const res = await page.goto("/families/no-such-family");
     expect(res?.status()).toBe(404);
     await expect(page.locator("h1").innerText()).resolves.toBe("Nothing here");

@@ -1,61 +1,17 @@
 // The four workshop tools in a real browser against the production build: the colour finder
 // (live and without JavaScript), the circuit walk with its diagnosis, the bench sheet and the
 // loom planner with its CSV. Each journey saves a full-page screenshot under tests/e2e/artifacts/.
-import { afterAll, afterEach, beforeAll, describe, expect, it } from "vitest";
-import type { Browser, BrowserContext, Locator, Page } from "playwright-core";
-import { startServer, type TestServer } from "../support/server";
-import { artifact, launchBrowser, newContext, requireChromium, skipBrowser, waitForHydration, watchErrors } from "./browser";
+import { beforeAll, describe, expect, it } from "vitest";
+import type { Locator, Page } from "playwright-core";
+import { browserSuite, artifact, skipBrowser, waitForHydration } from "./browser";
 
 const FAMILY = "rx750-four";
 const PICKUPS = "/connectors/rx750-four-pickups-plug";
 const PICKUP_PAIR = /^\/connectors\/rx750-four-pickups-(plug|socket)$/;
 
 describe.skipIf(skipBrowser)("workshop tools in Chromium", () => {
-  let server: TestServer;
-  let browser: Browser;
-  let context: BrowserContext;
-  let noJs: BrowserContext | undefined;
-  let pages: { page: Page; errors: string[]; expected400?: (url: string) => boolean }[] = [];
-
-  beforeAll(async () => {
-    requireChromium();
-    server = await startServer();
-    browser = await launchBrowser();
-    context = await newContext(browser, server.url);
-  });
-
-  afterAll(async () => {
-    await noJs?.close();
-    await context?.close();
-    await browser?.close();
-    await server?.stop();
-  });
-
-  /**
-   * A page whose console errors and page errors fail the test (checked in afterEach).
-   * expected400: a URL the test deliberately makes answer 400 (a validation reply), whose
-   * "Failed to load resource" console line is therefore not an error of the page.
-   */
-  async function open(ctx: BrowserContext = context, expected400?: (url: string) => boolean): Promise<Page> {
-    const page = await ctx.newPage();
-    pages.push({ page, errors: watchErrors(page), expected400 });
-    return page;
-  }
-
-  async function gotoHydrated(page: Page, url: string): Promise<void> {
-    const res = await page.goto(url);
-    expect(res?.status(), `GET ${url}`).toBe(200);
-    await waitForHydration(page);
-  }
-
-  afterEach(async () => {
-    const seen = pages;
-    pages = [];
-    for (const p of seen) await p.page.close();
-    const errors = seen.flatMap((p) =>
-      p.errors.filter((e) => !(p.expected400 && /status of 400/.test(e) && p.expected400((/\((https?:\/\/[^)]+)\)$/.exec(e) ?? [])[1] ?? ""))));
-    expect(errors).toEqual([]);
-  });
+  const suite = browserSuite();
+  const { open, gotoHydrated } = suite;
 
   const text = async (loc: Locator) => (await loc.innerText()).replace(/\s+/g, " ").trim();
 
@@ -64,7 +20,7 @@ describe.skipIf(skipBrowser)("workshop tools in Chromium", () => {
     let codes: string[] = [];
 
     beforeAll(async () => {
-      const res = await fetch(`${server.url}/api/v1${PICKUPS}`);
+      const res = await fetch(`${suite.server.url}/api/v1${PICKUPS}`);
       expect(res.status).toBe(200);
       const body = (await res.json()) as { connector: { pins: { cavity: string; colour: { code: string } }[] } };
       codes = body.connector.pins.slice(0, 3).map((p) => p.colour.code);
@@ -117,8 +73,7 @@ describe.skipIf(skipBrowser)("workshop tools in Chromium", () => {
     });
 
     it("without JavaScript the same query is a plain form and the results are server-rendered", async () => {
-      noJs ??= await newContext(browser, server.url, { javaScriptEnabled: false });
-      const page = await open(noJs);
+      const page = await open(await suite.noJsContext());
       await page.goto("/finder");
       await expect(page.getByTestId("finder-results").locator("ol > li").count()).resolves.toBe(0);
       await page.getByRole("textbox", { name: /Wire colours/ }).fill(codes.join("\n"));
@@ -232,7 +187,7 @@ describe.skipIf(skipBrowser)("workshop tools in Chromium", () => {
     });
 
     it("a reading that is not a number is reported beside its field and the other values are kept", async () => {
-      const page = await open(context, (u) => new URL(u).pathname.startsWith(IGNITION));
+      const page = await open(suite.context, { allow400: (u) => new URL(u).pathname.startsWith(IGNITION) });
       await gotoHydrated(page, IGNITION);
       const readings = page.locator("form[aria-label='Your readings']");
       await readings.locator("#r1").fill("12.6");
@@ -261,8 +216,7 @@ describe.skipIf(skipBrowser)("workshop tools in Chromium", () => {
       await page.screenshot({ path: artifact("walk.png"), fullPage: true });
 
       // Without JavaScript the server itself renders the message and the kept values.
-      noJs ??= await newContext(browser, server.url, { javaScriptEnabled: false });
-      const plain = await open(noJs, (u) => new URL(u).pathname.startsWith(IGNITION));
+      const plain = await open(await suite.noJsContext(), { allow400: (u) => new URL(u).pathname.startsWith(IGNITION) });
       await plain.goto(IGNITION);
       const form = plain.locator("form[aria-label='Your readings']");
       await form.locator("#r1").fill("12.6");
@@ -417,7 +371,7 @@ describe.skipIf(skipBrowser)("workshop tools in Chromium", () => {
       // The CSV link answers text/csv with a header row and one line per wire.
       const href = await cut.getByRole("link", { name: "Download CSV" }).getAttribute("href");
       expect(href).toMatch(/^\/planner\/cut-list\.csv\?/);
-      expect(new URL(href!, server.url).searchParams.get(`len_${wire}`)).toBe("2.5");
+      expect(new URL(href!, suite.server.url).searchParams.get(`len_${wire}`)).toBe("2.5");
       const csv = await page.request.get(href!);
       expect(csv.status()).toBe(200);
       expect(csv.headers()["content-type"]).toMatch(/^text\/csv\b/);
