@@ -7,6 +7,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { z } from "zod";
 import { startServer, type TestServer } from "../support/server";
 import { errorBody, shape, stateDigest, client } from "./helpers";
+import { mulberry32 } from "../fixtures/random";
 
 // ---------------------------------------------------------------------------------------------------------------------
 // Shapes (API.md). z.object ignores extra keys ("add fields freely") but fails on a renamed, dropped or retyped one.
@@ -116,17 +117,8 @@ async function card(s: string): Promise<Card> {
   return c;
 }
 
-/** Deterministic PRNG (mulberry32), so the shuffles are the same on every run. */
-function prng(seed: number) {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+// The shuffles use the shared seeded generator, so they are the same on every run.
+const prng = mulberry32;
 function shuffle<T>(xs: readonly T[], rnd: () => number): T[] {
   const out = [...xs];
   for (let i = out.length - 1; i > 0; i--) {
