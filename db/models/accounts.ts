@@ -192,8 +192,11 @@ export class MistakeReport extends Model<InferAttributes<MistakeReport>, InferCr
   declare connectorId: ForeignKey<number>;
   declare revision: number;
   declare text: string;
-  declare status: CreationOptional<string>;
+  declare status: CreationOptional<string>; // open | resolved | dismissed
   declare createdAt: Date;
+  declare resolvedBy: CreationOptional<number | null>;
+  declare resolvedAt: CreationOptional<Date | null>;
+  declare resolution: CreationOptional<string>;
 }
 MistakeReport.init(
   {
@@ -204,6 +207,9 @@ MistakeReport.init(
     text: { type: DataTypes.TEXT, allowNull: false },
     status: { type: DataTypes.STRING, allowNull: false, defaultValue: "open" },
     createdAt: { type: DataTypes.DATE, allowNull: false },
+    resolvedBy: { type: DataTypes.INTEGER, allowNull: true },
+    resolvedAt: { type: DataTypes.DATE, allowNull: true },
+    resolution: { type: DataTypes.TEXT, allowNull: false, defaultValue: "" },
   },
   { ...common, tableName: "mistake_reports" },
 );

@@ -1,2 +1,3 @@
 export * from "./library.ts";
 export * from "./accounts.ts";
+export * from "./contributions.ts";
