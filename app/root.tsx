@@ -79,6 +79,8 @@ function AccountLinks() {
   return (
     <div className="ml-auto flex flex-wrap items-center gap-3 text-sm">
       <Link to="/garage" className="text-paper underline">Garage</Link>
+      {can(user.role, "submission.create") ? <Link to="/contribute" className="text-paper underline">Contribute</Link> : null}
+      {can(user.role, "review.work") ? <Link to="/review" className="text-paper underline">Review queue</Link> : null}
       {can(user.role, "admin.roles") ? <Link to="/admin" className="text-paper underline">Admin</Link> : null}
       <Link to="/account" className="text-paper/85 no-underline hover:underline" data-testid="signed-in-as">{user.displayName}</Link>
       <Form method="post" action="/logout" reloadDocument><button className="rounded border border-paper/60 px-2 py-0.5 text-paper">Sign out</button></Form>

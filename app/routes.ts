@@ -22,6 +22,11 @@ export default [
   route("account", "routes/account.tsx"),
   route("garage", "routes/garage.tsx"),
   route("admin", "routes/admin.tsx"),
+  route("photos/:file", "routes/photos.$file.ts"),
+  route("contribute", "routes/contribute.tsx"),
+  route("submissions/:id", "routes/submissions.$id.tsx"),
+  route("review", "routes/review.tsx"),
+  route("review/:id", "routes/review.$id.tsx"),
 
   route("api/v1/health", "routes/api.v1.health.ts"),
   route("api/v1/makes", "routes/api.v1.makes.ts"),
@@ -38,6 +43,10 @@ export default [
   route("api/v1/families/:slug/circuits", "routes/api.v1.families.$slug.circuits.ts"),
   route("api/v1/families/:slug/circuits/:circuit/walk", "routes/api.v1.families.$slug.circuits.$circuit.walk.ts"),
   route("api/v1/families/:slug/circuits/:circuit/diagnose", "routes/api.v1.families.$slug.circuits.$circuit.diagnose.ts"),
+  route("api/v1/submissions", "routes/api.v1.submissions.ts"),
+  route("api/v1/submissions/:id", "routes/api.v1.submissions.$id.ts"),
+  route("api/v1/submissions/:id/review", "routes/api.v1.submissions.$id.review.ts"),
+  route("api/v1/photos", "routes/api.v1.photos.ts"),
   route("api/*", "routes/api.$.ts"),
 
   route("*", "routes/$.tsx"),

@@ -1,4 +1,4 @@
-/** Database commands: `tsx db/cli.ts migrate|seed|setup|reset|check`. */
+/** Database commands: `tsx db/cli.ts migrate|seed|setup|reset|check|create-admin|sweep-photos`. */
 import { rmSync } from "node:fs";
 import { databasePath, sequelize } from "./index.server.ts";
 import { migrateUp } from "./migrate.ts";
@@ -46,8 +46,14 @@ try {
       if (!created) await user.update({ role: "admin" });
       console.log(`${email} is an admin${created ? " (new account)" : ""}`);
     }
+  } else if (command === "sweep-photos") {
+    // Leftovers of interrupted uploads (uploads/tmp older than 1 h, unreferenced photo files older than 24 h).
+    await migrateUp();
+    const { sweepPhotos, UPLOADS_DIR } = await import("../app/services/photos.server.ts");
+    const r = await sweepPhotos();
+    console.log(`${UPLOADS_DIR}: removed ${r.tmpRemoved} temporary, ${r.partsRemoved} partial and ${r.orphansRemoved} unreferenced file(s); kept ${r.kept}`);
   } else {
-    console.error("usage: tsx db/cli.ts migrate|seed|setup|reset|check|create-admin");
+    console.error("usage: tsx db/cli.ts migrate|seed|setup|reset|check|create-admin|sweep-photos");
     process.exitCode = 2;
   }
 } finally {

@@ -1,15 +1,16 @@
+import type { Transaction } from "sequelize";
 import { LoomGraph, type EdgeKind, type GraphEdge } from "../app/domain/loom-graph.ts";
 import { Component, ComponentLink, Connector, Pin, Wire } from "./models/index.ts";
 
 /** Load one family's loom graph from the database: wires, mated cavities and internal links as edges. */
-export async function loadFamilyGraph(familyId: number) {
+export async function loadFamilyGraph(familyId: number, transaction?: Transaction) {
   const [pins, wires, connectors, components] = await Promise.all([
-    Pin.findAll({ where: { familyId } }),
-    Wire.findAll({ where: { familyId } }),
-    Connector.findAll({ where: { familyId } }),
-    Component.findAll({ where: { familyId } }),
+    Pin.findAll({ where: { familyId }, transaction }),
+    Wire.findAll({ where: { familyId }, transaction }),
+    Connector.findAll({ where: { familyId }, transaction }),
+    Component.findAll({ where: { familyId }, transaction }),
   ]);
-  const links = await ComponentLink.findAll({ where: { componentId: components.map((c) => c.id) } });
+  const links = await ComponentLink.findAll({ where: { componentId: components.map((c) => c.id) }, transaction });
   const byConnectorCavity = new Map(pins.filter((p) => p.connectorId).map((p) => [`${p.connectorId}:${p.cavity}`, p]));
   const edges: GraphEdge[] = [
     ...wires.map((w) => ({ id: `w${w.id}`, a: String(w.fromPinId), b: String(w.toPinId), kind: "wire" as const })),

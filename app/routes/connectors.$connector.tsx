@@ -196,7 +196,32 @@ export default function ConnectorCardPage({ loaderData, actionData }: Route.Comp
         </section>
       ) : null}
 
+      {card.photos.length ? (
+        <section aria-labelledby="photos-heading" className="print-avoid-break">
+          <h2 id="photos-heading" className="text-xl font-bold print:text-base">Photos</h2>
+          <ul className="mt-2 grid grid-cols-2 gap-3 sm:grid-cols-3 lg:grid-cols-4 print:grid-cols-4 print:gap-1" data-testid="card-photos">
+            {card.photos.map((p, i) => (
+              <li key={p.url}>
+                <figure>
+                  <a href={p.url}><img src={p.thumbUrl} width={p.thumbWidth} height={p.thumbHeight} alt={p.caption || `Photo ${i + 1} of ${card.name}`} loading="lazy" className="h-auto w-full rounded border border-rule bg-white" /></a>
+                  <figcaption className="mt-1 text-sm print:text-[7pt]">{p.caption}{p.credit ? <span className="block text-muted">Photo: {p.credit} · {p.licence}</span> : null}</figcaption>
+                </figure>
+              </li>
+            ))}
+          </ul>
+        </section>
+      ) : null}
+
       <Cautions kinds={cautions} className="print:py-1.5 print:text-[8pt] print:leading-snug" />
+
+      {card.revisions.length ? (
+        <details className="no-print rounded-md border border-rule bg-white p-3" data-testid="revisions">
+          <summary className="cursor-pointer font-semibold">Revision history ({card.revisions.length})</summary>
+          <ol className="mt-2 space-y-1 text-sm">
+            {card.revisions.map((r) => <li key={r.number}><span className="font-semibold">Revision {r.number}</span> · {r.publishedAt.slice(0, 10)} · {r.summary}</li>)}
+          </ol>
+        </details>
+      ) : null}
 
       <section aria-labelledby="yours" className="no-print rounded-md border border-rule bg-white p-4">
         <h2 id="yours" className="text-lg font-bold">On your bike</h2>
@@ -235,6 +260,7 @@ export default function ConnectorCardPage({ loaderData, actionData }: Route.Comp
         <a href={`/api/v1/connectors/${card.slug}?format=csv`} className="rounded border border-ink bg-white px-3 py-1.5 font-semibold no-underline">Download CSV</a>
         <a href={`/api/v1/connectors/${card.slug}`} className="rounded border border-ink bg-white px-3 py-1.5 font-semibold no-underline">JSON</a>
         {card.specs.length > 0 ? <Link to={`/bench?connector=${card.slug}`} className="rounded border border-ink bg-white px-3 py-1.5 font-semibold no-underline">Bench sheet from these specs</Link> : null}
+        {rider && can(rider.role, "submission.create") ? <Link to={`/contribute?card=${card.slug}`} className="rounded border border-ink bg-white px-3 py-1.5 font-semibold no-underline">Propose a correction</Link> : null}
         <PrintButton />
       </footer>
     </article>

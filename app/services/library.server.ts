@@ -1,10 +1,11 @@
 /** Reads of the published library: makes, families, connector cards, face geometry, CSV. */
 import { Op } from "sequelize";
-import { Component, Connector, Family, Make, Pin, SpecValue, System, Wire } from "~db/models/index.ts";
+import { Component, Connector, Family, Make, Photo, Pin, Revision, SpecValue, System, Wire } from "~db/models/index.ts";
 import { decodeColour, describeColour, swatch, type ColourSystemId } from "~/domain/colours";
 import { faceGeometry, type FaceHalf, type FaceSide, type HousingLayout } from "~/domain/connector-face";
 import { ensureDatabase } from "./database.server";
 import { bikeChecks } from "./garage.server";
+import { photoUrls } from "./photos.server";
 import { isSlug } from "~/validation/library";
 
 export interface MakeSummary { slug: string; name: string; colourSystem: string; familyCount: number; blurb: string }
@@ -114,13 +115,15 @@ export async function getConnectorCard(slug: string) {
   await ensureDatabase();
   const c = await Connector.findOne({ where: { slug } });
   if (!c) return null;
-  const [family, system, mate, owner, pins, specs] = await Promise.all([
+  const [family, system, mate, owner, pins, specs, photos, revisions] = await Promise.all([
     Family.findByPk(c.familyId, { include: [{ model: Make, as: "make" }], rejectOnEmpty: true }),
     System.findByPk(c.systemId, { rejectOnEmpty: true }),
     c.matesWithId ? Connector.findByPk(c.matesWithId) : null,
     c.componentId ? Component.findByPk(c.componentId) : null,
     Pin.findAll({ where: { connectorId: c.id }, order: [["position", "ASC"]] }),
     SpecValue.findAll({ where: { connectorId: c.id }, order: [["id", "ASC"]] }),
+    Photo.findAll({ where: { connectorId: c.id, removedAt: null }, order: [["position", "ASC"]] }),
+    Revision.findAll({ where: { connectorId: c.id }, attributes: ["number", "summary", "publishedAt"], order: [["number", "DESC"]] }),
   ]);
   const colourSystem = family.colourSystem as ColourSystemId;
   const [destinations, checks] = await Promise.all([wireDestinations(pins), bikeChecks(c.id)]);
@@ -147,7 +150,8 @@ export async function getConnectorCard(slug: string) {
       matesWith: mate?.slug ?? null, mateName: mate?.name ?? null, component: owner ? { name: owner.name, kind: owner.kind } : null,
       colourSystem, layout: layoutOf(c), pins: pinRows,
       specs: specs.map((s) => ({ name: s.name, min: s.min, max: s.max, unit: s.unit, between: [s.betweenA, s.betweenB] as [string, string], atC: s.atC, source: s.source })),
-      photos: [] as { url: string; thumbUrl: string; width: number; height: number; caption: string; credit: string }[],
+      photos: photos.map((p) => ({ ...photoUrls(p.id), width: p.width, height: p.height, thumbWidth: p.thumbWidth, thumbHeight: p.thumbHeight, caption: p.caption, credit: p.credit, licence: p.licence })),
+      revisions: revisions.map((r) => ({ number: r.number, summary: r.summary, publishedAt: r.publishedAt.toISOString() })),
       notes: c.notes,
       revision: { number: c.revision, publishedAt: c.publishedAt.toISOString() },
       bikeChecked: checks.count,
@@ -227,4 +231,15 @@ export function cardCsv(card: ConnectorCard): string {
   const rows = card.pins.map((p) => [p.cavity, p.colour.code, p.colour.base, p.colour.tracers.join(" "), p.colour.iec, p.circuit, p.terminal,
     p.goesTo?.connector, p.goesTo?.cavity, p.destinations.map((d) => d.label).join("; ")]);
   return [head, ...rows].map((r) => r.map(csvCell).join(",")).join("\r\n") + "\r\n";
+}
+
+/** Every card's slug and name, grouped by family (for the contributor's "edit a card" picker). */
+export async function cardsByFamily() {
+  await ensureDatabase();
+  const families = await Family.findAll({ include: [{ model: Make, as: "make" }], order: [["name", "ASC"]] });
+  const connectors = await Connector.findAll({ attributes: ["slug", "name", "familyId"], order: [["name", "ASC"]] });
+  return families.map((f) => ({
+    family: { slug: f.slug, name: f.name, make: f.make!.name },
+    cards: connectors.filter((c) => c.familyId === f.id).map((c) => ({ slug: c.slug, name: c.name })),
+  }));
 }

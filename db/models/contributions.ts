@@ -22,7 +22,7 @@ export class Submission extends Model<InferAttributes<Submission>, InferCreation
   declare kind: "new" | "edit";
   declare familyId: number | null;
   declare connectorId: number | null;
-  declare familyRequest: CreationOptional<unknown>;
+  declare familyRequest: unknown;
   declare baseRevision: number | null;
   declare state: CreationOptional<string>;
   /** Bumped by every change; every write is a conditional UPDATE on it (optimistic locking). */

@@ -135,6 +135,7 @@ export class Connector extends Model<InferAttributes<Connector>, InferCreationAt
   declare notes: string;
   declare revision: number;
   declare publishedAt: Date;
+  declare family?: NonAttribute<Family>;
 }
 Connector.init(
   {
