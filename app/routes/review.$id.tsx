@@ -5,7 +5,7 @@ import { FormMessage } from "~/components/field";
 import { SOURCE_LABELS, type SourceKind } from "~/domain/submissions";
 import { requireCan } from "~/services/guards.server";
 import { renderNotes } from "~/services/markdown.server";
-import { photoUrls } from "~/services/photos.server";
+import { photoUrls } from "~/domain/photo-urls";
 import { isBusyOrFull } from "~/services/submission-http.server";
 import { closeReport, decide, SubmissionError, viewReport, viewSubmission } from "~/services/submissions.server";
 import { LIMITS } from "~/validation/submissions";

@@ -67,14 +67,6 @@ export const familyRequestSchema = z.object({
 }).refine((f) => f.yearFrom <= f.yearTo, { message: "the first year must not be after the last", path: ["yearTo"] });
 export type FamilyRequest = z.infer<typeof familyRequestSchema>;
 
-/** What the author may set on a submission; everything else is the server's. */
-export const submissionFields = z.object({
-  content: proposalSchema,
-  sourceKind: z.union([z.enum(SOURCE_KINDS), z.literal("")]).default(""),
-  sourceDetail: prose(1000).default(""),
-  summary: prose(1000).default(""),
-});
-
 /** POST /api/v1/submissions: start a draft — a new card (family or familyRequest) or an edit of a published card. */
 export const createSubmissionBody = z.object({
   connector: slug.optional(),
@@ -90,8 +82,13 @@ export const createSubmissionBody = z.object({
   message: "give exactly one of connector (an edit), family (a new card) or familyRequest (a new card for a new family)",
 });
 
-/** PUT/PATCH /api/v1/submissions/:id: change a draft or a returned submission. */
-export const updateSubmissionBody = submissionFields.partial().extend({
+/** PUT/PATCH /api/v1/submissions/:id: change a draft or a returned submission (only these fields; the rest is the server's). */
+export const updateSubmissionBody = z.object({
+  content: proposalSchema.optional(),
+  sourceKind: z.union([z.enum(SOURCE_KINDS), z.literal("")]).optional(),
+  sourceDetail: prose(1000).optional(),
+  summary: prose(1000).optional(),
+}).extend({
   version: z.coerce.number().int().min(1),
   action: z.enum(["save", "submit", "withdraw"]).default("save"),
   answer: prose(LIMITS.message).optional(),

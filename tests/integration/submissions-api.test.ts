@@ -1,0 +1,168 @@
+/**
+ * The submissions and review JSON routes (API.md "Accounts and contributions") through the production server with the
+ * mail stand-in: guards (401/403/404), optimistic locking (409 with the current version), S13 mass assignment, S10
+ * stored XSS through notes and pin fields on the published card page, and the contributor ↔ moderator loop with both
+ * outcome mails captured by the stand-in.
+ */
+import { DomUtils, parseDocument } from "htmlparser2";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { DEMO, req, signIn, where, type Role } from "../support/http";
+import { startServer, type TestServer } from "../support/server";
+import { stateDigest } from "./helpers";
+
+let srv: TestServer;
+const sessions = {} as Record<Role, string>;
+const CARD = "rx750-four-pickups-socket";
+
+beforeAll(async () => {
+  srv = await startServer({ mail: true, env: { MAIL_POLL_MS: "200" } });
+  for (const role of ["rider", "contributor", "moderator", "admin"] as Role[]) sessions[role] = await signIn(srv, DEMO[role].email, DEMO[role].password);
+}, 120_000);
+afterAll(async () => srv?.stop());
+
+const json = (r: { body: string }) => JSON.parse(r.body);
+type Sub = { id: number; version: number; state: string; content: { pins: { cavity: string; code: string | null; circuit: string; terminal: string | null }[]; notes: string; name: string }; problems: unknown[] };
+
+async function start(session: string, body: unknown) {
+  const r = await req(srv, "/api/v1/submissions", { json: body, session });
+  return { r, s: r.status < 300 ? (json(r).submission as Sub) : null };
+}
+
+describe("guards", () => {
+  it("anonymous 401, an unverified rider 403, a contributor 201", async () => {
+    expect((await req(srv, "/api/v1/submissions", { json: { connector: CARD } })).status).toBe(401);
+    expect((await req(srv, "/api/v1/submissions", { json: { connector: CARD }, session: sessions.rider })).status).toBe(403);
+    const { r, s } = await start(sessions.contributor, { connector: CARD });
+    expect(r.status, where(r)).toBe(201);
+    expect(s).toMatchObject({ state: "draft", kind: "edit", version: 1 });
+  });
+
+  it("another contributor's draft is a 404, for reading and for writing; moderators may read it", async () => {
+    const { s } = await start(sessions.contributor, { connector: CARD });
+    expect((await req(srv, `/api/v1/submissions/${s!.id}`, { session: sessions.rider })).status).toBe(404);
+    expect((await req(srv, `/api/v1/submissions/${s!.id}`, { method: "PATCH", json: { version: 1, summary: "x" }, session: sessions.moderator })).status).toBe(404);
+    expect((await req(srv, `/api/v1/submissions/${s!.id}`, { session: sessions.moderator })).status).toBe(200);
+    expect((await req(srv, `/submissions/${s!.id}`, { session: sessions.rider })).status).toBe(404);
+    expect((await req(srv, "/api/v1/submissions/999999", { session: sessions.contributor })).status).toBe(404);
+    expect((await req(srv, "/api/v1/submissions/not-a-number", { session: sessions.contributor })).status).toBe(404);
+  });
+
+  it("only moderators decide: contributor 403, anonymous 401, cross-site 403", async () => {
+    const body = { version: 1, decision: "approve" };
+    expect((await req(srv, "/api/v1/submissions/1/review", { json: body })).status).toBe(401);
+    expect((await req(srv, "/api/v1/submissions/1/review", { json: body, session: sessions.contributor })).status).toBe(403);
+    expect((await req(srv, "/api/v1/submissions/1/review", { json: body, session: sessions.moderator, origin: "https://evil.example" })).status).toBe(403);
+    expect((await req(srv, "/api/v1/submissions/1/review", { session: sessions.moderator })).status).toBe(405);
+  });
+
+  it("bad bodies are 400/415, never 500", async () => {
+    for (const body of [{}, { connector: "Not A Slug" }, { connector: CARD, family: "rx750-four" }, { family: "rx750-four", content: { pins: "x" } }, { familyRequest: { make: "asagiri" } }]) {
+      const r = await req(srv, "/api/v1/submissions", { json: body, session: sessions.contributor });
+      expect(r.status, JSON.stringify(body)).toBe(400);
+      expect(json(r).error.code).toBe("bad_request");
+    }
+    expect((await req(srv, "/api/v1/submissions", { method: "POST", headers: { "Content-Type": "text/plain" }, session: sessions.contributor })).status).toBe(415);
+    expect((await start(sessions.contributor, { family: "no-such-family" })).r.status).toBe(404);
+  });
+});
+
+describe("S13: mass assignment", () => {
+  it("extra fields (state, authorId, role, version, bikeCheckedCount) are ignored", async () => {
+    const { r, s } = await start(sessions.contributor, { connector: CARD, state: "published", authorId: 1, role: "admin", version: 999, bikeCheckedCount: 1000, idempotencyKey: "mass-assign-1" });
+    expect(r.status, where(r)).toBe(201);
+    expect(s).toMatchObject({ state: "draft", version: 1 });
+    const u = await req(srv, `/api/v1/submissions/${s!.id}`, { method: "PATCH", json: { version: 1, state: "published", authorId: 1, publishedRevision: 9, decidedBy: 1, summary: "only this" }, session: sessions.contributor });
+    expect(u.status, where(u)).toBe(200);
+    expect(json(u).submission).toMatchObject({ state: "draft", version: 2, summary: "only this", author: { displayName: DEMO.contributor.displayName } });
+  });
+});
+
+describe("optimistic locking and double submit", () => {
+  it("a stale version is a 409 with the current state and version, and changes nothing", async () => {
+    const { s } = await start(sessions.contributor, { connector: CARD });
+    expect((await req(srv, `/api/v1/submissions/${s!.id}`, { method: "PATCH", json: { version: 1, summary: "first" }, session: sessions.contributor })).status).toBe(200);
+    const digest = await stateDigest(srv.dbPath);
+    const r = await req(srv, `/api/v1/submissions/${s!.id}`, { method: "PATCH", json: { version: 1, summary: "second" }, session: sessions.contributor });
+    expect(r.status).toBe(409);
+    expect(json(r).error).toMatchObject({ code: "conflict", current: { state: "draft", version: 2 } });
+    expect(await stateDigest(srv.dbPath)).toBe(digest);
+  });
+
+  it("D12: the same idempotency key twice → one submission (201 then 200 with the same id)", async () => {
+    const body = { connector: CARD, idempotencyKey: "dbl-click-abcdef" };
+    const [a, b] = await Promise.all([start(sessions.contributor, body), start(sessions.contributor, body)]);
+    expect([a.r.status, b.r.status].sort()).toEqual([200, 201]);
+    expect(a.s!.id).toBe(b.s!.id);
+  });
+});
+
+describe("S10 and the whole loop: submit → return with a question → answer → approve", () => {
+  const XSS = [
+    "<script>alert(1)</script>", "<img src=x onerror=alert(1)>", "[x](javascript:alert(1))", "<a href=\"&#106;avascript:alert(1)\">j</a>",
+    "<svg><foreignObject><script>alert(1)</script></foreignObject></svg>", "<iframe srcdoc=\"<script>alert(1)</script>\"></iframe>",
+    "<form action=\"javascript:alert(1)\"><button formaction=\"javascript:alert(1)\">go</button></form>", "[d](data:text/html;base64,PHNjcmlwdD5hbGVydCgxKTwvc2NyaXB0Pg==)",
+    "<a href=\"https://example.org\" target=\"_blank\">ok link</a>", "<style>body{display:none}</style>", "<object data=x></object><embed src=x>",
+  ]; // OWASP XSS Filter Evasion Cheat Sheet payloads (../shared/REFERENCE-FACTS.md §7.1)
+
+  it("publishes the new revision, renders every payload inert, and both outcome mails reach the stand-in", async () => {
+    const { s } = await start(sessions.contributor, { connector: CARD, idempotencyKey: "s10-loop-1" });
+    const content = structuredClone(s!.content);
+    content.notes = XSS.join("\n\n");
+    content.pins[1].circuit = "<script>alert('circuit')</script>";
+    content.pins[2].circuit = "\"><img src=x onerror=alert(2)>";
+    let r = await req(srv, `/api/v1/submissions/${s!.id}`, { method: "PATCH", json: { version: s!.version, content, sourceKind: "traced", sourceDetail: "On my 1979 bike", summary: "Circuit names", action: "submit" }, session: sessions.contributor });
+    expect(r.status, where(r)).toBe(200);
+    let sub = json(r).submission as Sub;
+    expect(sub.state).toBe("in_review");
+
+    r = await req(srv, `/api/v1/submissions/${sub.id}/review`, { json: { version: sub.version, decision: "return" }, session: sessions.moderator });
+    expect(r.status, "a return needs a question").toBe(400);
+    r = await req(srv, `/api/v1/submissions/${sub.id}/review`, { json: { version: sub.version, decision: "return", message: "Which year did you trace?" }, session: sessions.moderator });
+    expect(r.status, where(r)).toBe(200);
+    sub = json(r).submission;
+    expect(sub.state).toBe("returned");
+    // The loser of a race: the same version again is a 409.
+    expect((await req(srv, `/api/v1/submissions/${sub.id}/review`, { json: { version: sub.version - 1, decision: "decline", message: "late" }, session: sessions.admin })).status).toBe(409);
+
+    r = await req(srv, `/api/v1/submissions/${sub.id}`, { method: "PATCH", json: { version: sub.version, action: "submit", answer: "A 1979 bike." }, session: sessions.contributor });
+    expect(r.status, where(r)).toBe(200);
+    sub = json(r).submission;
+    expect(sub.state).toBe("in_review");
+    r = await req(srv, `/api/v1/submissions/${sub.id}/review`, { json: { version: sub.version, decision: "approve" }, session: sessions.moderator });
+    expect(r.status, where(r)).toBe(200);
+    const outcome = json(r).outcome as { connector: string; revision: number };
+    expect(outcome.connector).toBe(CARD);
+
+    const card = json(await req(srv, `/api/v1/connectors/${CARD}`)).connector;
+    expect(card.revision.number).toBe(outcome.revision);
+    expect(card.pins[1].circuit).toBe("<script>alert('circuit')</script>"); // stored as typed, shown as text
+
+    const page = await req(srv, `/connectors/${CARD}`);
+    expect(page.status).toBe(200);
+    const nodes = parseDocument(page.body).children;
+    const main = DomUtils.findOne((e) => e.name === "main", nodes)!;
+    const bad = DomUtils.findAll((e) => ["script", "iframe", "object", "embed", "form", "style"].includes(e.name) || (e.name === "svg" && !e.attribs["aria-label"] && !e.attribs.role && !e.attribs["aria-hidden"]), [main]);
+    expect(bad.filter((e) => e.name !== "svg").map((e) => e.name)).toEqual([]);
+    const notes = DomUtils.findOne((e) => e.attribs.class?.includes("prose") ?? false, [main])!;
+    expect(DomUtils.findAll((e) => e.name === "svg", [notes])).toEqual([]);
+    for (const el of DomUtils.findAll(() => true, [main])) {
+      for (const [k, v] of Object.entries(el.attribs)) {
+        expect(k.startsWith("on"), `${el.name} ${k}`).toBe(false);
+        if (k === "href" || k === "src" || k === "action" || k === "formaction") expect(v, `${el.name} ${k}=${v}`).toMatch(/^(https?:|mailto:|\/|#|\?|[^:]*$)/);
+      }
+    }
+    for (const a of DomUtils.findAll((e) => e.name === "a" && e.attribs.href?.startsWith("https://example.org"), [notes])) expect(a.attribs.rel).toMatch(/noopener/);
+    expect(page.body).toContain("&lt;script&gt;alert(&#x27;circuit&#x27;)&lt;/script&gt;");
+
+    // Both outcome mails (returned, then published) reach the stand-in.
+    const deadline = Date.now() + 20_000;
+    let subjects: string[] = [];
+    while (Date.now() < deadline) {
+      const list = (await (await fetch(`${srv.mailHttp}/messages`)).json()) as { to: string; subject: string }[];
+      subjects = list.filter((m) => m.to.includes(DEMO.contributor.email)).map((m) => m.subject);
+      if (subjects.some((x) => /published/i.test(x)) && subjects.some((x) => /needs another look/i.test(x))) break;
+      await new Promise((ok) => setTimeout(ok, 250));
+    }
+    expect(subjects.filter((x) => /published/i.test(x)), subjects.join(" | ")).toHaveLength(1);
+  }, 60_000);
+});
