@@ -1,6 +1,7 @@
 import { sequelize } from "~db/index.server.ts";
 import { setupDatabase } from "~db/setup.ts";
 import { startMailWorker } from "./mail.server";
+import { startPhotoSweeper } from "./photos.server";
 
 let ready: Promise<void> | null = null;
 
@@ -10,6 +11,7 @@ export function ensureDatabase(): Promise<void> {
     await setupDatabase({ seed: process.env.SEED_DEMO !== "false" });
     // The outbox worker runs inside the app process once the schema is there (MAIL_WORKER=off to leave it out).
     if (process.env.MAIL_WORKER !== "off") startMailWorker();
+    startPhotoSweeper(); // interrupted uploads' leftovers, at start and hourly (PHOTO_SWEEPER=off to leave it out)
   })().catch((e) => {
     ready = null;
     throw e;

@@ -2,7 +2,8 @@
 
 export type ApiErrorCode =
   | "bad_request" | "unknown_colour" | "not_signed_in" | "forbidden" | "not_found" | "method_not_allowed"
-  | "conflict" | "too_large" | "unsupported_media_type" | "rate_limited" | "unavailable" | "internal_error";
+  | "conflict" | "too_large" | "unsupported_media_type" | "unprocessable" | "rate_limited" | "unavailable" | "insufficient_storage"
+  | "internal_error";
 
 /** A JSON error response: {"error": {code, message, field?}}. */
 export function apiError(status: number, code: ApiErrorCode, message: string, field?: string, headers?: HeadersInit) {

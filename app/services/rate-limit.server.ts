@@ -39,3 +39,12 @@ export async function takeMailRequest(address: string, recipient: string): Promi
   if (!a.ok) return a;
   return take(mailPerRecipient, recipient);
 }
+
+// Photo uploads per user per minute (ASVS 4.0.3 V11.1.4, anti-automation on uploads); the count comes from PHOTO_LIMITS.
+let uploadsPerUser: RateLimiterMemory | null = null;
+
+/** One photo upload request by a user; `perMinute` is fixed by the first call (photos.server.ts passes its limit). */
+export async function takeUpload(userId: number, perMinute: number): Promise<Limited> {
+  uploadsPerUser ??= new RateLimiterMemory({ keyPrefix: "photo-upload", points: perMinute, duration: 60 });
+  return take(uploadsPerUser, String(userId));
+}

@@ -65,7 +65,7 @@ export async function startServer(arg: StartOptions | Record<string, string> = {
   let log = "";
   const child: ChildProcess = spawn(process.execPath, ["--import", "tsx", path.join(root, "app/serve.server.ts")], {
     cwd: root,
-    env: { ...process.env, NODE_ENV: "production", PORT: String(port), HOST: "127.0.0.1", DB_PATH: dbPath, ...mailEnv, ...env },
+    env: { ...process.env, NODE_ENV: "production", PORT: String(port), HOST: "127.0.0.1", DB_PATH: dbPath, UPLOADS_DIR: path.join(dir, "uploads"), ...mailEnv, ...env },
     stdio: ["ignore", "pipe", "pipe"],
   });
   child.stdout!.on("data", (d) => (log += d));
