@@ -53,6 +53,11 @@ export const SOURCE_LABELS: Readonly<Record<SourceKind, string>> = Object.freeze
 
 export const LATCH_SIDES = ["top", "bottom", "left", "right"] as const;
 
+/** Size limits of a proposal (the schema in app/validation/submissions.ts enforces them; the editor shows them). */
+export const LIMITS = Object.freeze({
+  rows: 20, cols: 20, cavities: 200, pins: 200, specs: 50, photos: 12, notes: 20_000, text: 200, message: 4_000,
+});
+
 /** A family's main systems (PRODUCT.md). */
 export const SYSTEM_KINDS = ["ignition", "charging", "starting", "lighting", "signals", "instruments"] as const;
 

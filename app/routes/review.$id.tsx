@@ -8,7 +8,7 @@ import { renderNotes } from "~/services/markdown.server";
 import { photoUrls } from "~/domain/photo-urls";
 import { isBusyOrFull } from "~/services/submission-http.server";
 import { closeReport, decide, SubmissionError, viewReport, viewSubmission } from "~/services/submissions.server";
-import { LIMITS } from "~/validation/submissions";
+import { LIMITS } from "~/domain/submissions";
 
 export const meta: Route.MetaFunction = ({ loaderData }) => [
   { title: loaderData?.kind === "submission" ? `Review: ${loaderData.s.content.name || "Untitled card"} · Loomlore` : "Review a mistake report · Loomlore" },

@@ -70,16 +70,21 @@ export async function action({ request, params }: Route.ActionArgs): Promise<Ret
   const parsed = proposalSchema.safeParse(raw);
   if (!parsed.success) return data({ error: "Some fields need fixing; nothing was saved yet, your entries are kept below.", problems: issues(parsed.error.issues), proposal: raw, fields }, { status: 400 });
   try {
+    // Saved first, so a submission that is not ready yet keeps everything typed as a draft.
     await updateSubmission(user, id, {
-      version, content: parsed.data as CardProposal, sourceKind: fields.sourceKind, sourceDetail: fields.sourceDetail, summary: fields.summary,
-      action: intent === "submit" ? "submit" : "save", answer: fields.answer,
+      version, content: parsed.data as CardProposal, sourceKind: fields.sourceKind, sourceDetail: fields.sourceDetail, summary: fields.summary, action: "save",
     });
-    return { notice: intent === "submit" ? "Sent for review. A moderator will look at it; you will be told by e-mail." : notice ?? "Draft saved." };
+    if (intent !== "submit") return { notice: notice ?? "Draft saved." };
   } catch (e) {
-    if (e instanceof SubmissionError) {
-      const saved = intent === "submit" && e.status === 400;
-      return data({ error: e.message, problems: e.problems, ...(saved ? {} : { proposal: parsed.data, fields }) }, { status: e.status });
-    }
+    if (e instanceof SubmissionError) return data({ error: e.message, problems: e.problems, proposal: parsed.data, fields }, { status: e.status });
+    const r = submissionApiError(e);
+    return data({ error: "The library is busy; try again in a minute. Your entries are kept below.", proposal: parsed.data, fields }, { status: r.status });
+  }
+  try {
+    await updateSubmission(user, id, { version: version + 1, action: "submit", answer: fields.answer });
+    return { notice: "Sent for review. A moderator will look at it; you will be told by e-mail." };
+  } catch (e) {
+    if (e instanceof SubmissionError) return data({ error: `Saved as a draft, not sent yet. ${e.message}`, problems: e.problems, fields }, { status: e.status });
     const r = submissionApiError(e);
     return data({ error: "The library is busy; try again in a minute. Your entries are kept below.", proposal: parsed.data, fields }, { status: r.status });
   }
@@ -127,12 +132,6 @@ export default function SubmissionPage({ loaderData, actionData }: Route.Compone
         <>
           <Form method="post" id="proposal-form" className="space-y-6" noValidate>
             <input type="hidden" name="version" value={s.version} />
-            {problems.length ? (
-              <section aria-labelledby="todo" className="rounded-md border-l-4 border-signal bg-white p-3">
-                <h2 id="todo" className="font-bold">Before it can go for review</h2>
-                <ul className="mt-1 list-disc pl-5">{problems.slice(0, 12).map((p, i) => <li key={i}>{p.message}</li>)}</ul>
-              </section>
-            ) : null}
             {s.state === "returned" && lastQuestion ? (
               <section aria-labelledby="answer-h" className="rounded-md border-2 border-ink bg-white p-4">
                 <h2 id="answer-h" className="text-xl font-bold">The moderator asks</h2>
@@ -165,14 +164,14 @@ export default function SubmissionPage({ loaderData, actionData }: Route.Compone
             </fieldset>
             <fieldset className="space-y-3 rounded-md border border-rule bg-white p-4">
               <legend className="px-1 text-xl font-bold">How you know</legend>
-              <div className="flex flex-wrap gap-4">
+              <div className="flex flex-wrap gap-4" id="ed-sourceKind" tabIndex={-1}>
                 {SOURCE_KINDS.map((k) => (
                   <label key={k} className="flex items-center gap-2"><input type="radio" name="sourceKind" value={k} defaultChecked={fields.sourceKind === k} /> {SOURCE_LABELS[k]}</label>
                 ))}
               </div>
               {problems.some((p) => p.field === "sourceKind") ? <p id="sourceKind-error" className="text-sm font-semibold text-signal-dark">{problems.find((p) => p.field === "sourceKind")!.message}</p> : null}
               <label className="block text-sm font-semibold">Details (the manual and page, the year of the bike you traced, what you measured with)
-                <textarea name="sourceDetail" rows={2} maxLength={1000} defaultValue={fields.sourceDetail} className="mt-1 block w-full rounded border-2 border-ink px-2 py-1.5 font-normal" />
+                <textarea id="ed-sourceDetail" name="sourceDetail" rows={2} maxLength={1000} defaultValue={fields.sourceDetail} className="mt-1 block w-full rounded border-2 border-ink px-2 py-1.5 font-normal" />
               </label>
               <label className="block text-sm font-semibold">What this changes, in a sentence (shown in the card's revision history)
                 <input name="summary" maxLength={250} defaultValue={fields.summary} className="mt-1 block w-full rounded border-2 border-ink px-2 py-1.5 font-normal" />
@@ -183,11 +182,7 @@ export default function SubmissionPage({ loaderData, actionData }: Route.Compone
               <button name="intent" value="submit" className="rounded bg-ink px-4 py-2 font-semibold text-paper">{s.state === "returned" ? "Send answer and resubmit" : "Send for review"}</button>
             </div>
           </Form>
-          <section aria-labelledby="add-photos" className="rounded-md border border-rule bg-white p-4">
-            <h2 id="add-photos" className="text-xl font-bold">Add photos</h2>
-            <p className="text-sm text-muted">JPEG, PNG or WebP, up to 15 MB each. Location and camera data are removed from every photo before anyone sees it.</p>
-            <PhotoUploader submissionId={s.id} remaining={Math.max(0, LIMITS.photos - proposal.photos.length)} action={`/submissions/${s.id}`} version={s.version} />
-          </section>
+          <PhotoUploader submissionId={s.id} remaining={Math.max(0, LIMITS.photos - proposal.photos.length)} action={`/submissions/${s.id}`} version={s.version} />
         </>
       ) : (
         <section aria-labelledby="what" className="space-y-3">

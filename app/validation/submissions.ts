@@ -3,11 +3,9 @@
  * else in a body, such as state, authorId or role, is dropped). Used by the pages (from form fields) and the API (JSON).
  */
 import { z } from "zod";
-import { LATCH_SIDES, SOURCE_KINDS, SYSTEM_KINDS, type CardProposal } from "~/domain/submissions";
+import { LATCH_SIDES, LIMITS, SOURCE_KINDS, SYSTEM_KINDS, type CardProposal } from "~/domain/submissions";
 
-export const LIMITS = Object.freeze({
-  rows: 20, cols: 20, cavities: 200, pins: 200, specs: 50, photos: 12, notes: 20_000, text: 200, message: 4_000,
-});
+export { LIMITS };
 
 // Control characters never belong in a card (they break queries, CSV and mail); tabs and newlines only in notes.
 const clean = (s: string) => s.replace(/[\u0000-\u0008\u000b\u000c\u000e-\u001f\u007f]/g, "");
