@@ -27,6 +27,8 @@ export async function loader({ params, request }: Route.LoaderArgs) {
     rider: user ? { role: user.role, ...(await riderCardState(user.id, card.id)) } : null,
     view,
     highlight: card.pins.some((p) => p.cavity === cavity) ? cavity : null,
+    // After a moderator's approval the review page lands here with ?published=<revision>.
+    published: url.searchParams.get("published") === String(card.revision.number) ? card.revision.number : null,
     notesHtml: card.notes ? renderNotes(card.notes) : "",
   } as const;
 }
@@ -58,7 +60,7 @@ export async function action({ request, params }: Route.ActionArgs) {
 const LATCH_WORDS = { top: "latch at the top", bottom: "latch at the bottom", left: "latch on the left", right: "latch on the right" } as const;
 
 export default function ConnectorCardPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { card, view, highlight, notesHtml, rider } = loaderData;
+  const { card, view, highlight, notesHtml, rider, published } = loaderData;
   const geometry = faceGeometry(card.layout, { view });
   const cautions: CautionKind[] = card.system === "ignition" ? ["ignition", "battery"] : card.system === "starting" || card.system === "charging" ? ["battery", "fuel"] : ["battery"];
   const here = `/connectors/${card.slug}`;
@@ -69,6 +71,7 @@ export default function ConnectorCardPage({ loaderData, actionData }: Route.Comp
         <Link to="/" className="underline">Library</Link> › <Link to={`/makes/${card.family.make.slug}`} className="underline">{card.family.make.name}</Link> ›{" "}
         <Link to={`/families/${card.family.slug}`} className="underline">{card.family.name}</Link> › {card.systemName}
       </nav>
+      {published ? <p role="status" className="no-print rounded border-l-4 border-ink bg-white px-3 py-2 font-semibold">Published: this is revision {published}. The contributor has been told by e-mail.</p> : null}
       <header className="flex flex-wrap items-start justify-between gap-3">
         <div>
           <p className="text-sm font-semibold uppercase tracking-wide text-muted">{card.family.make.name} {card.family.name} · {card.family.yearFrom}–{card.family.yearTo} · {card.systemName}</p>

@@ -129,9 +129,8 @@ export default function ReviewItem({ loaderData, actionData }: Route.ComponentPr
           <ol className="mt-1 space-y-1">{s.messages.map((m, i) => <li key={i}><span className="text-sm text-muted">{m.author} ({m.kind}):</span> <span className="whitespace-pre-line">{m.text}</span></li>)}</ol>
         </section>
       ) : null}
-      <section aria-labelledby="changes" className="space-y-3">
-        <h2 id="changes" className="text-xl font-bold">{s.kind === "edit" ? "What it changes" : "The proposed card"}</h2>
-        <p className="text-sm text-muted">Check each photo for people, number plates, addresses or anything else personal in frame; location and camera data were removed on upload.</p>
+      <section aria-label="What the submission changes" className="space-y-3">
+        <p className="rounded border-l-4 border-ink bg-white px-3 py-2 text-sm">Check each photo for people, number plates, addresses or anything else personal in frame; location and camera data were removed on upload.</p>
         <CardDiffView diff={s.diff} colourSystem={s.colourSystem} photoUrl={(id, thumb) => (thumb ? photoUrls(id).thumbUrl : photoUrls(id).url)} notesHtml={notesHtml} />
       </section>
       {s.canReview ? (

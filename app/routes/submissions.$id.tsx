@@ -185,8 +185,7 @@ export default function SubmissionPage({ loaderData, actionData }: Route.Compone
           <PhotoUploader submissionId={s.id} remaining={Math.max(0, LIMITS.photos - proposal.photos.length)} action={`/submissions/${s.id}`} version={s.version} />
         </>
       ) : (
-        <section aria-labelledby="what" className="space-y-3">
-          <h2 id="what" className="text-xl font-bold">{s.kind === "edit" ? "What it changes" : "The proposed card"}</h2>
+        <section aria-label="What the submission changes" className="space-y-3">
           <CardDiffView diff={s.diff} colourSystem={s.colourSystem} photoUrl={(id, thumb) => (thumb ? photoUrls(id).thumbUrl : photoUrls(id).url)} notesHtml={notesHtml} />
         </section>
       )}
