@@ -227,6 +227,8 @@ function fill(pattern: string): string {
     .replace(":family", FAMILY)
     .replace(":circuit", "ignition")
     .replace(":connector", CARD)
+    .replace(":id", "1")
+    .replace(":file", "00000000-0000-4000-8000-000000000000.webp")
     .replace(/\*$/, "nothing-declared-here");
   expect(p, `every parameter of ${pattern} has a value`).not.toMatch(/:/);
   return `/${p}`;

@@ -6,7 +6,8 @@
  */
 import { DomUtils, parseDocument } from "htmlparser2";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { DEMO, req, signIn, where, type Role } from "../support/http";
+import sharp from "sharp";
+import { COOKIE, DEMO, req, signIn, where, type Role } from "../support/http";
 import { startServer, type TestServer } from "../support/server";
 import { stateDigest } from "./helpers";
 
@@ -63,6 +64,33 @@ describe("guards", () => {
     }
     expect((await req(srv, "/api/v1/submissions", { method: "POST", headers: { "Content-Type": "text/plain" }, session: sessions.contributor })).status).toBe(415);
     expect((await start(sessions.contributor, { family: "no-such-family" })).r.status).toBe(404);
+  });
+});
+
+describe("S2: a draft's photos", () => {
+  it("are served to their author and moderators only; anyone else gets 404; served photos are inert images", async () => {
+    const { s } = await start(sessions.contributor, { connector: CARD });
+    const jpeg = await sharp({ create: { width: 64, height: 48, channels: 3, background: "#808080" } }).jpeg().toBuffer();
+    const form = new FormData();
+    form.append("photo", new Blob([new Uint8Array(jpeg)], { type: "image/jpeg" }), "p.jpg");
+    form.append("consent", "yes");
+    form.append("submission", String(s!.id));
+    const up = await fetch(`${srv.url}/api/v1/photos`, { method: "POST", body: form, headers: { Cookie: `${COOKIE}=${sessions.contributor}`, Origin: srv.url } });
+    expect(up.status, await up.clone().text()).toBe(201);
+    const { photo } = (await up.json()) as { photo: { id: string; url: string; thumbUrl: string } };
+    for (const [who, status] of [[null, 404], [sessions.rider, 404], [sessions.contributor, 200], [sessions.moderator, 200]] as const) {
+      const r = await req(srv, photo.url, { session: who });
+      expect(r.status, `${photo.url} as ${who ? "signed in" : "anonymous"}`).toBe(status);
+      if (status === 200) {
+        expect(r.headers.get("content-type")).toBe("image/webp");
+        expect(r.headers.get("x-content-type-options")).toBe("nosniff");
+        expect(r.headers.get("content-security-policy")).toMatch(/default-src 'none'/);
+        expect(r.headers.get("cache-control")).toMatch(/private|no-store/);
+      }
+    }
+    expect((await req(srv, "/uploads/photos/" + photo.id + ".webp")).status).toBe(404); // no route serves the raw directory
+    // The draft lists it, with a bumped version.
+    expect(json(await req(srv, `/api/v1/submissions/${s!.id}`, { session: sessions.contributor })).submission.content.photos).toEqual([expect.objectContaining({ id: photo.id })]);
   });
 });
 
