@@ -4,28 +4,15 @@
 // Screenshots: tests/e2e/artifacts/join.png (the failed form), garage.png (the garage with the saved card).
 import { describe, expect, it } from "vitest";
 import type { Page } from "playwright-core";
-import { browserSuite, artifact, skipBrowser, waitForHydration } from "./browser";
+import { browserSuite, artifact, skipBrowser, waitForHydration, waitForMail } from "./browser";
 
 const CARD = "/connectors/rx750-four-ignition-unit-plug";
 const CARD_NAME = "Ignition unit, loom plug";
 
-interface Mail { to: string; subject: string; text: string }
 
 describe.skipIf(skipBrowser)("account journeys in Chromium", () => {
   const suite = browserSuite({ mail: true });
   const { open, gotoHydrated } = suite;
-
-  /** The newest mail to an address from the stand-in's JSON list (newest first). */
-  async function waitForMail(to: string, subject: RegExp): Promise<Mail> {
-    const deadline = Date.now() + 15_000;
-    for (;;) {
-      const list = (await (await fetch(`${suite.server.mailHttp}/messages?to=${encodeURIComponent(to)}`)).json()) as Mail[];
-      const m = list.find((x) => subject.test(x.subject));
-      if (m) return m;
-      if (Date.now() > deadline) throw new Error(`no mail "${subject}" to ${to}`);
-      await new Promise((r) => setTimeout(r, 150));
-    }
-  }
 
   it("join → confirm from the mail → sign in → the header shows the name → save a card → the garage lists it → sign out", async () => {
     const who = { displayName: "Journey Rider", email: "journey-rider@loomlore.invalid", password: "carburettor-float-height" };
@@ -40,7 +27,7 @@ describe.skipIf(skipBrowser)("account journeys in Chromium", () => {
     expect(await page.locator("main strong").innerText()).toBe(who.email);
 
     // The mail's link points at APP_URL (http://localhost:<port> here); open the same path on the server under test.
-    const mail = await waitForMail(who.email, /Confirm your e-mail address/);
+    const mail = await waitForMail(suite.server.mailHttp!, who.email, /Confirm your e-mail address/);
     const link = /https?:\/\/\S+\/verify\?token=[A-Za-z0-9_-]+/.exec(mail.text);
     expect(link, mail.text).not.toBeNull();
     const url = new URL(link![0]);

@@ -138,3 +138,17 @@ export function browserSuite(serverOptions?: Parameters<typeof startServer>[0]) 
     },
   };
 }
+
+export interface CapturedMail { to: string; subject: string; text: string }
+
+/** The newest mail to an address whose subject matches, from the mail stand-in's JSON list (newest first). */
+export async function waitForMail(mailHttp: string, to: string, subject: RegExp, timeoutMs = 20_000): Promise<CapturedMail> {
+  const deadline = Date.now() + timeoutMs;
+  for (;;) {
+    const list = (await (await fetch(`${mailHttp}/messages?to=${encodeURIComponent(to)}`)).json()) as CapturedMail[];
+    const m = list.find((x) => subject.test(x.subject));
+    if (m) return m;
+    if (Date.now() > deadline) throw new Error(`no mail "${subject}" to ${to}: ${list.map((x) => x.subject).join(" | ")}`);
+    await new Promise((r) => setTimeout(r, 150));
+  }
+}

@@ -7,13 +7,12 @@
 import sharp from "sharp";
 import { describe, expect, it } from "vitest";
 import type { BrowserContext, Page } from "playwright-core";
-import { artifact, browserSuite, newContext, skipBrowser, watchErrors } from "./browser";
+import { artifact, browserSuite, newContext, skipBrowser, waitForMail, watchErrors } from "./browser";
 
 const CARD = "rx750-four-pickups-socket";
 const CONTRIBUTOR = { email: "contributor@loomlore.invalid", password: "crimp-and-solder-7" };
 const MODERATOR = { email: "moderator@loomlore.invalid", password: "review-queue-lamp" };
 
-interface Mail { to: string; subject: string; text: string }
 
 /** A photo-like JPEG (noise, so it does not compress to nothing): about 1–2 MB at this size. */
 async function photo(seed: number): Promise<Buffer> {
@@ -34,17 +33,6 @@ describe.skipIf(skipBrowser)("contributions and review in Chromium", () => {
     await page.getByLabel("Password").fill(who.password);
     await page.getByRole("button", { name: "Sign in" }).click();
     await page.waitForURL((u) => !u.pathname.startsWith("/login"));
-  }
-
-  async function waitForMail(to: string, subject: RegExp): Promise<Mail> {
-    const deadline = Date.now() + 20_000;
-    for (;;) {
-      const list = (await (await fetch(`${suite.server.mailHttp}/messages?to=${encodeURIComponent(to)}`)).json()) as Mail[];
-      const m = list.find((x) => subject.test(x.subject));
-      if (m) return m;
-      if (Date.now() > deadline) throw new Error(`no mail "${subject}" to ${to}: ${list.map((x) => x.subject).join(" | ")}`);
-      await new Promise((r) => setTimeout(r, 200));
-    }
   }
 
   it("upload two photos → fill the pin map → submit → returned with a question → answer → approved → the card shows it", async () => {
@@ -135,8 +123,8 @@ describe.skipIf(skipBrowser)("contributions and review in Chromium", () => {
     }
 
     // Both outcome mails are in the stand-in.
-    await waitForMail(CONTRIBUTOR.email, /needs another look/);
-    await waitForMail(CONTRIBUTOR.email, /is published/);
+    await waitForMail(suite.server.mailHttp!, CONTRIBUTOR.email, /needs another look/);
+    await waitForMail(suite.server.mailHttp!, CONTRIBUTOR.email, /is published/);
   });
 
   it("without JavaScript the plain photo form uploads and the page shows the photo", async () => {
