@@ -1,6 +1,7 @@
 // `npm start`: everything a newcomer needs on a fresh clone. Builds the app if there is no build, migrates the
 // database and seeds the demo library into an empty one, starts the local mail stand-in (mail/server.ts) unless mail
-// goes to a real relay, then serves on PORT (default 3000).
+// goes to a real relay and the local search stand-in (search/server.ts) unless SEARCH_URL names another service, then
+// serves on PORT (default 3000). The app fills the search index from the library by itself.
 import { spawn, spawnSync, type ChildProcess } from "node:child_process";
 import { existsSync } from "node:fs";
 import path from "node:path";
@@ -41,7 +42,23 @@ function standInPort(): number | null {
   return local && url.protocol === "smtp:" ? Number(url.port || 25) : null;
 }
 
+/** The search stand-in runs when SEARCH_URL is unset (default http://127.0.0.1:7700) or a plain http:// URL on loopback. */
+function searchStandInPort(): number | null {
+  if (process.env.SEARCH_STANDIN === "off") return null;
+  const raw = process.env.SEARCH_URL;
+  if (!raw) return 7700;
+  let url: URL;
+  try {
+    url = new URL(raw);
+  } catch {
+    return null;
+  }
+  const local = ["127.0.0.1", "localhost", "[::1]"].includes(url.hostname.toLowerCase());
+  return local && url.protocol === "http:" ? Number(url.port || 80) : null;
+}
+
 let stopping = false;
+let searchStandIn: ChildProcess | null = null;
 let mailStandIn: ChildProcess | null = null;
 let server: ChildProcess | null = null;
 
@@ -67,27 +84,48 @@ async function startMailStandIn(smtpPort: number): Promise<void> {
   }
 }
 
-async function stopMailStandIn() {
-  stopping = true;
-  const child = mailStandIn;
+async function startSearchStandIn(port: number): Promise<void> {
+  console.log(`[loomlore] starting the search stand-in on http://127.0.0.1:${port} (index kept in search/data)`);
+  const child = spawn(process.execPath, ["--import", "tsx", "search/server.ts"], { cwd: root, env: { ...env, SEARCH_PORT: String(port) }, stdio: "inherit" });
+  searchStandIn = child;
+  child.on("exit", (code, signal) => {
+    if (!stopping) console.error(`[loomlore] the search stand-in stopped (${code ?? signal}); search answers from the database until it is back.`);
+  });
+  const deadline = Date.now() + 10_000;
+  while (child.exitCode === null && Date.now() < deadline) {
+    try {
+      if ((await fetch(`http://127.0.0.1:${port}/health`)).ok) break;
+    } catch { /* not listening yet */ }
+    await new Promise((r) => setTimeout(r, 100));
+  }
+}
+
+async function stopChild(child: ChildProcess | null) {
   if (!child || child.exitCode !== null || child.signalCode !== null) return;
   const exited = new Promise((r) => child.once("exit", r));
   child.kill("SIGTERM");
   await Promise.race([exited, new Promise((r) => setTimeout(r, 3_000))]);
 }
 
+async function stopStandIns() {
+  stopping = true;
+  await Promise.all([stopChild(mailStandIn), stopChild(searchStandIn)]);
+}
+
 for (const sig of ["SIGINT", "SIGTERM"] as const) {
   process.on(sig, () => {
     if (server) server.kill(sig); // its exit stops the stand-in and this process
-    else stopMailStandIn().then(() => process.exit(0));
+    else stopStandIns().then(() => process.exit(0));
   });
 }
 
 const mailPort = standInPort();
 if (mailPort !== null) await startMailStandIn(mailPort);
+const searchPort = searchStandInPort();
+if (searchPort !== null) await startSearchStandIn(searchPort);
 
 server = spawn(process.execPath, ["--import", "tsx", "app/serve.server.ts"], { cwd: root, env, stdio: "inherit" });
 server.on("exit", async (code, signal) => {
-  await stopMailStandIn();
+  await stopStandIns();
   process.exit(code ?? (signal ? 0 : 1));
 });

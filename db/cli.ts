@@ -1,4 +1,4 @@
-/** Database commands: `tsx db/cli.ts migrate|seed|setup|reset|check|create-admin|sweep-photos`. */
+/** Database commands: `tsx db/cli.ts migrate|seed|setup|reset|check|create-admin|sweep-photos|search-reindex|search-reconcile`. */
 import { rmSync } from "node:fs";
 import { databasePath, sequelize } from "./index.server.ts";
 import { migrateUp } from "./migrate.ts";
@@ -52,8 +52,14 @@ try {
     const { sweepPhotos, UPLOADS_DIR } = await import("../app/services/photos.server.ts");
     const r = await sweepPhotos();
     console.log(`${UPLOADS_DIR}: removed ${r.tmpRemoved} temporary, ${r.partsRemoved} partial and ${r.orphansRemoved} unreferenced file(s); kept ${r.kept}`);
+  } else if (command === "search-reindex" || command === "search-reconcile") {
+    // Rebuild the search service's index (and the database's own full-text copy) from the library, or repair drift.
+    await setupDatabase();
+    const search = await import("../app/services/search.server.ts");
+    if (command === "search-reindex") console.log(`search index rebuilt: ${(await search.reindexAll()).documents} documents`);
+    else console.log(`search index reconciled: ${JSON.stringify(await search.reconcile())}`);
   } else {
-    console.error("usage: tsx db/cli.ts migrate|seed|setup|reset|check|create-admin|sweep-photos");
+    console.error("usage: tsx db/cli.ts migrate|seed|setup|reset|check|create-admin|sweep-photos|search-reindex|search-reconcile");
     process.exitCode = 2;
   }
 } finally {

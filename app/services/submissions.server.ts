@@ -11,6 +11,7 @@ import {
   BikeCheck, Circuit, ComponentLink, Connector, Family, IndexJob, Make, MistakeReport, Photo, Pin, Revision, SpecValue,
   Submission, SubmissionMessage, System, User, Wire,
 } from "~db/models/index.ts";
+import { libraryDocs, writeFallbackDocs } from "~db/search-index.ts";
 import { connectorSnapshot, type ConnectorSnapshot } from "~db/snapshot.ts";
 import type { ColourSystemId } from "~/domain/colours";
 import { reviewOutcomeMessage } from "~/domain/mail-templates";
@@ -454,6 +455,7 @@ async function publish(s: Submission, transaction: Transaction): Promise<{ conne
 
   // The family: the one chosen, or the requested one created now.
   let family: Family;
+  let newFamily = false;
   if (s.familyId) family = await Family.findByPk(s.familyId, { transaction, rejectOnEmpty: true });
   else {
     const req = familyRequestSchema.parse(s.familyRequest);
@@ -465,6 +467,8 @@ async function publish(s: Submission, transaction: Transaction): Promise<{ conne
       firingOrder: req.firingOrder || "—", crankDeg: null, ignition: req.ignition || "—", colourSystem: make.colourSystem, blurb: "",
     }, { transaction });
     await audit(s.decidedBy ?? null, "family.create", "family", family.id, { slug: family.slug, fromSubmission: s.id }, transaction);
+    await IndexJob.create({ kind: "family", subjectId: family.id, op: "upsert", createdAt: now }, { transaction });
+    newFamily = true;
   }
   const ctx = await familyContext(family.id, null, transaction);
   const problems = proposalProblems(p, ctx.colourSystem, new Map(ctx.cards.map((c) => [c.slug, c.cavities])));
@@ -560,6 +564,8 @@ async function publish(s: Submission, transaction: Transaction): Promise<{ conne
     await IndexJob.create({ kind: "connector", subjectId: other.id, op: "upsert", createdAt: now }, { transaction });
   }
   wrote("revision");
+  // The database's own search copy changes with the card, in this transaction (the service follows via index_jobs).
+  await writeFallbackDocs(await libraryDocs({ connectorIds: [connector.id, ...touched], familyIds: newFamily ? [family.id] : [] }, transaction), transaction);
   return { connector, revision, familySlug: family.slug };
 }
 

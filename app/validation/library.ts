@@ -38,3 +38,13 @@ export function searchParams(request: Request): Record<string, string> {
   for (const [k, v] of new URL(request.url).searchParams) if (v !== "") out[k] = v;
   return out;
 }
+
+/** GET /api/v1/search and /search: the words typed, optional filters (all links on the page), a page of results. */
+export const searchQuery = pageQuery.extend({
+  q: z.string().max(200, "is too long for a search").default("").transform((s) => s.replace(/[\u0000-\u001f\u007f]/g, " ").trim()),
+  type: z.enum(["family", "connector", "pin"]).optional(),
+  make: slug.optional(),
+  family: slug.optional(),
+  system: z.enum(["ignition", "charging", "starting", "lighting", "signals", "instruments"]).optional(),
+  pins: z.coerce.number().int().min(1).max(400).optional(),
+});

@@ -23,6 +23,9 @@ export interface TestServer {
   dbPath: string;
   /** With `mail: true`: base URL of the mail stand-in's JSON list (GET `${mailHttp}/messages`, POST `${mailHttp}/fault`). */
   mailHttp?: string;
+  /** With `search: true`: the search stand-in's URL (its `/_standin/fault` switches fault modes) and a way to stop/restart it. */
+  searchUrl?: string;
+  search?: { url: string; stop: () => Promise<void>; restart: () => Promise<void> };
   stop: () => Promise<void>;
   output: () => string;
 }
@@ -30,24 +33,27 @@ export interface TestServer {
 export interface StartOptions {
   /** Start a mail stand-in (mail/server.ts) on free ports and point the app's SMTP_URL at it. Default false. */
   mail?: boolean;
+  /** Start a search stand-in (search/server.ts) on a free port with its own data dir and point SEARCH_URL at it. Default false. */
+  search?: boolean;
   /** Extra environment for the app. */
   env?: Record<string, string>;
 }
 
 /** `startServer({ mail, env })`, or the older `startServer(env)`. */
-function options(arg: StartOptions | Record<string, string>): { mail: boolean; env: Record<string, string> } {
-  const { mail, env, ...rest } = arg as StartOptions & Record<string, unknown>;
+function options(arg: StartOptions | Record<string, string>): { mail: boolean; search: boolean; env: Record<string, string> } {
+  const { mail, search, env, ...rest } = arg as StartOptions & Record<string, unknown>;
   const legacy = Object.fromEntries(Object.entries(rest).filter((e): e is [string, string] => typeof e[1] === "string"));
-  return { mail: mail === true, env: { ...legacy, ...(env ?? {}) } };
+  return { mail: mail === true, search: search === true, env: { ...legacy, ...(env ?? {}) } };
 }
 
 /**
  * Boot our production server (app/serve.server.ts on build/) against a new SQLite file (migrated and seeded on first request).
  * Without `mail: true` the app's SMTP_URL points at a closed loopback port, so no test ever mails a stand-in that a
- * developer left running on 2525: mail stays queued and health reports mail down.
+ * developer left running on 2525: mail stays queued and health reports mail down. Likewise without `search: true` SEARCH_URL
+ * points at a closed port (search answers from the database).
  */
 export async function startServer(arg: StartOptions | Record<string, string> = {}): Promise<TestServer> {
-  const { mail, env } = options(arg);
+  const { mail, search, env } = options(arg);
   const entry = path.join(root, "build/server/index.js");
   if (!existsSync(entry)) throw new Error("No production build: run `npm run build` first (npm test does).");
   const dir = mkdtempSync(path.join(tmpdir(), "loomlore-test-"));
@@ -58,6 +64,12 @@ export async function startServer(arg: StartOptions | Record<string, string> = {
     const { startMailStandIn } = await import("../../mail/server.ts");
     standIn = await startMailStandIn({ smtpPort: 0, httpPort: 0, dataDir: path.join(dir, "mail") });
   }
+  let searchStandIn: { url: string; port: number; close: () => Promise<void> } | null = null;
+  const searchDir = path.join(dir, "search");
+  const { startSearchStandIn } = await import("../../search/server.ts");
+  if (search) searchStandIn = await startSearchStandIn({ port: 0, dataDir: searchDir });
+  const searchPort = searchStandIn?.port ?? 0;
+  const searchUrl = searchStandIn?.url;
   const mailHttp = standIn ? `http://127.0.0.1:${standIn.httpPort}` : undefined;
   const mailEnv = standIn
     ? { SMTP_URL: `smtp://127.0.0.1:${standIn.smtpPort}`, MAIL_HTTP_URL: mailHttp! }
@@ -65,7 +77,7 @@ export async function startServer(arg: StartOptions | Record<string, string> = {
   let log = "";
   const child: ChildProcess = spawn(process.execPath, ["--import", "tsx", path.join(root, "app/serve.server.ts")], {
     cwd: root,
-    env: { ...process.env, NODE_ENV: "production", PORT: String(port), HOST: "127.0.0.1", DB_PATH: dbPath, UPLOADS_DIR: path.join(dir, "uploads"), ...mailEnv, ...env },
+    env: { ...process.env, NODE_ENV: "production", PORT: String(port), HOST: "127.0.0.1", DB_PATH: dbPath, UPLOADS_DIR: path.join(dir, "uploads"), SEARCH_URL: searchUrl ?? "http://127.0.0.1:1", ...mailEnv, ...env },
     stdio: ["ignore", "pipe", "pipe"],
   });
   child.stdout!.on("data", (d) => (log += d));
@@ -85,12 +97,20 @@ export async function startServer(arg: StartOptions | Record<string, string> = {
   } catch (e) {
     if (child.exitCode === null) child.kill("SIGKILL");
     await standIn?.close();
+    await searchStandIn?.close();
     throw e;
   }
   return {
     url,
     dbPath,
     mailHttp,
+    searchUrl,
+    search: searchStandIn ? {
+      url: searchUrl!,
+      stop: async () => { await searchStandIn?.close(); },
+      // Same port and data dir: a restarted service keeps what it had persisted.
+      restart: async () => { searchStandIn = await startSearchStandIn({ port: searchPort, dataDir: searchDir }); },
+    } : undefined,
     output: () => log,
     stop: async () => {
       if (child.exitCode === null) {
@@ -99,6 +119,7 @@ export async function startServer(arg: StartOptions | Record<string, string> = {
         await exited;
       }
       await standIn?.close();
+      await searchStandIn?.close().catch(() => {});
       rmSync(dir, { recursive: true, force: true });
     },
   };

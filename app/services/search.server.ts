@@ -1,0 +1,252 @@
+/**
+ * Search through the hosted service's official client (meilisearch), with the database as the fallback.
+ *
+ * SEARCH_URL (default http://127.0.0.1:7700, the stand-in in search/) and SEARCH_KEY point at the service; a real hosted
+ * instance needs no code change. Every publish writes an `index_jobs` row in its transaction; the worker here drains
+ * them into the service (and `reconcile` repairs any drift). /api/v1/search asks the service with a short timeout
+ * (SEARCH_TIMEOUT_MS, 300 ms: QUALITY's suggestion) and answers from the database's FTS5 copy when the service is down,
+ * slow or failing; after 5 failures in a row a breaker skips the service for 30 s, so an outage costs no timeouts.
+ */
+import { Meilisearch, type SearchParams } from "meilisearch";
+import { Op, QueryTypes } from "sequelize";
+import { sequelize } from "~db/index.server.ts";
+import { IndexJob } from "~db/models/index.ts";
+import { libraryDocs, rebuildFallbackIndex } from "~db/search-index.ts";
+import { SEARCH_SETTINGS, type SearchDoc, type SearchDocType } from "~/domain/search-docs";
+import { ensureDatabase } from "./database.server";
+
+const env = (k: string, d: number) => {
+  const v = Number(process.env[k]);
+  return Number.isFinite(v) && v > 0 ? v : d;
+};
+export const SEARCH_INDEX = process.env.SEARCH_INDEX || "library";
+const TIMEOUT_MS = () => env("SEARCH_TIMEOUT_MS", 300);
+const BREAKER_FAILURES = 5;
+const BREAKER_OPEN_MS = () => env("SEARCH_BREAKER_MS", 30_000);
+
+let clientInstance: Meilisearch | null = null;
+/** The one client of this process. */
+export function searchClient(): Meilisearch {
+  clientInstance ??= new Meilisearch({ host: process.env.SEARCH_URL || "http://127.0.0.1:7700", apiKey: process.env.SEARCH_KEY || undefined, timeout: TIMEOUT_MS() });
+  return clientInstance;
+}
+/** A client with a longer timeout for indexing work (never on a reader's request path). */
+function workClient(): Meilisearch {
+  return new Meilisearch({ host: process.env.SEARCH_URL || "http://127.0.0.1:7700", apiKey: process.env.SEARCH_KEY || undefined, timeout: env("SEARCH_WORK_TIMEOUT_MS", 10_000) });
+}
+
+// --- circuit breaker ------------------------------------------------------------------------------------------------
+const breaker = { failures: 0, openUntil: 0 };
+const breakerOpen = () => Date.now() < breaker.openUntil;
+function failed() {
+  breaker.failures++;
+  if (breaker.failures >= BREAKER_FAILURES) breaker.openUntil = Date.now() + BREAKER_OPEN_MS();
+}
+function succeeded() {
+  breaker.failures = 0;
+  breaker.openUntil = 0;
+}
+/** For tests and the health route: the breaker's state. */
+export function searchBreaker() {
+  return { failures: breaker.failures, open: breakerOpen(), openForMs: Math.max(0, breaker.openUntil - Date.now()) };
+}
+
+/** Whether the service answers its health check (within the reader timeout). */
+export async function searchHealthy(): Promise<boolean> {
+  try {
+    return await searchClient().isHealthy();
+  } catch {
+    return false;
+  }
+}
+
+// --- indexing ---------------------------------------------------------------------------------------------------------
+
+async function waitOk(task: { taskUid: number }, client: Meilisearch) {
+  const done = await client.tasks.waitForTask(task.taskUid, { timeout: env("SEARCH_TASK_TIMEOUT_MS", 60_000), interval: 50 });
+  if (done.status !== "succeeded") throw new Error(`search task ${task.taskUid} ${done.status}: ${done.error?.message ?? ""}`);
+}
+
+/** Create the index if it is missing and set its searchable, filterable and sortable attributes. */
+export async function configureIndex(client = workClient()): Promise<void> {
+  try {
+    await client.getIndex(SEARCH_INDEX);
+  } catch (e) {
+    if ((e as { cause?: { code?: string } }).cause?.code !== "index_not_found") throw e;
+    await waitOk(await client.createIndex(SEARCH_INDEX, { primaryKey: "id" }), client);
+  }
+  await waitOk(await client.index(SEARCH_INDEX).updateSettings({ ...SEARCH_SETTINGS, searchableAttributes: [...SEARCH_SETTINGS.searchableAttributes], filterableAttributes: [...SEARCH_SETTINGS.filterableAttributes], sortableAttributes: [...SEARCH_SETTINGS.sortableAttributes] }), client);
+}
+
+/** Send documents in batches and wait until the service has them. */
+async function putDocs(docs: SearchDoc[], client: Meilisearch) {
+  for (let i = 0; i < docs.length; i += 5000) await waitOk(await client.index(SEARCH_INDEX).addDocuments(docs.slice(i, i + 5000)), client);
+}
+
+/** Rebuild everything from the database: the service's index and the database's own full-text copy. */
+export async function reindexAll(): Promise<{ documents: number }> {
+  await ensureDatabase();
+  const client = workClient();
+  await rebuildFallbackIndex();
+  await configureIndex(client);
+  await waitOk(await client.index(SEARCH_INDEX).deleteAllDocuments(), client);
+  const docs = await libraryDocs();
+  await putDocs(docs, client);
+  await IndexJob.update({ doneAt: new Date() }, { where: { doneAt: null } });
+  return { documents: docs.length };
+}
+
+/** Push the outstanding index jobs to the service (oldest first); a job stays until the service has taken it. */
+export async function drainIndexJobs(limit = 200): Promise<{ done: number; failed: number }> {
+  await ensureDatabase();
+  const jobs = await IndexJob.findAll({ where: { doneAt: null }, order: [["id", "ASC"]], limit });
+  if (!jobs.length) return { done: 0, failed: 0 };
+  const client = workClient();
+  try {
+    await configureIndex(client);
+    const connectorIds = [...new Set(jobs.filter((j) => j.kind === "connector").map((j) => j.subjectId))];
+    const familyIds = [...new Set(jobs.filter((j) => j.kind === "family").map((j) => j.subjectId))];
+    const docs = await libraryDocs({ connectorIds, familyIds });
+    // A card's pins that are gone: replace the card's pin documents wholesale.
+    const slugs = [...new Set(docs.filter((d) => d.type === "connector").map((d) => d.slug))];
+    for (const slug of slugs) await waitOk(await client.index(SEARCH_INDEX).deleteDocuments({ filter: [`type = pin`, `slug = "${slug}"`] }), client);
+    await putDocs(docs, client);
+    await IndexJob.update({ doneAt: new Date() }, { where: { id: jobs.map((j) => j.id) } });
+    return { done: jobs.length, failed: 0 };
+  } catch {
+    await IndexJob.increment("attempts", { where: { id: jobs.map((j) => j.id) } });
+    return { done: 0, failed: jobs.length };
+  }
+}
+
+/**
+ * D11 (QUALITY): the database is the truth. Compare every document's id and version in the service with the library's
+ * and repair the difference (add missing or stale ones, delete extras). Twice in a row, the second finds nothing.
+ */
+export async function reconcile(): Promise<{ added: number; updated: number; removed: number }> {
+  await ensureDatabase();
+  const client = workClient();
+  await configureIndex(client);
+  const want = await libraryDocs();
+  const have = new Map<string, number>();
+  for (let offset = 0; ; offset += 1000) {
+    const page = await client.index(SEARCH_INDEX).getDocuments<{ id: string; version: number }>({ offset, limit: 1000, fields: ["id", "version"] });
+    for (const d of page.results) have.set(d.id, d.version);
+    if (page.results.length < 1000) break;
+  }
+  const wantIds = new Set(want.map((d) => d.id));
+  const missing = want.filter((d) => !have.has(d.id));
+  const stale = want.filter((d) => have.has(d.id) && have.get(d.id) !== d.version);
+  const extra = [...have.keys()].filter((id) => !wantIds.has(id));
+  await putDocs([...missing, ...stale], client);
+  if (extra.length) await waitOk(await client.index(SEARCH_INDEX).deleteDocuments(extra), client);
+  if (missing.length || stale.length || extra.length) await IndexJob.update({ doneAt: new Date() }, { where: { doneAt: null } });
+  return { added: missing.length, updated: stale.length, removed: extra.length };
+}
+
+let worker: NodeJS.Timeout | null = null;
+/** Reconcile once, then drain index jobs every SEARCH_POLL_MS (2 s) in this process; off with SEARCH_WORKER=off. */
+export function startSearchWorker(): void {
+  if (worker || process.env.SEARCH_WORKER === "off") return;
+  // First bring the index in line with the library (a fresh stand-in is empty; a restarted one may lag), then follow jobs.
+  let busy = true;
+  reconcile().catch(() => { /* service away: the jobs and the next start catch up */ }).finally(() => { busy = false; });
+  worker = setInterval(async () => {
+    if (busy) return;
+    busy = true;
+    try {
+      await drainIndexJobs();
+    } catch {
+      /* the next round tries again */
+    } finally {
+      busy = false;
+    }
+  }, env("SEARCH_POLL_MS", 2000));
+  worker.unref();
+}
+
+// --- searching --------------------------------------------------------------------------------------------------------
+
+export interface SearchQuery { q: string; type?: SearchDocType; make?: string; family?: string; system?: string; pins?: number; limit: number; offset: number }
+export interface SearchHit { type: SearchDocType; slug: string; cavity: string | null; title: string; subtitle: string; url: string; family: string; make: string; highlight?: string }
+export interface SearchResult {
+  hits: SearchHit[];
+  total: number;
+  facets: { type: Record<string, number>; make: Record<string, number>; family: Record<string, number>; system: Record<string, number>; pinCount: Record<string, number> };
+  source: "index" | "database";
+  tookMs: number;
+}
+
+const quote = (s: string) => `"${s.replace(/["\\]/g, "")}"`;
+const hitOf = (d: SearchDoc, highlight?: string): SearchHit => ({ type: d.type, slug: d.slug, cavity: d.cavity, title: d.title, subtitle: d.subtitle, url: d.url, family: d.family, make: d.make, ...(highlight ? { highlight } : {}) });
+
+/** The library search: the service when it answers in time, else the database (says which in `source`). */
+export async function searchLibrary(q: SearchQuery): Promise<SearchResult> {
+  const started = performance.now();
+  if (!breakerOpen()) {
+    try {
+      const r = await fromService(q);
+      succeeded();
+      return { ...r, source: "index", tookMs: Math.round(performance.now() - started) };
+    } catch {
+      failed();
+    }
+  }
+  const r = await fromDatabase(q);
+  return { ...r, source: "database", tookMs: Math.round(performance.now() - started) };
+}
+
+async function fromService(q: SearchQuery): Promise<Omit<SearchResult, "source" | "tookMs">> {
+  const filter: string[] = [];
+  if (q.type) filter.push(`type = ${q.type}`);
+  if (q.make) filter.push(`makeSlug = ${quote(q.make)}`);
+  if (q.family) filter.push(`familySlug = ${quote(q.family)}`);
+  if (q.system) filter.push(`system = ${quote(q.system)}`);
+  if (q.pins !== undefined) filter.push(`pinCount = ${q.pins}`);
+  const params: SearchParams = {
+    filter, facets: ["type", "makeSlug", "familySlug", "system", "pinCount"], limit: q.limit, offset: q.offset,
+    attributesToHighlight: ["title"], highlightPreTag: "<mark>", highlightPostTag: "</mark>",
+  };
+  const r = await searchClient().index(SEARCH_INDEX).search<SearchDoc>(q.q, params);
+  const fd = (r.facetDistribution ?? {}) as Record<string, Record<string, number>>;
+  return {
+    hits: r.hits.map((h) => hitOf(h)),
+    total: r.estimatedTotalHits ?? r.hits.length,
+    facets: { type: fd.type ?? {}, make: fd.makeSlug ?? {}, family: fd.familySlug ?? {}, system: fd.system ?? {}, pinCount: fd.pinCount ?? {} },
+  };
+}
+
+/** The FTS5 fallback: every word as a prefix, all of them required; ranked by bm25 with the title weighted up. */
+async function fromDatabase(q: SearchQuery): Promise<Omit<SearchResult, "source" | "tookMs">> {
+  await ensureDatabase();
+  const words = q.q.normalize("NFKC").split(/\s+/).map((w) => w.replace(/["*^():{}[\]\\]/g, "").trim()).filter(Boolean).slice(0, 12);
+  const where: string[] = [];
+  const params: unknown[] = [];
+  if (words.length) {
+    where.push("search_fts MATCH ?");
+    params.push(words.map((w) => `"${w}"*`).join(" AND "));
+  }
+  if (q.type) { where.push("type = ?"); params.push(q.type); }
+  if (q.make) { where.push("make_slug = ?"); params.push(q.make); }
+  if (q.family) { where.push("family_slug = ?"); params.push(q.family); }
+  if (q.system) { where.push("system = ?"); params.push(q.system); }
+  if (q.pins !== undefined) { where.push("pin_count = ?"); params.push(q.pins); }
+  const clause = where.length ? `WHERE ${where.join(" AND ")}` : "";
+  const order = words.length ? "ORDER BY bm25(search_fts, 10.0, 3.0), rowid" : "ORDER BY rowid";
+  const rows = await sequelize.query<{ doc: string }>(`SELECT doc FROM search_fts ${clause} ${order} LIMIT ? OFFSET ?`, { replacements: [...params, q.limit, q.offset], type: QueryTypes.SELECT });
+  const facet = async (col: string) => {
+    const list = await sequelize.query<{ k: string | number | null; n: number }>(`SELECT ${col} AS k, COUNT(*) AS n FROM search_fts ${clause} GROUP BY ${col}`, { replacements: params, type: QueryTypes.SELECT });
+    return Object.fromEntries(list.filter((x) => x.k !== null && x.k !== "").map((x) => [String(x.k), x.n]));
+  };
+  const [type, make, family, system, pinCount] = await Promise.all(["type", "make_slug", "family_slug", "system", "pin_count"].map(facet));
+  return {
+    hits: rows.map((r) => hitOf(JSON.parse(r.doc) as SearchDoc)),
+    total: Object.values(type).reduce((a, b) => a + b, 0),
+    facets: { type, make, family, system, pinCount },
+  };
+}
+
+/** Outstanding index jobs (for the health route and tests). */
+export async function pendingIndexJobs(): Promise<number> {
+  return IndexJob.count({ where: { doneAt: { [Op.is]: null } } });
+}
