@@ -1,5 +1,6 @@
 /** Admin work: roles, revoking sessions, the audit log and the mail outbox. */
-import { AuditLog, Family, MailOutbox, Make, User } from "~db/models/index.ts";
+import { AuditLog, Connector, Family, IndexJob, MailOutbox, Make, User } from "~db/models/index.ts";
+import { libraryDocs, writeFallbackDocs } from "~db/search-index.ts";
 import { isRole, type Role } from "~/domain/roles";
 import { audit, revokeSessions, sequelize } from "./auth.server";
 import { forgetFamilyGraph } from "./circuits.server";
@@ -80,6 +81,11 @@ export async function updateFamily(actorId: number, slug: string, input: { name:
     const before = { name: f.name, modelRange: f.modelRange, yearFrom: f.yearFrom, yearTo: f.yearTo };
     await f.update(input, { transaction });
     await audit(actorId, "family.update", "family", slug, { before, after: input }, transaction);
+    // Search: the family's document and its cards' (they carry its name and years), here and in the service.
+    const connectorIds = (await Connector.findAll({ where: { familyId: f.id }, attributes: ["id"], transaction })).map((c) => c.id);
+    await writeFallbackDocs(await libraryDocs({ familyIds: [f.id], connectorIds }, transaction), transaction);
+    const now = new Date();
+    await IndexJob.bulkCreate([{ kind: "family", subjectId: f.id, createdAt: now }, ...connectorIds.map((id) => ({ kind: "connector" as const, subjectId: id, createdAt: now }))], { transaction });
     return { ok: true as const };
   }).then((r) => {
     // The walk and the finder keep the family in memory: let them read it again.
