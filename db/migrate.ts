@@ -1,4 +1,4 @@
-import type { QueryInterface } from "sequelize";
+import { UniqueConstraintError, type QueryInterface } from "sequelize";
 import { Umzug, SequelizeStorage } from "umzug";
 import { sequelize } from "./index.server.ts";
 import { migrations } from "./migrations/index.ts";
@@ -16,16 +16,33 @@ async function inTransaction(work: () => Promise<void>) {
   }
 }
 
-/** The migrator: dated migrations, each in its own transaction, recorded in SequelizeMeta. */
+/**
+ * The migrator: dated migrations, each in its own transaction, recorded in SequelizeMeta. The record is written inside
+ * the migration's own transaction, so a crash can never leave a migrated schema without its record (umzug's storage
+ * would otherwise record it in a separate step afterwards, and every later start would fail re-running it); umzug's own
+ * record that follows then finds the row there and is a no-op.
+ */
 export function migrator() {
+  const storage = new SequelizeStorage({ sequelize });
+  const log = storage.logMigration.bind(storage);
+  storage.logMigration = async (params) => {
+    try {
+      await log(params);
+    } catch (e) {
+      if (!(e instanceof UniqueConstraintError)) throw e;
+    }
+  };
+  const table = () => String(storage.model.getTableName()); // "sequelize_meta" (the models are underscored)
+  const record = (name: string) => sequelize.query(`INSERT OR IGNORE INTO "${table()}" ("name") VALUES (?)`, { replacements: [name] });
+  const unrecord = (name: string) => sequelize.query(`DELETE FROM "${table()}" WHERE "name" = ?`, { replacements: [name] });
   return new Umzug<QueryInterface>({
     migrations: migrations.map((m) => ({
       name: m.name,
-      up: ({ context }: { context: QueryInterface }) => inTransaction(() => m.up({ context })),
-      down: ({ context }: { context: QueryInterface }) => inTransaction(() => m.down({ context })),
+      up: ({ context }: { context: QueryInterface }) => inTransaction(async () => { await m.up({ context }); await record(m.name); }),
+      down: ({ context }: { context: QueryInterface }) => inTransaction(async () => { await m.down({ context }); await unrecord(m.name); }),
     })),
     context: sequelize.getQueryInterface(),
-    storage: new SequelizeStorage({ sequelize }),
+    storage,
     logger: undefined,
   });
 }

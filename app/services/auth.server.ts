@@ -73,14 +73,15 @@ export async function currentSession(request: Request): Promise<{ user: SessionU
   if (!session) return null;
   const user = await User.findByPk(session.userId);
   if (!user || user.disabledAt) return null;
-  if (Date.now() - session.lastSeenAt.getTime() > TOUCH_EVERY_MS) await session.update({ lastSeenAt: new Date() });
+  // Writes go through a transaction (its own handle), never the shared one that every read of the process queues on.
+  if (Date.now() - session.lastSeenAt.getTime() > TOUCH_EVERY_MS) await sequelize.transaction((transaction) => session.update({ lastSeenAt: new Date() }, { transaction }));
   return { user: toSessionUser(user), sessionId: session.id };
 }
 
 /** End the request's session (sign out): the row goes, so a copied cookie is worthless (ASVS V3.3.1). */
 export async function endSession(request: Request): Promise<string> {
   const token = cookieValue(request);
-  if (token) await Session.destroy({ where: { tokenHash: sha256(token) } });
+  if (token) await sequelize.transaction((transaction) => Session.destroy({ where: { tokenHash: sha256(token) }, transaction }));
   return sessionCookie(null);
 }
 

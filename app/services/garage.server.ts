@@ -1,6 +1,6 @@
 /** A rider's garage (saved cards and bikes), bike-checked confirmations and mistake reports; always scoped to the owner. */
 import { BikeCheck, Connector, Family, GarageItem, Make, MistakeReport } from "~db/models/index.ts";
-import { audit } from "./auth.server";
+import { audit, sequelize } from "./auth.server";
 import { ensureDatabase } from "./database.server";
 import { isSlug } from "~/validation/library";
 
@@ -32,8 +32,11 @@ async function connectorBySlug(slug: string) {
 export async function saveCard(userId: number, slug: string): Promise<boolean> {
   const c = await connectorBySlug(slug);
   if (!c) return false;
-  const exists = await GarageItem.findOne({ where: { userId, kind: "card", connectorId: c.id } });
-  if (!exists) await GarageItem.create({ userId, kind: "card", connectorId: c.id, familyId: null, year: null, label: "", createdAt: new Date() });
+  // Writes run in a transaction (a handle of their own): never on the shared handle every read of the process waits on.
+  await sequelize.transaction(async (transaction) => {
+    const exists = await GarageItem.findOne({ where: { userId, kind: "card", connectorId: c.id }, transaction });
+    if (!exists) await GarageItem.create({ userId, kind: "card", connectorId: c.id, familyId: null, year: null, label: "", createdAt: new Date() }, { transaction });
+  });
   return true;
 }
 
@@ -42,23 +45,25 @@ export async function addBike(userId: number, familySlug: string, year: number |
   const f = isSlug(familySlug) ? await Family.findOne({ where: { slug: familySlug } }) : null;
   if (!f) return { ok: false, field: "family", error: "Choose a family from the list." };
   if (year !== null && (year < f.yearFrom - 1 || year > f.yearTo + 1)) return { ok: false, field: "year", error: `The ${f.name} was made ${f.yearFrom}–${f.yearTo}.` };
-  await GarageItem.create({ userId, kind: "bike", connectorId: null, familyId: f.id, year, label: label.slice(0, 80), createdAt: new Date() });
+  await sequelize.transaction((transaction) => GarageItem.create({ userId, kind: "bike", connectorId: null, familyId: f.id, year, label: label.slice(0, 80), createdAt: new Date() }, { transaction }));
   return { ok: true };
 }
 
 /** Remove one of the user's own garage items; another user's id changes nothing (and says nothing). */
 export async function removeItem(userId: number, itemId: number): Promise<boolean> {
-  return (await GarageItem.destroy({ where: { id: itemId, userId } })) === 1;
+  return (await sequelize.transaction((transaction) => GarageItem.destroy({ where: { id: itemId, userId }, transaction }))) === 1;
 }
 
 /** Mark a card bike-checked on the rider's own bike (one per rider and card; the year is updated). */
 export async function checkCard(userId: number, slug: string, year: number | null): Promise<boolean> {
   const c = await connectorBySlug(slug);
   if (!c) return false;
-  const existing = await BikeCheck.findOne({ where: { userId, connectorId: c.id } });
-  if (existing) await existing.update({ year });
-  else await BikeCheck.create({ userId, connectorId: c.id, year, createdAt: new Date() });
-  await audit(userId, "card.bike-checked", "connector", c.slug, { year });
+  await sequelize.transaction(async (transaction) => {
+    const existing = await BikeCheck.findOne({ where: { userId, connectorId: c.id }, transaction });
+    if (existing) await existing.update({ year }, { transaction });
+    else await BikeCheck.create({ userId, connectorId: c.id, year, createdAt: new Date() }, { transaction });
+    await audit(userId, "card.bike-checked", "connector", c.slug, { year }, transaction);
+  });
   return true;
 }
 
@@ -66,8 +71,10 @@ export async function checkCard(userId: number, slug: string, year: number | nul
 export async function reportMistake(userId: number, slug: string, text: string): Promise<boolean> {
   const c = await connectorBySlug(slug);
   if (!c) return false;
-  await MistakeReport.create({ userId, connectorId: c.id, revision: c.revision, text, status: "open", createdAt: new Date() });
-  await audit(userId, "card.report", "connector", c.slug, { revision: c.revision });
+  await sequelize.transaction(async (transaction) => {
+    await MistakeReport.create({ userId, connectorId: c.id, revision: c.revision, text, status: "open", createdAt: new Date() }, { transaction });
+    await audit(userId, "card.report", "connector", c.slug, { revision: c.revision }, transaction);
+  });
   return true;
 }
 

@@ -181,7 +181,9 @@ function retryDelay(attempts: number): number {
 /** Update a row we hold; false if our lease was lost (another worker took it over after expiry). */
 async function settle(row: Claimed, values: Partial<InferAttributes<MailOutbox>>, flag?: string, at?: Date): Promise<boolean> {
   const where = { id: row.id, status: "sending", leaseUntil: row.leaseUntil };
-  if (!flag) return (await MailOutbox.update(values, { where }))[0] === 1; // one statement: atomic on its own
+  // In a transaction even alone: a write on Sequelize's shared handle would hold up every read of the process while it
+  // waits for the write lock (a transaction gets a handle of its own).
+  if (!flag) return sequelize.transaction(async (transaction) => (await MailOutbox.update(values, { where, transaction }))[0] === 1);
   // A failure and its flag for the admin are written together.
   return sequelize.transaction(async (transaction) => {
     const [n] = await MailOutbox.update(values, { where, transaction });
@@ -197,9 +199,11 @@ async function settle(row: Claimed, values: Partial<InferAttributes<MailOutbox>>
 
 /** Put claimed rows we did not get to back in the queue, untouched. */
 async function release(rows: Claimed[]) {
-  for (const row of rows) {
-    await MailOutbox.update({ status: "queued", leaseUntil: null }, { where: { id: row.id, status: "sending", leaseUntil: row.leaseUntil } });
-  }
+  await sequelize.transaction(async (transaction) => {
+    for (const row of rows) {
+      await MailOutbox.update({ status: "queued", leaseUntil: null }, { where: { id: row.id, status: "sending", leaseUntil: row.leaseUntil }, transaction });
+    }
+  });
 }
 
 /**
