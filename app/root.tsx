@@ -5,6 +5,7 @@ import "@fontsource/source-sans-3/600.css";
 import "@fontsource/source-sans-3/700.css";
 import "./app.css";
 
+import { SearchBox } from "~/components/search-box";
 import { can } from "~/domain/roles";
 import { optionalUser } from "~/services/guards.server";
 
@@ -49,6 +50,7 @@ export function Layout({ children }: { children: React.ReactNode }) {
                 </NavLink>
               ))}
             </nav>
+            <SearchBox className="order-last w-full md:order-none md:w-auto md:max-w-md md:flex-1 md:basis-64" />
             <AccountLinks />
           </div>
         </header>

@@ -27,6 +27,7 @@ export default [
   route("submissions/:id", "routes/submissions.$id.tsx"),
   route("review", "routes/review.tsx"),
   route("review/:id", "routes/review.$id.tsx"),
+  route("search", "routes/search.tsx"),
 
   route("api/v1/health", "routes/api.v1.health.ts"),
   route("api/v1/makes", "routes/api.v1.makes.ts"),
