@@ -7,18 +7,45 @@ type Status =
   | { kind: "processing" }
   | { kind: "done"; count: number }
   | { kind: "error"; message: string }
+  /** The server or the network ended the upload part-way (408, 413, 5xx, connection closed, timeout). */
+  | { kind: "stopped"; reason: string; detail?: string }
+  /** The connection went after the whole upload was sent: the photos may or may not have been stored. */
+  | { kind: "unknown" }
   | { kind: "cancelled" };
+
+/**
+ * Give up waiting a little after the server would (serve.server.ts: requestTimeout 120 s; uploads slower than
+ * 10 KB/s after 10 s get a 408 there, QUALITY F7), so the server's own answer normally arrives first.
+ */
+const UPLOAD_TIMEOUT_MS = 125_000;
 
 const kb = (n: number) => (n >= 1024 * 1024 ? `${(n / (1024 * 1024)).toFixed(1)} MB` : `${Math.max(1, Math.round(n / 1024))} KB`);
 
-/** The server's message from our error shape ({"error": {message}}), or a plain one. */
-function errorMessage(xhr: XMLHttpRequest): string {
+/** The server's message from our error shape ({"error": {message}}), if it sent one. */
+function serverMessage(xhr: XMLHttpRequest): string | undefined {
   try {
     const body = JSON.parse(xhr.responseText) as { error?: { message?: unknown } };
     if (typeof body.error?.message === "string" && body.error.message) return body.error.message;
   } catch { /* not JSON */ }
+  return undefined;
+}
+
+/** The server's message from our error shape, or a plain one. */
+function errorMessage(xhr: XMLHttpRequest): string {
+  const message = serverMessage(xhr);
+  if (message) return message;
   if (xhr.status === 413) return "The upload is too large.";
   return xhr.status ? `The upload failed (${xhr.status}). Please try again.` : "The connection was lost before the upload finished. Please try again.";
+}
+
+/** Answers that end an upload part-way (the server gave up on it, or failed): why, in a few words. */
+function stoppedReason(status: number): string | null {
+  if (status === 408) return "it was too slow for the server, which stopped waiting";
+  if (status === 413) return "it is larger than the server accepts";
+  if (status === 503) return "the server is busy";
+  if (status === 507) return "the server has no room for photos right now";
+  if (status >= 500) return `the server ran into a problem (${status})`;
+  return null;
 }
 
 /**
@@ -31,9 +58,14 @@ export function PhotoUploader(props: { submissionId: number; remaining: number; 
   const uid = useId();
   const formRef = useRef<HTMLFormElement>(null);
   const xhrRef = useRef<XMLHttpRequest | null>(null);
+  /** Set by the Cancel button, so that an abort from anywhere else reads as an interruption. */
+  const cancelledRef = useRef(false);
   const revalidator = useRevalidator();
   const [status, setStatus] = useState<Status>({ kind: "idle" });
-  useEffect(() => () => xhrRef.current?.abort(), []);
+  useEffect(() => () => {
+    cancelledRef.current = true; // leaving the page is not an interruption to report
+    xhrRef.current?.abort();
+  }, []);
 
   const busy = status.kind === "sending" || status.kind === "processing";
   const full = remaining <= 0;
@@ -51,25 +83,43 @@ export function PhotoUploader(props: { submissionId: number; remaining: number; 
     data.set("submission", String(submissionId));
     const xhr = new XMLHttpRequest();
     xhrRef.current = xhr;
+    cancelledRef.current = false;
+    // Whether every byte went out: a connection lost after that may have stored the photos after all.
+    let sent = false;
     xhr.open("POST", "/api/v1/photos");
     xhr.setRequestHeader("Accept", "application/json");
+    xhr.timeout = UPLOAD_TIMEOUT_MS;
     xhr.upload.onprogress = (e) => {
       if (e.lengthComputable) setStatus(e.loaded >= e.total ? { kind: "processing" } : { kind: "sending", loaded: e.loaded, total: e.total });
     };
-    xhr.upload.onload = () => setStatus({ kind: "processing" });
+    xhr.upload.onload = () => {
+      sent = true;
+      setStatus({ kind: "processing" });
+    };
+    const stopped = (reason: string, detail?: string) => {
+      xhrRef.current = null;
+      setStatus({ kind: "stopped", reason, detail });
+    };
     xhr.onload = () => {
       xhrRef.current = null;
+      const reason = stoppedReason(xhr.status);
       if (xhr.status === 201) {
         setStatus({ kind: "done", count: files.length });
         form.reset();
         revalidator.revalidate();
-      } else setStatus({ kind: "error", message: errorMessage(xhr) });
+      } else if (reason) stopped(reason, serverMessage(xhr));
+      else setStatus({ kind: "error", message: errorMessage(xhr) });
     };
+    // A network error: the server closed the connection (after a limit, or going down) or the network went.
     xhr.onerror = () => {
+      if (!sent) return stopped("the connection to the server was closed");
       xhrRef.current = null;
-      setStatus({ kind: "error", message: errorMessage(xhr) });
+      setStatus({ kind: "unknown" });
+      revalidator.revalidate();
     };
+    xhr.ontimeout = () => stopped(`there was no answer from the server within ${Math.round(UPLOAD_TIMEOUT_MS / 60_000)} minutes`);
     xhr.onabort = () => {
+      if (!cancelledRef.current) return stopped("it was interrupted");
       xhrRef.current = null;
       setStatus({ kind: "cancelled" });
     };
@@ -83,6 +133,8 @@ export function PhotoUploader(props: { submissionId: number; remaining: number; 
     : status.kind === "processing" ? "Uploaded; processing the photos…"
     : status.kind === "done" ? `${status.count} photo${status.count === 1 ? "" : "s"} added.`
     : status.kind === "cancelled" ? "Upload cancelled: nothing was saved."
+    : status.kind === "stopped" ? `The upload stopped: ${status.reason}; nothing was saved. Try again.`
+    : status.kind === "unknown" ? "The connection was lost while the photos were being processed: they may have been added. Check this submission's photos before trying again."
     : "";
 
   return (
@@ -119,12 +171,13 @@ export function PhotoUploader(props: { submissionId: number; remaining: number; 
       </div>
       <div className="flex flex-wrap items-center gap-3">
         <button type="submit" disabled={full || busy} className="rounded bg-ink px-4 py-2 font-semibold text-paper disabled:opacity-50">Upload</button>
-        {busy ? <button type="button" onClick={() => xhrRef.current?.abort()} className="rounded border-2 border-ink px-4 py-2 font-semibold">Cancel</button> : null}
+        {busy ? <button type="button" onClick={() => { cancelledRef.current = true; xhrRef.current?.abort(); }} className="rounded border-2 border-ink px-4 py-2 font-semibold">Cancel</button> : null}
       </div>
       {status.kind === "sending" || status.kind === "processing" ? (
         <progress value={percent} max={100} aria-label="Upload progress" className="block h-3 w-full max-w-md" />
       ) : null}
-      <p role="status" aria-live="polite" className="text-sm">{message}</p>
+      <p role="status" aria-live="polite" className={status.kind === "stopped" || status.kind === "unknown" ? "rounded border-l-4 border-signal bg-white px-3 py-2 text-sm font-semibold text-signal-dark" : "text-sm"}>{message}</p>
+      {status.kind === "stopped" && status.detail ? <p className="text-sm text-muted">The server said: {status.detail}</p> : null}
       {status.kind === "error" ? <p role="alert" className="rounded border-l-4 border-signal bg-white px-3 py-2 font-semibold text-signal-dark">{status.message}</p> : null}
       {full ? <p className="text-sm font-semibold">This submission has as many photos as it can take: remove one to add another.</p> : null}
     </form>

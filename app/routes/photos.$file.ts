@@ -11,7 +11,7 @@ import { photoForViewer } from "~/services/photos.server";
 const SAFE = {
   "Content-Type": "image/webp",
   "X-Content-Type-Options": "nosniff",
-  "Content-Security-Policy": "default-src 'none'",
+  "Content-Security-Policy": "default-src 'none'; frame-ancestors 'none'",
   "Cross-Origin-Resource-Policy": "same-origin",
 } as const;
 
