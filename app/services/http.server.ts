@@ -3,7 +3,7 @@
 export type ApiErrorCode =
   | "bad_request" | "unknown_colour" | "not_signed_in" | "forbidden" | "not_found" | "method_not_allowed"
   | "conflict" | "too_large" | "unsupported_media_type" | "unprocessable" | "rate_limited" | "unavailable" | "insufficient_storage"
-  | "internal_error";
+  | "internal_error" | "request_timeout";
 
 /** A JSON error response: {"error": {code, message, field?}}. */
 export function apiError(status: number, code: ApiErrorCode, message: string, field?: string, headers?: HeadersInit) {
