@@ -480,7 +480,7 @@ describe("GET /api/v1/colours/decode", () => {
 const GET_ROUTES = [
   "/api/v1/health", "/api/v1/makes", "/api/v1/families", "/api/v1/families/rx750-four", "/api/v1/connectors/rx750-four-ignition-unit-plug",
   "/api/v1/connectors/rx750-four-ignition-unit-plug/face", "/api/v1/colours/systems", "/api/v1/colours/decode?code=W%2FR",
-  "/api/v1/families/rx750-four/circuits", "/api/v1/families/rx750-four/circuits/ignition/walk", "/api/v1/me",
+  "/api/v1/families/rx750-four/circuits", "/api/v1/families/rx750-four/circuits/ignition/walk", "/api/v1/me", "/api/v1/search?q=pickup",
 ];
 // Computations take a JSON body: POST only (GET → 405 is checked in workshop-api.test.ts).
 const POST_ROUTES = ["api/v1/colour-finder", "api/v1/wire-size", "api/v1/bench", "api/v1/families/:slug/circuits/:circuit/diagnose", "api/v1/photos", "api/v1/submissions/:id/review"];
