@@ -35,7 +35,12 @@ const bodyOf = (d: SearchDoc) => [d.codes.join(" "), d.terminals.join(" "), d.ci
 export async function writeFallbackDocs(docs: SearchDoc[], transaction?: Transaction): Promise<void> {
   const slugs = [...new Set(docs.filter((d) => d.type !== "family").map((d) => d.slug))];
   const ids = docs.map((d) => d.id);
-  if (slugs.length) await sequelize.query(`DELETE FROM search_fts WHERE type IN ('connector', 'pin') AND slug IN (${slugs.map(() => "?").join(",")})`, { replacements: slugs, transaction });
+  // In slices, like the ids: one IN list per call of every slug broke past SQLite's 32 766 bound parameters
+  // (SQLITE_MAX_VARIABLE_NUMBER, sqlite.org/limits.html) — "too many SQL variables" on a library that large.
+  for (let i = 0; i < slugs.length; i += 400) {
+    const part = slugs.slice(i, i + 400);
+    await sequelize.query(`DELETE FROM search_fts WHERE type IN ('connector', 'pin') AND slug IN (${part.map(() => "?").join(",")})`, { replacements: part, transaction });
+  }
   for (let i = 0; i < ids.length; i += 400) {
     const part = ids.slice(i, i + 400);
     await sequelize.query(`DELETE FROM search_fts WHERE id IN (${part.map(() => "?").join(",")})`, { replacements: part, transaction });
