@@ -25,28 +25,12 @@ if (!existsSync(path.join(root, "build/server/index.js")) || process.env.REBUILD
 step("migrating the database and seeding the demo library if it is empty", bin("tsx"), ["db/cli.ts", "setup"]);
 
 /**
- * The mail stand-in runs when mail would go to this machine: SMTP_URL unset (the app's default is smtp://127.0.0.1:2525)
- * or a plain smtp:// URL on loopback (the stand-in then listens on its port). MAIL_STANDIN=off, or any other relay, skips it.
+ * The port a local stand-in should listen on, or null when the service is elsewhere: the URL unset (the app's default
+ * points at the stand-in's default port) or a plain URL of the stand-in's protocol on loopback. A bad URL is reported
+ * by the app itself (without echoing it: it may hold a password).
  */
-function standInPort(): number | null {
-  if (process.env.MAIL_STANDIN === "off") return null;
-  const raw = process.env.SMTP_URL;
-  if (!raw) return 2525;
-  let url: URL;
-  try {
-    url = new URL(raw);
-  } catch {
-    return null; // the app reports a bad SMTP_URL itself (without echoing it: it may hold a password)
-  }
-  const local = ["127.0.0.1", "localhost", "[::1]"].includes(url.hostname.toLowerCase());
-  return local && url.protocol === "smtp:" ? Number(url.port || 25) : null;
-}
-
-/** The search stand-in runs when SEARCH_URL is unset (default http://127.0.0.1:7700) or a plain http:// URL on loopback. */
-function searchStandInPort(): number | null {
-  if (process.env.SEARCH_STANDIN === "off") return null;
-  const raw = process.env.SEARCH_URL;
-  if (!raw) return 7700;
+function localPort(raw: string | undefined, protocol: string, defaultPort: number, protocolPort: number): number | null {
+  if (!raw) return defaultPort;
   let url: URL;
   try {
     url = new URL(raw);
@@ -54,8 +38,12 @@ function searchStandInPort(): number | null {
     return null;
   }
   const local = ["127.0.0.1", "localhost", "[::1]"].includes(url.hostname.toLowerCase());
-  return local && url.protocol === "http:" ? Number(url.port || 80) : null;
+  return local && url.protocol === protocol ? Number(url.port || protocolPort) : null;
 }
+/** The mail stand-in runs when mail would go to this machine (SMTP_URL unset or smtp:// on loopback); MAIL_STANDIN=off skips it. */
+const standInPort = () => (process.env.MAIL_STANDIN === "off" ? null : localPort(process.env.SMTP_URL, "smtp:", 2525, 25));
+/** The search stand-in runs when SEARCH_URL is unset or http:// on loopback; SEARCH_STANDIN=off skips it. */
+const searchStandInPort = () => (process.env.SEARCH_STANDIN === "off" ? null : localPort(process.env.SEARCH_URL, "http:", 7700, 80));
 
 let stopping = false;
 let searchStandIn: ChildProcess | null = null;

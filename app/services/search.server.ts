@@ -107,7 +107,7 @@ async function lastJobId(): Promise<number> {
  * (Marking every undone job done let an approval that landed mid-reconcile never reach the index.)
  */
 async function markCovered(covered: number): Promise<void> {
-  if (covered > 0) await IndexJob.update({ doneAt: new Date() }, { where: { doneAt: null, id: { [Op.lte]: covered } } });
+  if (covered > 0) await sequelize.transaction((transaction) => IndexJob.update({ doneAt: new Date() }, { where: { doneAt: null, id: { [Op.lte]: covered } }, transaction }));
 }
 
 /** Push the outstanding index jobs to the service (oldest first); a job stays until the service has taken it. */
@@ -125,10 +125,12 @@ export async function drainIndexJobs(limit = 200): Promise<{ done: number; faile
     const slugs = [...new Set(docs.filter((d) => d.type === "connector").map((d) => d.slug))];
     for (const slug of slugs) await waitOk(await client.index(SEARCH_INDEX).deleteDocuments({ filter: [`type = pin`, `slug = "${slug}"`] }), client);
     await putDocs(docs, client);
-    await IndexJob.update({ doneAt: new Date() }, { where: { id: jobs.map((j) => j.id) } });
+    // Job bookkeeping in transactions (handles of their own): a write on the shared handle that waits for the lock would
+    // hold up every page read of the process (QUALITY F9: reads continue).
+    await sequelize.transaction((transaction) => IndexJob.update({ doneAt: new Date() }, { where: { id: jobs.map((j) => j.id) }, transaction }));
     return { done: jobs.length, failed: 0 };
   } catch {
-    await IndexJob.increment("attempts", { where: { id: jobs.map((j) => j.id) } });
+    await sequelize.transaction((transaction) => IndexJob.increment("attempts", { where: { id: jobs.map((j) => j.id) }, transaction }));
     return { done: 0, failed: jobs.length };
   }
 }
