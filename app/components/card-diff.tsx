@@ -1,7 +1,8 @@
 import { useId, type JSX, type ReactNode } from "react";
 import { ColourChip } from "~/components/colour-chip";
-import { FaceView, type FaceCavityPaint } from "~/components/face-view";
+import { FaceView } from "~/components/face-view";
 import { faceGeometry, type FaceGeometry, type HousingLayout } from "~/domain/connector-face";
+import { facePaint } from "~/domain/face-paint";
 import { SYSTEM_NAMES, decodeColour, describeColour, swatch, type ColourSystemId } from "~/domain/colours";
 import type { CardDiff, PinDiffRow, ProposedPhoto, ProposedPin, ProposedSpec, RowChange } from "~/domain/submissions";
 
@@ -82,15 +83,6 @@ function colourOf(code: string | null, system: ColourSystemId): ColourView {
   };
 }
 
-/** Face paint from pins, as the library service paints a published card. */
-function paintFor(pins: readonly ProposedPin[], system: ColourSystemId): FaceCavityPaint[] {
-  return pins.map((p) => {
-    const c = colourOf(p.code, system);
-    if (!c.code) return { cavity: p.cavity, code: null, baseHex: null, tracerHexes: [] };
-    if (!c.baseHex) return { cavity: p.cavity, code: c.code, baseHex: null, tracerHexes: [], title: `${c.code} (not understood)` };
-    return { cavity: p.cavity, code: c.code, baseHex: c.baseHex, ink: c.ink, tracerHexes: c.tracerHexes, title: `${c.code}, ${c.words}` };
-  });
-}
 
 const goesToText = (g: ProposedPin["goesTo"]): string => (g ? `${g.connector}, cavity ${g.cavity}` : "—");
 const orDash = (v: string | null | undefined): string => (v === null || v === undefined || v === "" ? "—" : v);
@@ -236,7 +228,7 @@ function FacePanel(props: { label: string; cardName: string; layout: HousingLayo
   const geometry = faceGeometry(layout);
   const inLayout = new Set(layout.cavities.map((c) => c.cavity));
   const listed = [...marks].filter(([cavity]) => inLayout.has(cavity));
-  const paint = paintFor(pins, system).map((pc) => ({ ...pc, href: `#${encodeURIComponent(idFor(pc.cavity))}` }));
+  const paint = facePaint(pins, system).map((pc) => ({ ...pc, href: `#${encodeURIComponent(idFor(pc.cavity))}` }));
   return (
     <figure className="print-avoid-break min-w-0 rounded-md border border-rule bg-white p-2" data-face={label.toLowerCase()}>
       <figcaption className="mb-1 font-bold">{label}</figcaption>

@@ -1,7 +1,8 @@
 /** Reads of the published library: makes, families, connector cards, face geometry, CSV. */
 import { Op } from "sequelize";
 import { Component, Connector, Family, Make, Photo, Pin, Revision, SpecValue, System, Wire } from "~db/models/index.ts";
-import { decodeColour, describeColour, swatch, type ColourSystemId } from "~/domain/colours";
+import { decodeColour, describeColour, type ColourSystemId } from "~/domain/colours";
+import { facePaint, type CavityPaint } from "~/domain/face-paint";
 import { faceGeometry, type FaceHalf, type FaceSide, type HousingLayout } from "~/domain/connector-face";
 import { ensureDatabase } from "./database.server";
 import { bikeChecks } from "./garage.server";
@@ -55,25 +56,14 @@ export interface ConnectorSummary {
   slug: string; name: string; pinCount: number; location: string; gender: string; housing: string; side: "component" | "loom";
   layout: HousingLayout; paint: FacePaint[];
 }
-export interface FacePaint { cavity: string; code: string | null; baseHex: string | null; tracerHexes: string[]; ink?: string; title?: string }
+export type FacePaint = CavityPaint;
 
 function layoutOf(c: Connector): HousingLayout {
   return { rows: c.rows, cols: c.cols, cavities: c.cavities, pin1: c.pin1, latch: c.latch };
 }
 
-function paintFor(pins: Pin[], system: ColourSystemId): FacePaint[] {
-  return pins.map((p) => {
-    if (!p.colourCode) return { cavity: p.cavity, code: null, baseHex: null, tracerHexes: [] };
-    const d = decodeColour(p.colourCode, system);
-    if (!d.ok) return { cavity: p.cavity, code: p.colourCode, baseHex: null, tracerHexes: [], title: `${p.colourCode} (not understood)` };
-    const colours = d.value.colours;
-    const base = colours[0];
-    return {
-      cavity: p.cavity, code: p.colourCode, baseHex: swatch(base).hex, ink: swatch(base).ink,
-      tracerHexes: colours.slice(1).map((c) => swatch(c).hex), title: `${p.colourCode}, ${describeColour(d.value)}`,
-    };
-  });
-}
+/** The card's face paint (one rule for every face view: app/domain/face-paint.ts). */
+const paintFor = (pins: Pin[], system: ColourSystemId): FacePaint[] => facePaint(pins.map((p) => ({ cavity: p.cavity, code: p.colourCode })), system);
 
 /** A family with its systems and their connectors (thumbnails included), or null. */
 export async function getFamily(slug: string) {

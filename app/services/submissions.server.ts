@@ -98,11 +98,11 @@ function snapshotToProposal(snap: ConnectorSnapshot): CardProposal {
 }
 
 /** Everything that keeps this submission from review: the proposal's problems, how the contributor knows, photos. */
-async function submissionProblems(s: Submission, transaction?: Transaction): Promise<Problem[]> {
-  const ctx = await familyContext(s.familyId, (s.familyRequest as FamilyRequest | null) ?? null, transaction);
+async function submissionProblems(s: Submission, transaction?: Transaction, known?: Awaited<ReturnType<typeof familyContext>>): Promise<Problem[]> {
+  const ctx = known ?? await familyContext(s.familyId, (s.familyRequest as FamilyRequest | null) ?? null, transaction);
   const parsed = proposalSchema.safeParse(s.content);
   if (!parsed.success) return parsed.error.issues.map((i) => ({ field: i.path.map(String).join("."), message: i.message }));
-  const cards = new Map(ctx.cards.filter((c) => c.slug !== (s.connectorId ? undefined : "")).map((c) => [c.slug, c.cavities]));
+  const cards = new Map(ctx.cards.map((c) => [c.slug, c.cavities]));
   return proposalProblems(parsed.data, ctx.colourSystem, cards, { requireSource: { kind: s.sourceKind, detail: s.sourceDetail } });
 }
 
@@ -269,7 +269,7 @@ export async function viewSubmission(viewer: Actor | null, id: number) {
   const [author, messages, problems] = await Promise.all([
     User.findByPk(s.authorId),
     SubmissionMessage.findAll({ where: { submissionId: s.id }, order: [["id", "ASC"]] }),
-    submissionProblems(s),
+    submissionProblems(s, undefined, ctx), // the family was just read: not again
   ]);
   const people = await User.findAll({ where: { id: messages.map((m) => m.authorId).filter((x): x is number => !!x) } });
   const checks = connector ? await BikeCheck.findAll({ where: { connectorId: connector.id } }) : [];
