@@ -31,23 +31,39 @@ export async function libraryDocs(scope: { familyIds?: number[]; connectorIds?: 
 
 const bodyOf = (d: SearchDoc) => [d.codes.join(" "), d.terminals.join(" "), d.circuits.join(" "), d.family, d.colours.join(" "), d.make, d.subtitle, d.text, d.years.join(" ")].join(" \n ");
 
+/**
+ * Rows of the fallback index go in pairs: the full-text row in `search_fts` and its facet columns in `search_facets`
+ * under the same rowid (db/migrations/2026-12-01-05-search-prefix.ts). Deleting: the facet rows first, found through
+ * the full-text rows they pair with.
+ */
+async function deleteFallbackRows(where: string, replacements: unknown[], transaction?: Transaction) {
+  await sequelize.query(`DELETE FROM search_facets WHERE rid IN (SELECT rowid FROM search_fts WHERE ${where})`, { replacements, transaction });
+  await sequelize.query(`DELETE FROM search_fts WHERE ${where}`, { replacements, transaction });
+}
+
 /** Replace these documents in the fallback index (and, for a card, drop its pins that are gone). Same transaction as the change. */
 export async function writeFallbackDocs(docs: SearchDoc[], transaction?: Transaction): Promise<void> {
+  // the pairing below reads last_insert_rowid(), which belongs to one connection: always inside a transaction
+  if (!transaction) return sequelize.transaction((t) => writeFallbackDocs(docs, t));
   const slugs = [...new Set(docs.filter((d) => d.type !== "family").map((d) => d.slug))];
   const ids = docs.map((d) => d.id);
   // In slices, like the ids: one IN list per call of every slug broke past SQLite's 32 766 bound parameters
   // (SQLITE_MAX_VARIABLE_NUMBER, sqlite.org/limits.html) — "too many SQL variables" on a library that large.
   for (let i = 0; i < slugs.length; i += 400) {
     const part = slugs.slice(i, i + 400);
-    await sequelize.query(`DELETE FROM search_fts WHERE type IN ('connector', 'pin') AND slug IN (${part.map(() => "?").join(",")})`, { replacements: part, transaction });
+    await deleteFallbackRows(`type IN ('connector', 'pin') AND slug IN (${part.map(() => "?").join(",")})`, part, transaction);
   }
   for (let i = 0; i < ids.length; i += 400) {
     const part = ids.slice(i, i + 400);
-    await sequelize.query(`DELETE FROM search_fts WHERE id IN (${part.map(() => "?").join(",")})`, { replacements: part, transaction });
+    await deleteFallbackRows(`id IN (${part.map(() => "?").join(",")})`, part, transaction);
   }
   for (const d of docs) {
+    // the facet row takes the next rowid; the full-text row takes the same one (an FTS5 insert cannot RETURN it)
+    await sequelize.query("INSERT INTO search_facets (type, make_slug, family_slug, system, pin_count) VALUES (?, ?, ?, ?, ?)", {
+      replacements: [d.type, d.makeSlug, d.familySlug, d.system, d.pinCount], transaction,
+    });
     await sequelize.query(
-      "INSERT INTO search_fts (id, type, slug, make_slug, family_slug, system, pin_count, version, doc, title, body) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)",
+      "INSERT INTO search_fts (rowid, id, type, slug, make_slug, family_slug, system, pin_count, version, doc, title, body) VALUES (last_insert_rowid(), ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)",
       { replacements: [d.id, d.type, d.slug, d.makeSlug, d.familySlug, d.system, d.pinCount, d.version, JSON.stringify(d), d.title, bodyOf(d)], transaction },
     );
   }
@@ -57,6 +73,7 @@ export async function writeFallbackDocs(docs: SearchDoc[], transaction?: Transac
 export async function rebuildFallbackIndex(): Promise<number> {
   return sequelize.transaction(async (transaction) => {
     const docs = await libraryDocs(null, transaction);
+    await sequelize.query("DELETE FROM search_facets", { transaction });
     await sequelize.query("DELETE FROM search_fts", { transaction });
     await writeFallbackDocs(docs, transaction);
     return docs.length;

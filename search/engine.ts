@@ -28,7 +28,12 @@ import {
   parseFilter,
   type FilterNode,
 } from "./filter.ts";
-import { containsPhrase, crop, highlight, normalize, parseQuery, tokenizeForIndex, type MatchInfo, type QueryWord } from "./text.ts";
+import { containsPhrase, crop, highlight, normalize, parseQuery, EXACT_MARK, prefixIndexTerms, tokenizeForIndex, type MatchInfo, type QueryWord } from "./text.ts";
+
+/** Last words up to this many characters are matched through the prefix index (SearchIndex.prefixMini). */
+export const PREFIX_INDEX_MAX = 2;
+/** A prefix match weighs this much of an exact one: MiniSearch's default `weights.prefix`. */
+const PREFIX_WEIGHT = 0.375;
 
 export type Doc = Record<string, unknown>;
 
@@ -264,11 +269,60 @@ export interface SearchRequest {
   distinct?: string;
 }
 
+/** One matching document as MiniSearch scored it (our ids are strings: extractField makes them so). */
+interface Hit {
+  id: string;
+  score: number;
+  terms: string[];
+  queryTerms: string[];
+}
+
 interface Candidate {
   key: string;
+  /** The document's insertion rank (SearchIndex.rank). */
+  rank: number;
   doc: Doc;
   score: number;
-  match: MatchInfo | null;
+  /** What matched (a Set of terms is built only for the hits shown). */
+  match: Hit | null;
+  /** A short last word matched through the prefix index: every term it begins counts as matched. */
+  prefixes?: string[];
+}
+
+const union = (a: string[], b: string[] | undefined) => (b?.length ? [...new Set([...a, ...b])] : a);
+
+/**
+ * Combine two result lists the way MiniSearch combines sub-queries: OR keeps every document, AND those in both; the
+ * scores of a document found by both add up and what matched is joined.
+ */
+function mergeHits(combineWith: "AND" | "OR", a: Hit[], b: Hit[]): Hit[] {
+  const byId = new Map(a.map((h) => [h.id, h]));
+  const out: Hit[] = combineWith === "OR" ? [...a] : [];
+  const both = new Map<string, Hit>();
+  for (const h of b) {
+    const other = byId.get(h.id);
+    if (!other) {
+      if (combineWith === "OR") out.push(h);
+      continue;
+    }
+    const merged: Hit = {
+      id: h.id,
+      score: other.score + h.score,
+      terms: union(other.terms, h.terms),
+      queryTerms: union(other.queryTerms, h.queryTerms),
+    };
+    both.set(h.id, merged);
+    if (combineWith === "AND") out.push(merged);
+  }
+  return combineWith === "OR" ? out.map((h) => both.get(h.id) ?? h) : out;
+}
+
+interface FacetCell {
+  label: string;
+  num: number | null;
+  count: number;
+  /** The facet count that last touched this cell (its count belongs to that one). */
+  epoch: number;
 }
 
 const EMPTY_MATCH: MatchInfo = { terms: new Set(), queryTerms: [] };
@@ -307,6 +361,12 @@ export class SearchIndex {
   private readonly rank = new Map<string, number>();
   private nextRank = 0;
   private mini: MiniSearch<Doc> | null = null;
+  /**
+   * The prefix data built at indexing time (the service's `prefixSearch: "indexingTime"`): the same fields with each
+   * term's first PREFIX_INDEX_MAX characters as terms, so a short last word ("b", "1", "gr") is one posting list per
+   * field instead of the hundreds of terms it is a prefix of. Built and kept in step with `mini`.
+   */
+  private prefixMini: MiniSearch<Doc> | null = null;
   private miniFields: string[] = [];
   /** Leaf paths seen in documents, first-seen order (the fields of searchableAttributes "*"). */
   private seenPaths: string[] = [];
@@ -361,12 +421,17 @@ export class SearchIndex {
     if (!this.rank.has(key)) this.rank.set(key, this.nextRank++);
     const existed = this.docs.has(key);
     this.docs.set(key, doc);
+    this.forgetCells(this.rank.get(key)!);
     const before = this.seenPaths.length;
     searchablePaths(doc, "", this.seenPaths);
-    if (this.mini && this.settings.searchableAttributes.includes("*") && this.seenPaths.length !== before) this.mini = null;
-    if (this.mini) {
-      if (existed) this.mini.discard(key);
+    if (this.mini && this.settings.searchableAttributes.includes("*") && this.seenPaths.length !== before) this.dropIndex();
+    if (this.mini && this.prefixMini) {
+      if (existed) {
+        this.mini.discard(key);
+        this.prefixMini.discard(key);
+      }
       this.mini.add(doc);
+      this.prefixMini.add(doc);
     }
   }
 
@@ -374,9 +439,11 @@ export class SearchIndex {
     let n = 0;
     for (const key of keys) {
       if (!this.docs.delete(key)) continue;
+      this.forgetCells(this.rank.get(key)!);
       this.rank.delete(key);
       n += 1;
       if (this.mini) this.mini.discard(key);
+      if (this.prefixMini) this.prefixMini.discard(key);
     }
     return n;
   }
@@ -386,13 +453,20 @@ export class SearchIndex {
     this.docs.clear();
     this.rank.clear();
     this.seenPaths = [];
-    this.mini = null;
+    this.dropIndex();
+    this.facetCells.clear();
+    this.facetColumns.clear();
     return n;
   }
 
   /** Settings changed: the MiniSearch index is rebuilt on the next refresh(). */
   settingsChanged(): void {
+    this.dropIndex();
+  }
+
+  private dropIndex(): void {
     this.mini = null;
+    this.prefixMini = null;
   }
 
   touch(now = new Date().toISOString()) {
@@ -406,11 +480,11 @@ export class SearchIndex {
     const fields = searchable.includes("*") ? [...this.seenPaths] : [...searchable];
     const pk = this.primaryKey ?? "";
     const ID = "\u0000id";
-    const mini = new MiniSearch<Doc>({
+    const options = (tokenize: (text: string) => string[]) => ({
       idField: ID,
       fields: fields.length ? fields : ["\u0000none"],
       storeFields: [],
-      extractField: (doc, field) => {
+      extractField: (doc: Doc, field: string) => {
         if (field === ID) {
           const id = doc[pk];
           return typeof id === "number" ? String(id) : id;
@@ -418,12 +492,17 @@ export class SearchIndex {
         const text = textAt(doc, field);
         return text.length ? text.join("\n") : undefined;
       },
-      tokenize: (text) => tokenizeForIndex(text),
-      processTerm: (term) => term,
-      searchOptions: { tokenize: (text) => [text], processTerm: (term) => term },
+      tokenize,
+      processTerm: (term: string) => term,
+      searchOptions: { tokenize: (text: string) => [text], processTerm: (term: string) => term },
     });
-    mini.addAll([...this.docs.values()]);
+    const all = [...this.docs.values()];
+    const mini = new MiniSearch<Doc>(options(tokenizeForIndex));
+    mini.addAll(all);
+    const prefixMini = new MiniSearch<Doc>(options((text) => prefixIndexTerms(tokenizeForIndex(text), PREFIX_INDEX_MAX)));
+    prefixMini.addAll(all);
     this.mini = mini;
+    this.prefixMini = prefixMini;
     this.miniFields = fields;
   }
 
@@ -590,7 +669,7 @@ export class SearchIndex {
       // placeholder search: every (filtered) document in insertion order
       const out: Candidate[] = [];
       for (const [key, doc] of this.docs) {
-        if (ok(doc) && !this.excluded(doc, parsed.excluded)) out.push({ key, doc, score: 1, match: null });
+        if (ok(doc) && !this.excluded(doc, parsed.excluded)) out.push({ key, rank: this.rank.get(key)!, doc, score: 1, match: null });
       }
       return out;
     }
@@ -610,37 +689,53 @@ export class SearchIndex {
       const len = [...term].length;
       return len >= typo.minWordSizeForTypos.twoTypos ? 2 : len >= typo.minWordSizeForTypos.oneTypo ? 1 : 0;
     };
+    const prefixOn = this.settings.prefixSearch !== "disabled";
     const options = {
       fields: searchFields,
       boost,
-      prefix: this.settings.prefixSearch !== "disabled",
+      prefix: false,
       fuzzy,
-      filter: (r: SearchResult) => ok(this.docs.get(String(r.id))),
+      // no callback at all when nothing is filtered: MiniSearch calls it once per matching document
+      ...(filter.type === "all" ? {} : { filter: (r: SearchResult) => ok(this.docs.get(String(r.id))) }),
     };
     const synonyms = new Map<string, string[][]>();
     for (const [k, list] of Object.entries(this.settings.synonyms)) {
       synonyms.set(normalize(k), list.map((s) => parseQuery(s).words.map((w) => w.term)));
     }
-    const wordQuery = (w: QueryWord): Query => {
-      const alternatives: Query[] = [w.term];
+    const last = words.length - 1;
+    // A short last word is matched through the prefix index (below), the index's own prefix expansion serves a longer
+    // one. Earlier words match whole (with typos): the service expands only the last word.
+    const shortLast = prefixOn && [...words[last].term].length <= PREFIX_INDEX_MAX && !synonyms.has(words[last].term);
+    const wordQuery = (w: QueryWord, i: number): Query => {
+      const prefix = prefixOn && i === last;
+      const alternatives: Query[] = [{ queries: [w.term], prefix }];
       // the letter/digit runs of a code ("w", "r" of "W/R") match exactly: no prefix, no typo
       if (w.parts.length) alternatives.push({ combineWith: "AND", queries: w.parts, prefix: false, fuzzy: false });
-      for (const syn of synonyms.get(w.term) ?? []) alternatives.push(syn.length === 1 ? syn[0] : { combineWith: "AND", queries: syn });
-      return alternatives.length === 1 ? w.term : { combineWith: "OR", queries: alternatives };
+      for (const syn of synonyms.get(w.term) ?? []) alternatives.push({ combineWith: "AND", queries: syn, prefix });
+      return { combineWith: "OR", queries: alternatives };
     };
+    const search = (combineWith: "AND" | "OR"): Hit[] => {
+      if (!shortLast) return mini.search({ combineWith, queries: words.map(wordQuery) }, options) as Hit[];
+      // In the prefix index: the word as a prefix (weighed as MiniSearch weighs a prefix match), the word whole, and a
+      // code's parts whole ("b+" → "b"); one search, so MiniSearch adds up the scores of a document found by several.
+      const w = words[last];
+      const whole = (t: string) => t + EXACT_MARK;
+      const lastQuery: Query = { combineWith: "OR", queries: [w.term, whole(w.term), ...(w.parts.length ? [{ combineWith: "AND" as const, queries: w.parts.map(whole) }] : [])] };
+      const lastHits = this.prefixMini!.search(lastQuery, { ...options, fuzzy: false, boostTerm: (t: string) => (t.endsWith(EXACT_MARK) ? 1 : PREFIX_WEIGHT) }) as Hit[];
+      if (words.length === 1) return lastHits;
+      return mergeHits(combineWith, mini.search({ combineWith, queries: words.slice(0, last).map(wordQuery) }, options) as Hit[], lastHits);
+    };
+    const prefixes = shortLast ? [words[last].term] : undefined;
     const run = (combineWith: "AND" | "OR") => {
-      const results = mini.search({ combineWith, queries: words.map(wordQuery) }, options);
       const out: Candidate[] = [];
-      for (const r of results) {
-        const key = String(r.id);
-        const doc = this.docs.get(key)!;
+      for (const r of search(combineWith)) {
+        const doc = this.docs.get(r.id)!;
         if (parsed.phrases.length && !parsed.phrases.every((p) => searchFields.some((f) => textAt(doc, f).some((t) => containsPhrase(t, p))))) continue;
         if (this.excluded(doc, parsed.excluded)) continue;
-        out.push({ key, doc, score: r.score, match: { terms: new Set(r.terms), queryTerms: r.queryTerms } });
+        out.push({ key: r.id, rank: this.rank.get(r.id)!, doc, score: r.score, match: r, prefixes });
       }
       // equal scores keep insertion order
-      out.sort((a, b) => b.score - a.score || this.rank.get(a.key)! - this.rank.get(b.key)!);
-      return out;
+      return out.sort((a, b) => b.score - a.score || a.rank - b.rank);
     };
     let out = run("AND");
     if (out.length === 0 && words.length > 1 && req.matchingStrategy !== "all") out = run("OR");
@@ -668,7 +763,7 @@ export class SearchIndex {
       const pre = req.highlightPreTag ?? "<em>";
       const post = req.highlightPostTag ?? "</em>";
       const marker = req.cropMarker ?? "…";
-      const match = c.match ?? EMPTY_MATCH;
+      const match: MatchInfo = c.match ? { terms: new Set(c.match.terms), queryTerms: c.match.queryTerms, prefixes: c.prefixes } : EMPTY_MATCH;
       const format = (value: unknown, path: string): unknown => {
         if (Array.isArray(value)) return value.map((v) => format(v, path));
         if (value && typeof value === "object") {
@@ -693,31 +788,68 @@ export class SearchIndex {
     return hit;
   }
 
+  /**
+   * Facet counting: each distinct facet value is one shared cell per facet (strings case- and accent-folded, numbers
+   * apart), and each document's cells are worked out once (facetColumns). Counting then reads no document and looks
+   * nothing up by string: a cell's count is reset the first time a count (`epoch`) touches it.
+   */
+  private readonly facetCells = new Map<string, Map<string, FacetCell>>();
+  /**
+   * Per facet, per document by its insertion rank: the document's cells. Reset when the document is replaced or
+   * deleted. (A WeakMap by document object cost more in garbage collection than the counting itself.)
+   */
+  private readonly facetColumns = new Map<string, (FacetCell[] | undefined)[]>();
+  private facetEpoch = 0;
+  private cellsOf(doc: Doc, facet: string): FacetCell[] {
+    let interned = this.facetCells.get(facet);
+    if (!interned) this.facetCells.set(facet, (interned = new Map()));
+    const out: FacetCell[] = [];
+    for (const v of facetValues(doc, facet)) {
+      const label = String(v);
+      const key = typeof v === "string" ? normalize(v) : `\u0000${label}`;
+      let cell = interned.get(key);
+      if (!cell) interned.set(key, (cell = { label, num: typeof v === "number" ? v : null, count: 0, epoch: 0 }));
+      if (!out.includes(cell)) out.push(cell);
+    }
+    return out;
+  }
+
+  /** A document was replaced or deleted: its cached facet cells go. */
+  private forgetCells(rank: number): void {
+    for (const column of this.facetColumns.values()) column[rank] = undefined;
+  }
+
   private facetDistribution(candidates: Candidate[], facets: string[]) {
     const distribution: Record<string, Record<string, number>> = {};
     const stats: Record<string, { min: number; max: number }> = {};
-    for (const facet of facets) {
-      const counts = new Map<string, { label: string; count: number; num: number | null }>();
-      let min = Infinity;
-      let max = -Infinity;
+    const touched: FacetCell[][] = facets.map(() => []);
+    facets.forEach((facet, f) => {
+      const epoch = ++this.facetEpoch;
+      let column = this.facetColumns.get(facet);
+      if (!column) this.facetColumns.set(facet, (column = []));
       for (const c of candidates) {
-        const seen = new Set<string>();
-        for (const v of facetValues(c.doc, facet)) {
-          if (typeof v === "number") {
-            min = Math.min(min, v);
-            max = Math.max(max, v);
+        let cells = column[c.rank];
+        if (!cells) column[c.rank] = cells = this.cellsOf(c.doc, facet);
+        for (const cell of cells) {
+          if (cell.epoch !== epoch) {
+            cell.epoch = epoch;
+            cell.count = 0;
+            touched[f].push(cell);
           }
-          const label = String(v);
-          const key = typeof v === "string" ? normalize(v) : `\u0000${label}`;
-          if (seen.has(key)) continue;
-          seen.add(key);
-          const entry = counts.get(key);
-          if (entry) entry.count += 1;
-          else counts.set(key, { label, count: 1, num: typeof v === "number" ? v : null });
+          cell.count += 1;
         }
       }
+    });
+    facets.forEach((facet, f) => {
+      let min = Infinity;
+      let max = -Infinity;
+      for (const cell of touched[f]) {
+        if (cell.num === null) continue;
+        if (cell.num < min) min = cell.num;
+        if (cell.num > max) max = cell.num;
+      }
       const by = this.settings.faceting.sortFacetValuesBy[facet] ?? this.settings.faceting.sortFacetValuesBy["*"] ?? "alpha";
-      const entries = [...counts.values()].sort((a, b) => {
+      const entries = touched[f].sort((a, b) => {
         if (by === "count" && a.count !== b.count) return b.count - a.count;
         if (a.num !== null && b.num !== null) return a.num - b.num;
         if (a.num !== null) return -1;
@@ -728,7 +860,7 @@ export class SearchIndex {
       for (const e of entries.slice(0, this.settings.faceting.maxValuesPerFacet)) out[e.label] = e.count;
       distribution[facet] = out;
       if (min !== Infinity) stats[facet] = { min, max };
-    }
+    });
     return { distribution, stats };
   }
 }

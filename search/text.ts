@@ -42,6 +42,25 @@ export function tokenizeForIndex(text: string): string[] {
   return out;
 }
 
+/** Marks a whole short term in the prefix index (never part of normalized text): "b" + EXACT_MARK is the term "b" itself. */
+export const EXACT_MARK = "\u0000";
+
+/**
+ * What the stand-in's prefix index holds for some index terms: each term's first 1…max characters (by code point),
+ * and a term no longer than that also whole, marked with EXACT_MARK. So a short last word finds every term it begins
+ * and, apart, the terms it is.
+ */
+export function prefixIndexTerms(terms: string[], max: number): string[] {
+  const out: string[] = [];
+  for (const term of terms) {
+    const chars = [...term];
+    let prefix = "";
+    for (let i = 0; i < Math.min(max, chars.length); i++) out.push((prefix += chars[i]));
+    if (chars.length <= max) out.push(term + EXACT_MARK);
+  }
+  return out;
+}
+
 /** One word of a query: the whole piece and (when it holds punctuation) its parts. */
 export interface QueryWord {
   term: string;
@@ -115,6 +134,8 @@ export interface MatchInfo {
   terms: Set<string>;
   /** Query terms (normalized) — used to mark only the typed prefix of a prefix match. */
   queryTerms: string[];
+  /** Short query words matched through the prefix index: any document term they begin is a match. */
+  prefixes?: string[];
 }
 
 interface Span {
@@ -126,6 +147,8 @@ interface Span {
 function matchSpans(text: string, match: MatchInfo): Span[] {
   const spans: Span[] = [];
   const re = /[^\s,;:()[\]{}"!?<>|]+/gu;
+  const prefixes = match.prefixes ?? [];
+  const matched = (term: string) => match.terms.has(term) || prefixes.some((p) => term.startsWith(p));
   const prefixOf = (docTerm: string, surfaceLength: number): number => {
     // a query term the document term merely starts with marks only that prefix (as the service does);
     // an exact or typo match marks the whole term
@@ -141,13 +164,13 @@ function matchSpans(text: string, match: MatchInfo): Span[] {
     const start = rawStart + Math.max(offset, 0);
     const piece = normalize(trimmed);
     if (!piece) continue;
-    if (match.terms.has(piece)) {
+    if (matched(piece)) {
       spans.push({ start, end: start + prefixOf(piece, trimmed.length) });
       continue;
     }
     for (const part of trimmed.matchAll(ALNUM_RUN)) {
       const p = normalize(part[0]);
-      if (match.terms.has(p)) {
+      if (matched(p)) {
         const s = start + (part.index ?? 0);
         spans.push({ start: s, end: s + prefixOf(p, part[0].length) });
       }

@@ -191,7 +191,7 @@ export function startSearchWorker(): void {
 // --- searching --------------------------------------------------------------------------------------------------------
 
 export interface SearchQuery { q: string; type?: SearchDocType; make?: string; family?: string; system?: string; pins?: number; limit: number; offset: number }
-export interface SearchHit { type: SearchDocType; slug: string; cavity: string | null; title: string; subtitle: string; url: string; family: string; make: string; highlight?: string }
+export interface SearchHit { type: SearchDocType; slug: string; cavity: string | null; title: string; subtitle: string; url: string; family: string; make: string }
 export interface SearchResult {
   hits: SearchHit[];
   total: number;
@@ -201,7 +201,8 @@ export interface SearchResult {
 }
 
 const quote = (s: string) => `"${s.replace(/["\\]/g, "")}"`;
-const hitOf = (d: SearchDoc, highlight?: string): SearchHit => ({ type: d.type, slug: d.slug, cavity: d.cavity, title: d.title, subtitle: d.subtitle, url: d.url, family: d.family, make: d.make, ...(highlight ? { highlight } : {}) });
+const HIT_FIELDS = ["type", "slug", "cavity", "title", "subtitle", "url", "family", "make"] as const satisfies readonly (keyof SearchHit)[];
+const hitOf = (d: Pick<SearchDoc, (typeof HIT_FIELDS)[number]>): SearchHit => ({ type: d.type, slug: d.slug, cavity: d.cavity ?? null, title: d.title, subtitle: d.subtitle, url: d.url, family: d.family, make: d.make });
 
 /** The library search: the service when it answers in time, else the database (says which in `source`). */
 export async function searchLibrary(q: SearchQuery): Promise<SearchResult> {
@@ -226,9 +227,10 @@ async function fromService(q: SearchQuery): Promise<Omit<SearchResult, "source" 
   if (q.family) filter.push(`familySlug = ${quote(q.family)}`);
   if (q.system) filter.push(`system = ${quote(q.system)}`);
   if (q.pins !== undefined) filter.push(`pinCount = ${q.pins}`);
+  // Only the fields a hit shows come back: the documents' code, colour and year lists would be serialized and parsed
+  // on every keystroke for nothing.
   const params: SearchParams = {
-    filter, facets: ["type", "makeSlug", "familySlug", "system", "pinCount"], limit: q.limit, offset: q.offset,
-    attributesToHighlight: ["title"], highlightPreTag: "<mark>", highlightPostTag: "</mark>",
+    filter, facets: ["type", "makeSlug", "familySlug", "system", "pinCount"], limit: q.limit, offset: q.offset, attributesToRetrieve: [...HIT_FIELDS],
   };
   const r = await searchClient().index(SEARCH_INDEX).search<SearchDoc>(q.q, params);
   const fd = (r.facetDistribution ?? {}) as Record<string, Record<string, number>>;
@@ -239,39 +241,40 @@ async function fromService(q: SearchQuery): Promise<Omit<SearchResult, "source" 
   };
 }
 
-/** search_fts's columns before `title` (db/migrations/2026-12-01-04-search.ts): id, type, slug, make_slug, family_slug, system, pin_count, version, doc. */
+/** search_fts's columns before `title` (db/migrations/2026-12-01-05-search-prefix.ts): id, type, slug, make_slug, family_slug, system, pin_count, version, doc. */
 const FTS_UNINDEXED_WEIGHTS = "0, ".repeat(9);
-/** The facets the fallback counts, and their search_fts columns. */
+/** The facets the fallback counts, and their columns (in search_facets, and the same names in search_fts). */
 const FACET_COLUMNS = [["type", "type"], ["make", "make_slug"], ["family", "family_slug"], ["system", "system"], ["pinCount", "pin_count"]] as const;
 
 /** The FTS5 fallback: every word as a prefix, all of them required; ranked by bm25 with the title weighted up. */
 async function fromDatabase(q: SearchQuery): Promise<Omit<SearchResult, "source" | "tookMs">> {
   await ensureDatabase();
   const words = q.q.normalize("NFKC").split(/\s+/).map((w) => w.replace(/["*^():{}[\]\\]/g, "").trim()).filter(Boolean).slice(0, 12);
-  const where: string[] = [];
-  const params: unknown[] = [];
-  if (words.length) {
-    where.push("search_fts MATCH ?");
-    params.push(words.map((w) => `"${w}"*`).join(" AND "));
-  }
-  if (q.type) { where.push("type = ?"); params.push(q.type); }
-  if (q.make) { where.push("make_slug = ?"); params.push(q.make); }
-  if (q.family) { where.push("family_slug = ?"); params.push(q.family); }
-  if (q.system) { where.push("system = ?"); params.push(q.system); }
-  if (q.pins !== undefined) { where.push("pin_count = ?"); params.push(q.pins); }
-  const clause = where.length ? `WHERE ${where.join(" AND ")}` : "";
+  const match = words.length ? words.map((w) => `"${w}"*`).join(" AND ") : null;
+  // the filters, on columns both tables have
+  const filters: string[] = [];
+  const filterParams: unknown[] = [];
+  if (q.type) { filters.push("type = ?"); filterParams.push(q.type); }
+  if (q.make) { filters.push("make_slug = ?"); filterParams.push(q.make); }
+  if (q.family) { filters.push("family_slug = ?"); filterParams.push(q.family); }
+  if (q.system) { filters.push("system = ?"); filterParams.push(q.system); }
+  if (q.pins !== undefined) { filters.push("pin_count = ?"); filterParams.push(q.pins); }
+  const where = (conditions: string[]) => (conditions.length ? `WHERE ${conditions.join(" AND ")}` : "");
+
   // bm25() takes one weight per column in declaration order, the UNINDEXED ones included (sqlite.org/fts5.html, "The
   // bm25() function"): the nine stored-only columns get 0, then title 10 and body 3. Given as (10.0, 3.0) alone, the
   // weights landed on `id` and `type` and title and body both ranked at the default 1.0.
-  const order = words.length ? `ORDER BY bm25(search_fts, ${FTS_UNINDEXED_WEIGHTS}10.0, 3.0), rowid` : "ORDER BY rowid";
-  const rows = await sequelize.query<{ doc: string }>(`SELECT doc FROM search_fts ${clause} ${order} LIMIT ? OFFSET ?`, { replacements: [...params, q.limit, q.offset], type: QueryTypes.SELECT });
-  // All five facets from one pass over the matches: the matching rows' facet columns are read once into a materialized
-  // CTE and grouped five times. (Five separate GROUP BY queries each re-ran the MATCH and re-read every matching row —
-  // measured on 100 000 invented cards, tests/perf/search.bench.ts: fallback p95 ~850 ms before, ~380 ms after.)
+  const order = match ? `ORDER BY bm25(search_fts, ${FTS_UNINDEXED_WEIGHTS}10.0, 3.0), rowid` : "ORDER BY rowid";
+  const rows = await sequelize.query<{ doc: string }>(`SELECT doc FROM search_fts ${where(match ? ["search_fts MATCH ?", ...filters] : filters)} ${order} LIMIT ? OFFSET ?`, {
+    replacements: [...(match ? [match] : []), ...filterParams, q.limit, q.offset], type: QueryTypes.SELECT,
+  });
+  // All five facets from one pass over the matches' rows in the narrow search_facets table (the FTS5 content rows
+  // hold whole documents): read once into a materialized CTE, grouped five times. Measured on invented cards
+  // (tests/perf/search.bench.ts; SQLite alone, 10 000 cards): facet p95 ~29 ms from the FTS rows, ~14 ms from here.
   const facetRows = await sequelize.query<{ f: string; k: string | number | null; n: number }>(
-    `WITH m AS MATERIALIZED (SELECT ${FACET_COLUMNS.map(([, col]) => col).join(", ")} FROM search_fts ${clause}) ` +
+    `WITH m AS MATERIALIZED (SELECT ${FACET_COLUMNS.map(([, col]) => col).join(", ")} FROM search_facets ${where(match ? ["rid IN (SELECT rowid FROM search_fts WHERE search_fts MATCH ?)", ...filters] : filters)}) ` +
       FACET_COLUMNS.map(([name, col]) => `SELECT '${name}' AS f, ${col} AS k, COUNT(*) AS n FROM m GROUP BY ${col}`).join(" UNION ALL "),
-    { replacements: params, type: QueryTypes.SELECT },
+    { replacements: [...(match ? [match] : []), ...filterParams], type: QueryTypes.SELECT },
   );
   const facet = (name: string) => Object.fromEntries(facetRows.filter((x) => x.f === name && x.k !== null && x.k !== "").map((x) => [String(x.k), x.n]));
   const [type, make, family, system, pinCount] = FACET_COLUMNS.map(([name]) => facet(name));

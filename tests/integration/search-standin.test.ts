@@ -453,6 +453,40 @@ describe("search", () => {
     expect(ids((await index.search("kill sw")).hits)).toContain("b800-kill");
   });
 
+  // The service's prefix rule (meilisearch.com/docs/learn/advanced/prefix): "you can perform a search with only a single
+  // letter as your query"; "Prefix search is only performed on the last word in a search query".
+  it("one or two characters find every word they begin; the word typed whole ranks first", async () => {
+    expect(ids((await index.search("st")).hits)).toEqual(["b800-relay"]);
+    expect(ids((await index.search("r", { filter: "make = Ashcombe" })).hits)).toEqual(["sov650-reg"]);
+    const r = await index.search("R");
+    expect(ids(r.hits)).toEqual(expect.arrayContaining(["b800-relay", "sov650-reg", "rx750-tail", "rx750-pickup"]));
+    // the cards holding the code R itself (or the r of W/R) come before the one that only has words beginning with r
+    expect(ids(r.hits).indexOf("b800-relay")).toBeGreaterThan(Math.max(ids(r.hits).indexOf("sov650-reg"), ids(r.hits).indexOf("rx750-tail")));
+  });
+
+  it("a one-letter prefix is marked in _formatted as typed", async () => {
+    const r = await index.search("st", { attributesToRetrieve: ["id", "title"], attributesToHighlight: ["title"] });
+    expect(r.hits[0]?._formatted?.title).toBe("<em>St</em>arter relay socket");
+  });
+
+  it("only the last word is a prefix: earlier words must be whole", async () => {
+    expect((await index.search("kil switch", { matchingStrategy: "all" })).hits).toEqual([]);
+    expect(ids((await index.search("switch ki", { matchingStrategy: "all" })).hits)).toEqual(["b800-kill"]);
+    expect(ids((await index.search("switch k", { matchingStrategy: "all" })).hits)).toEqual(["b800-kill"]);
+  });
+
+  it("short prefixes follow updates and deletes of documents", async () => {
+    const own = client.index<{ id: string; title: string }>(uid("prefix-follow"));
+    await ok(client.createIndex(uid("prefix-follow"), { primaryKey: "id" }).waitTask());
+    await ok(own.addDocuments([{ id: "a", title: "Zephyr lamp" }, { id: "b", title: "Quartz horn" }]).waitTask());
+    expect(ids((await own.search("ze")).hits)).toEqual(["a"]);
+    await ok(own.updateDocuments([{ id: "a", title: "Quill lamp" }]).waitTask());
+    expect((await own.search("ze")).hits).toEqual([]);
+    expect(ids((await own.search("qu")).hits).sort()).toEqual(["a", "b"]);
+    await ok(own.deleteDocument("b").waitTask());
+    expect(ids((await own.search("q")).hits)).toEqual(["a"]);
+  });
+
   it("colour codes in several notations find the card holding that code first", async () => {
     expect((await index.search("W/R")).hits[0]?.id).toBe("rx750-pickup");
     expect((await index.search("w/r")).hits[0]?.id).toBe("rx750-pickup");

@@ -333,3 +333,39 @@ describe("an approved edit reaches the index; D11 reconcile", () => {
     expect(firstOf(await find({ q: "marquis" }), "family")?.slug).toBe("marquis-500");
   }, 90_000);
 });
+
+describe("the database's fallback copy", () => {
+  it("each full-text row has its facet row (same rowid, same columns) and there are no others", async () => {
+    const rows = await dbAll<Record<string, unknown>>(
+      `SELECT f.rowid AS rid, f.type, f.make_slug, f.family_slug, f.system, f.pin_count,
+              s.rid AS s_rid, s.type AS s_type, s.make_slug AS s_make_slug, s.family_slug AS s_family_slug, s.system AS s_system, s.pin_count AS s_pin_count
+         FROM search_fts f LEFT JOIN search_facets s ON s.rid = f.rowid`,
+    );
+    expect(rows.length).toBeGreaterThan(100);
+    const unpaired = rows.filter((r) => r.s_rid === null || ["type", "make_slug", "family_slug", "system", "pin_count"].some((c) => String(r[c]) !== String(r[`s_${c}`])));
+    expect(unpaired).toEqual([]);
+    const [{ n }] = await dbAll<{ n: number }>("SELECT COUNT(*) AS n FROM search_facets");
+    expect(n, "no facet row without its full-text row").toBe(rows.length);
+  });
+
+  it("with the service away, the database gives the same total and facets as the index for the whole library and for filters", async () => {
+    const asks = [{ q: "" }, { q: "", type: "connector" }, { q: "", make: "brennwald" }, { q: "", pins: "2" }];
+    const fromIndex = [];
+    for (const a of asks) {
+      const r = await find({ ...a, limit: "5" });
+      expect(r.source).toBe("index");
+      fromIndex.push(r);
+    }
+    await srv.search!.stop();
+    try {
+      for (const [i, a] of asks.entries()) {
+        const r = await find({ ...a, limit: "5" });
+        expect(r.source).toBe("database");
+        expect(r.total, JSON.stringify(a)).toBe(fromIndex[i].total);
+        expect(r.facets, JSON.stringify(a)).toEqual(fromIndex[i].facets);
+      }
+    } finally {
+      await srv.search!.restart();
+    }
+  });
+});
