@@ -2,6 +2,8 @@
 declare module "react-router" {
   interface AppLoadContext {
     ip?: string;
+    /** This response's Content-Security-Policy nonce (app/services/csp.server.ts; used by app/entry.server.tsx). */
+    cspNonce?: string;
   }
 }
 export {};

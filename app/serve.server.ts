@@ -8,6 +8,7 @@ import { pathToFileURL } from "node:url";
 import { createRequestHandler } from "@react-router/express";
 import compression from "compression";
 import express, { type NextFunction, type Request as ExpressRequest, type Response as ExpressResponse } from "express";
+import { BASE_CSP, newNonce } from "./services/csp.server.ts";
 
 const root = path.resolve(import.meta.dirname, "..");
 const build = await import(pathToFileURL(path.join(root, "build/server/index.js")).href);
@@ -276,7 +277,8 @@ const SECURITY_HEADERS: Record<string, string> = {
   "X-Content-Type-Options": "nosniff",
   "X-Frame-Options": "DENY",
   "Referrer-Policy": "strict-origin-when-cross-origin",
-  "Content-Security-Policy": "frame-ancestors 'none'; base-uri 'self'; form-action 'self'; object-src 'none'",
+  // HTML documents get the stricter policy with a script nonce from app/entry.server.tsx
+  "Content-Security-Policy": BASE_CSP,
 };
 app.use((_req, res, next) => {
   const writeHead = res.writeHead;
@@ -314,8 +316,9 @@ app.use((req, _res, next) => {
 // Fingerprinted assets never change; everything else in public/ may.
 app.use("/assets", express.static(path.join(root, "build/client/assets"), { immutable: true, maxAge: "1y" }));
 app.use(express.static(path.join(root, "build/client"), { maxAge: "1h" }));
-// The client's address reaches loaders and actions through the load context (rate limits are per address).
-app.all("*", createRequestHandler({ build, mode: process.env.NODE_ENV, getLoadContext: (req) => ({ ip: req.ip ?? req.socket.remoteAddress ?? "unknown" }) }));
+// The client's address reaches loaders and actions through the load context (rate limits are per address), and so
+// does a fresh Content-Security-Policy nonce for the document rendered (app/entry.server.tsx).
+app.all("*", createRequestHandler({ build, mode: process.env.NODE_ENV, getLoadContext: (req) => ({ ip: req.ip ?? req.socket.remoteAddress ?? "unknown", cspNonce: newNonce() }) }));
 
 // Slow clients must not hold sockets (QUALITY F7, the "Slow clients" anchor: CVE-2018-12122): headers within 20 s
 // (HEADERS_TIMEOUT_MS, slowloris), a whole request within 2 minutes. Node checks both only every

@@ -349,7 +349,7 @@ describe("the database's fallback copy", () => {
   });
 
   it("with the service away, the database gives the same total and facets as the index for the whole library and for filters", async () => {
-    const asks = [{ q: "" }, { q: "", type: "connector" }, { q: "", make: "brennwald" }, { q: "", pins: "2" }];
+    const asks: Record<string, string>[] = [{ q: "" }, { q: "", type: "connector" }, { q: "", make: "brennwald" }, { q: "", pins: "2" }];
     const fromIndex = [];
     for (const a of asks) {
       const r = await find({ ...a, limit: "5" });

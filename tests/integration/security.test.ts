@@ -956,3 +956,48 @@ describe("S9 brute force and enumeration (own server)", () => {
     expect(s9.output()).not.toContain("SQLITE_BUSY");
   }, 60_000);
 });
+
+// QUALITY S14 (ASVS V14.4): "Every HTML response: CSP with per-request nonce present on all inline scripts (React Router
+// security doc), frame-ancestors 'none', nosniff, Referrer-Policy; no X-Powered-By."
+describe("S14 response headers and the script nonce", () => {
+  const PAGES = ["/", `/families/${FAMILY}`, `/connectors/${CARD}`, "/search?q=pickup", "/login", "/colours", "/no-such-page"];
+  const scriptNonce = (csp: string) => /script-src [^;]*'nonce-([A-Za-z0-9+/=]+)'/.exec(csp)?.[1] ?? null;
+
+  for (const page of PAGES) {
+    it(`${page}: one policy with a fresh nonce that every <script> carries; framing refused; nosniff; Referrer-Policy; no X-Powered-By`, async () => {
+      const r = await req(srv, page);
+      expect([200, 404]).toContain(r.status);
+      expect(r.headers.get("content-type")).toMatch(/^text\/html/);
+      const csp = r.headers.get("content-security-policy") ?? "";
+      expect(csp, "a single policy, not two joined").not.toContain(",");
+      expect(csp).toContain("frame-ancestors 'none'");
+      expect(csp).toMatch(/script-src 'self' 'nonce-/);
+      expect(csp, "no unsafe-inline or unsafe-eval for scripts").not.toMatch(/unsafe-(inline|eval)/);
+      const nonce = scriptNonce(csp);
+      expect(nonce, csp).toBeTruthy();
+      expect(Buffer.from(nonce!, "base64").length, "128 random bits").toBeGreaterThanOrEqual(16);
+      const scripts = DomUtils.getElementsByTagName("script", parseDocument(r.body));
+      expect(scripts.length, "the page has React Router's scripts").toBeGreaterThan(0);
+      expect(scripts.filter((s) => s.attribs.nonce !== nonce).map((s) => DomUtils.getOuterHTML(s).slice(0, 120))).toEqual([]);
+      expect(r.headers.get("x-content-type-options")).toBe("nosniff");
+      expect(r.headers.get("referrer-policy")).toBeTruthy();
+      expect(r.headers.get("x-powered-by")).toBeNull();
+    });
+  }
+
+  it("each response has its own nonce", async () => {
+    const nonces = new Set<string | null>();
+    for (let i = 0; i < 5; i++) nonces.add(scriptNonce((await req(srv, "/")).headers.get("content-security-policy") ?? ""));
+    expect(nonces.size).toBe(5);
+  });
+
+  it("JSON and files keep the base policy (no framing, nosniff) without a script nonce", async () => {
+    for (const p of ["/api/v1/health", "/favicon.svg"]) {
+      const r = await req(srv, p);
+      expect(r.status, p).toBe(200);
+      expect(r.headers.get("content-security-policy"), p).toContain("frame-ancestors 'none'");
+      expect(r.headers.get("x-content-type-options"), p).toBe("nosniff");
+      expect(r.headers.get("x-powered-by"), p).toBeNull();
+    }
+  });
+});
