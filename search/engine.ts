@@ -5,7 +5,9 @@
  *
  * Ranking and typo tolerance are MiniSearch's (BM25 with prefix and fuzzy matching), configured to behave like the
  * service's defaults:
- *   - prefix matching on (as-you-type: "kil" finds "kill switch"); `prefixSearch: "disabled"` turns it off;
+ *   - prefix matching on the last query word, as the service does (as-you-type: "kil" finds "kill switch"), with prefix
+ *     data built at indexing time for one- and two-character last words (SearchIndex.prefixMini);
+ *     `prefixSearch: "disabled"` turns it off;
  *   - typo tolerance by word length as the service's `typoTolerance.minWordSizeForTypos` (defaults oneTypo 5,
  *     twoTypos 9): no typo under 5 characters, 1 typo for 5–8, 2 from 9 — via MiniSearch's `fuzzy(term)` returning a
  *     maximum edit distance; `typoTolerance.enabled: false`, `disableOnWords` and `disableOnNumbers` are honoured;
@@ -706,22 +708,35 @@ export class SearchIndex {
     // A short last word is matched through the prefix index (below), the index's own prefix expansion serves a longer
     // one. Earlier words match whole (with typos): the service expands only the last word.
     const shortLast = prefixOn && [...words[last].term].length <= PREFIX_INDEX_MAX && !synonyms.has(words[last].term);
+    const whole = (t: string) => t + EXACT_MARK;
+    const prefixIndexOptions = { ...options, fuzzy: false, boostTerm: (t: string) => (t.endsWith(EXACT_MARK) ? 1 : PREFIX_WEIGHT) };
+    /**
+     * A word with parts ("w/r", "kill-switch", "b+") is matched by its parts (each whole, in any order) only when no
+     * document holds the word itself. Matching the parts as well let "W/R" find every card with a white and a red wire,
+     * R/W ones included, and made every such query score each document holding a "w" or an "r".
+     */
+    const byParts = words.map((w, i) => {
+      if (w.parts.length === 0) return false;
+      const found = shortLast && i === last
+        ? this.prefixMini!.search({ combineWith: "OR", queries: [w.term, whole(w.term)] }, prefixIndexOptions)
+        : mini.search({ queries: [w.term], prefix: prefixOn && i === last }, options);
+      return found.length === 0;
+    });
     const wordQuery = (w: QueryWord, i: number): Query => {
       const prefix = prefixOn && i === last;
       const alternatives: Query[] = [{ queries: [w.term], prefix }];
       // the letter/digit runs of a code ("w", "r" of "W/R") match exactly: no prefix, no typo
-      if (w.parts.length) alternatives.push({ combineWith: "AND", queries: w.parts, prefix: false, fuzzy: false });
+      if (byParts[i]) alternatives.push({ combineWith: "AND", queries: w.parts, prefix: false, fuzzy: false });
       for (const syn of synonyms.get(w.term) ?? []) alternatives.push({ combineWith: "AND", queries: syn, prefix });
       return { combineWith: "OR", queries: alternatives };
     };
     const search = (combineWith: "AND" | "OR"): Hit[] => {
       if (!shortLast) return mini.search({ combineWith, queries: words.map(wordQuery) }, options) as Hit[];
-      // In the prefix index: the word as a prefix (weighed as MiniSearch weighs a prefix match), the word whole, and a
-      // code's parts whole ("b+" → "b"); one search, so MiniSearch adds up the scores of a document found by several.
+      // In the prefix index: the word as a prefix (weighed as MiniSearch weighs a prefix match), the word whole, or
+      // else a code's parts whole ("b+" → "b"); one search, so MiniSearch adds up the scores of a document found by several.
       const w = words[last];
-      const whole = (t: string) => t + EXACT_MARK;
-      const lastQuery: Query = { combineWith: "OR", queries: [w.term, whole(w.term), ...(w.parts.length ? [{ combineWith: "AND" as const, queries: w.parts.map(whole) }] : [])] };
-      const lastHits = this.prefixMini!.search(lastQuery, { ...options, fuzzy: false, boostTerm: (t: string) => (t.endsWith(EXACT_MARK) ? 1 : PREFIX_WEIGHT) }) as Hit[];
+      const lastQuery: Query = { combineWith: "OR", queries: [w.term, whole(w.term), ...(byParts[last] ? [{ combineWith: "AND" as const, queries: w.parts.map(whole) }] : [])] };
+      const lastHits = this.prefixMini!.search(lastQuery, prefixIndexOptions) as Hit[];
       if (words.length === 1) return lastHits;
       return mergeHits(combineWith, mini.search({ combineWith, queries: words.slice(0, last).map(wordQuery) }, options) as Hit[], lastHits);
     };

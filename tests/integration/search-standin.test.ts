@@ -487,6 +487,16 @@ describe("search", () => {
     expect(ids((await own.search("q")).hits)).toEqual(["a"]);
   });
 
+  // Stand-in only: the service cuts "W/R" at the slash and matches w and r as two words (its tokenizer's separators).
+  // The stand-in keeps a code whole, so a rider's W/R finds cards holding W/R; its parts are matched only when no
+  // document holds the code itself (a typed "W-R", a hyphenated "kill-switch").
+  it.skipIf(REAL)("a code is matched whole when the index holds it; by its parts only when it does not", async () => {
+    expect(ids((await index.search("W/R")).hits)).toEqual(["rx750-pickup"]);
+    expect(ids((await index.search("W-R")).hits).sort()).toEqual(["rx750-pickup", "rx750-tail"]);
+    expect(ids((await index.search("kill-switch")).hits)).toEqual(["b800-kill"]);
+    expect(ids((await index.search("B+")).hits)).toEqual(["sov650-reg"]);
+  });
+
   it("colour codes in several notations find the card holding that code first", async () => {
     expect((await index.search("W/R")).hits[0]?.id).toBe("rx750-pickup");
     expect((await index.search("w/r")).hits[0]?.id).toBe("rx750-pickup");
