@@ -8,11 +8,21 @@ import { createReadableStreamFromReadable } from "@react-router/node";
 import { isbot } from "isbot";
 import type { RenderToPipeableStreamOptions } from "react-dom/server";
 import { renderToPipeableStream } from "react-dom/server";
-import type { AppLoadContext, EntryContext } from "react-router";
+import type { AppLoadContext, EntryContext, HandleErrorFunction } from "react-router";
 import { ServerRouter } from "react-router";
 import { documentCsp, newNonce } from "./services/csp.server";
 
 export const streamTimeout = 5_000;
+
+/**
+ * An unexpected error in a loader or action: logged with the request's id, which the error page shows (root.tsx), so a
+ * rider's report can be matched with the log line. The page itself says nothing about the error (ASVS V7.4.1).
+ */
+export const handleError: HandleErrorFunction = (error, { request, context }) => {
+  if (request.signal.aborted) return; // the client went away: nothing went wrong on our side
+  const id = (context as AppLoadContext).requestId ?? "-";
+  console.error(`[error ${id}] ${request.method} ${new URL(request.url).pathname}:`, error);
+};
 
 export default function handleRequest(request: Request, responseStatusCode: number, responseHeaders: Headers, routerContext: EntryContext, loadContext: AppLoadContext) {
   // https://httpwg.org/specs/rfc9110.html#HEAD

@@ -11,11 +11,14 @@ import { optionalUser } from "~/services/guards.server";
 
 export const links: Route.LinksFunction = () => [{ rel: "icon", href: "/favicon.svg", type: "image/svg+xml" }];
 
-/** Who is signed in, for the header (every page). */
-export async function loader({ request }: Route.LoaderArgs) {
+/** Who is signed in, for the header (every page), and this request's id for the error page. */
+export async function loader({ request, context }: Route.LoaderArgs) {
   const user = await optionalUser(request);
-  return { user: user ? { displayName: user.displayName, role: user.role } : null };
+  return { user: user ? { displayName: user.displayName, role: user.role } : null, requestId: context.requestId ?? null };
 }
+
+// Runs with every navigation (a session read), so the error page's id is always the failing request's own.
+export const shouldRevalidate = () => true;
 
 const nav = [
   { to: "/", label: "Library", end: true },
@@ -96,6 +99,7 @@ export default function App() {
 
 /** One boundary for the unexpected: a real 404 page, and a plain apology with an id for anything else. */
 export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  const root = useRouteLoaderData<typeof loader>("root");
   if (isRouteErrorResponse(error) && error.status === 404) {
     return (
       <section className="max-w-2xl">
@@ -108,6 +112,7 @@ export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
   }
   const status = isRouteErrorResponse(error) ? error.status : 500;
   if (!isRouteErrorResponse(error)) console.error(error);
+  const requestId = status >= 500 ? root?.requestId : null;
   return (
     <section className="max-w-2xl">
       <title>Something went wrong · Loomlore</title>
@@ -115,6 +120,7 @@ export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
       <p className="mt-3 text-lg">
         {status === 400 && isRouteErrorResponse(error) && typeof error.data === "string" ? error.data : "The page could not be shown. Try again in a moment; if it keeps happening, tell us what you were doing."}
       </p>
+      {requestId ? <p className="mt-3 text-muted" data-testid="error-id">Error id <code>{requestId}</code> — please quote it if you tell us.</p> : null}
       <p className="mt-4"><Link to="/" className="font-semibold text-signal-dark">Back to the library</Link></p>
     </section>
   );

@@ -1,6 +1,7 @@
 // The production server: React Router's request handler on Express, with the few things the stock
 // `react-router-serve` cannot be told: our error shape for undecodable URLs, explicit timeouts, and what to do with a
 // request body nobody is going to read to the end (QUALITY.md F6 and F7).
+import { randomBytes } from "node:crypto";
 import http from "node:http";
 import type { Socket } from "node:net";
 import path from "node:path";
@@ -317,8 +318,9 @@ app.use((req, _res, next) => {
 app.use("/assets", express.static(path.join(root, "build/client/assets"), { immutable: true, maxAge: "1y" }));
 app.use(express.static(path.join(root, "build/client"), { maxAge: "1h" }));
 // The client's address reaches loaders and actions through the load context (rate limits are per address), and so
-// does a fresh Content-Security-Policy nonce for the document rendered (app/entry.server.tsx).
-app.all("*", createRequestHandler({ build, mode: process.env.NODE_ENV, getLoadContext: (req) => ({ ip: req.ip ?? req.socket.remoteAddress ?? "unknown", cspNonce: newNonce() }) }));
+// does a fresh Content-Security-Policy nonce for the document rendered (app/entry.server.tsx), and an id that the log
+// line and the error page of an unexpected error share (ASVS V7.4.1).
+app.all("*", createRequestHandler({ build, mode: process.env.NODE_ENV, getLoadContext: (req) => ({ ip: req.ip ?? req.socket.remoteAddress ?? "unknown", cspNonce: newNonce(), requestId: randomBytes(4).toString("hex") }) }));
 
 // Slow clients must not hold sockets (QUALITY F7, the "Slow clients" anchor: CVE-2018-12122): headers within 20 s
 // (HEADERS_TIMEOUT_MS, slowloris), a whole request within 2 minutes. Node checks both only every

@@ -23,6 +23,7 @@ import sqlite3 from "sqlite3";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { startServer, type TestServer } from "../support/server";
 import { ACTORS, COOKIE, DEMO, req, signIn, where, type Actor, type Reply, type ReqOptions, type Role } from "../support/http";
+import { execSql } from "./helpers";
 
 const root = path.resolve(import.meta.dirname, "../..");
 
@@ -989,6 +990,27 @@ describe("S14 response headers and the script nonce", () => {
     const nonces = new Set<string | null>();
     for (let i = 0; i < 5; i++) nonces.add(scriptNonce((await req(srv, "/")).headers.get("content-security-policy") ?? ""));
     expect(nonces.size).toBe(5);
+  });
+
+  // S14 / ASVS V7.4.1: "A thrown error in a loader yields a generic page with an error id, no stack trace."
+  it("a loader that throws: a generic 500 page with an error id and no detail; the server's log line has the same id", async () => {
+    const s = await startServer();
+    try {
+      expect((await req(s, "/")).status).toBe(200);
+      await execSql(s.dbPath, "ALTER TABLE makes RENAME TO makes_gone"); // the home page's loader now fails
+      const r = await req(s, "/");
+      expect(r.status, where(r)).toBe(500);
+      expect(r.body).toContain("Something went wrong");
+      const id = /Error id (?:<!-- -->)?<code>([0-9a-f]{8})<\/code>/.exec(r.body)?.[1];
+      expect(id, "the page shows an error id").toBeTruthy();
+      expect(r.body, "no error text, SQL or stack on the page").not.toMatch(/SQLITE|no such table|makes_gone|SequelizeDatabaseError|\bat \S+ \(|\.(?:ts|js):\d+/);
+      await expect.poll(() => s.output(), { timeout: 5_000 }).toContain(`[error ${id}] GET /:`);
+      expect(r.headers.get("content-security-policy")).toMatch(/script-src 'self' 'nonce-/);
+      const other = /Error id (?:<!-- -->)?<code>([0-9a-f]{8})<\/code>/.exec((await req(s, "/")).body)?.[1];
+      expect(other, "each failing request has its own id").not.toBe(id);
+    } finally {
+      await s.stop();
+    }
   });
 
   it("JSON and files keep the base policy (no framing, nosniff) without a script nonce", async () => {
