@@ -837,9 +837,9 @@ export class SearchIndex {
   private facetDistribution(candidates: Candidate[], facets: string[]) {
     const distribution: Record<string, Record<string, number>> = {};
     const stats: Record<string, { min: number; max: number }> = {};
-    const touched: FacetCell[][] = facets.map(() => []);
-    facets.forEach((facet, f) => {
+    for (const facet of facets) {
       const epoch = ++this.facetEpoch;
+      const touched: FacetCell[] = [];
       let column = this.facetColumns.get(facet);
       if (!column) this.facetColumns.set(facet, (column = []));
       for (const c of candidates) {
@@ -849,22 +849,20 @@ export class SearchIndex {
           if (cell.epoch !== epoch) {
             cell.epoch = epoch;
             cell.count = 0;
-            touched[f].push(cell);
+            touched.push(cell);
           }
           cell.count += 1;
         }
       }
-    });
-    facets.forEach((facet, f) => {
       let min = Infinity;
       let max = -Infinity;
-      for (const cell of touched[f]) {
+      for (const cell of touched) {
         if (cell.num === null) continue;
         if (cell.num < min) min = cell.num;
         if (cell.num > max) max = cell.num;
       }
       const by = this.settings.faceting.sortFacetValuesBy[facet] ?? this.settings.faceting.sortFacetValuesBy["*"] ?? "alpha";
-      const entries = touched[f].sort((a, b) => {
+      const entries = touched.sort((a, b) => {
         if (by === "count" && a.count !== b.count) return b.count - a.count;
         if (a.num !== null && b.num !== null) return a.num - b.num;
         if (a.num !== null) return -1;
@@ -875,7 +873,7 @@ export class SearchIndex {
       for (const e of entries.slice(0, this.settings.faceting.maxValuesPerFacet)) out[e.label] = e.count;
       distribution[facet] = out;
       if (min !== Infinity) stats[facet] = { min, max };
-    });
+    }
     return { distribution, stats };
   }
 }
