@@ -592,6 +592,9 @@ describe("F10 crash during start-up (QUALITY F10)", () => {
   async function migrationTables() {
     const { migrations } = await import("../../db/migrations/index.ts");
     const out: { name: string; tables: string[] }[] = [];
+    // A table a later migration drops and creates again (search_fts, given prefix indexes) counts for the migration that
+    // first created it: its presence says nothing about whether the later one ran.
+    const earlier = new Set<string>();
     for (const mig of migrations) {
       const tables: string[] = [];
       const stub: object = new Proxy({}, {
@@ -603,7 +606,8 @@ describe("F10 crash during start-up (QUALITY F10)", () => {
         }),
       });
       await mig.up({ context: stub as never });
-      out.push({ name: mig.name, tables });
+      out.push({ name: mig.name, tables: tables.filter((t) => !earlier.has(t)) });
+      for (const t of tables) earlier.add(t);
     }
     return out;
   }
