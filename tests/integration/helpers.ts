@@ -1,8 +1,12 @@
 /** Shared helpers for the integration tests: the API's error shape, a small CSV reader, and the "state digest" of a database file. */
+import { execFile } from "node:child_process";
 import { createHash } from "node:crypto";
+import path from "node:path";
+import { promisify } from "node:util";
 import sqlite3 from "sqlite3";
 import { expect } from "vitest";
 import { z } from "zod";
+import type { TestServer } from "../support/server";
 
 // API.md, Conventions: {"error": {"code": "snake_case_code", "message": "A sentence a person can act on", "field": "name-if-any"}}
 export const errorBody = z.strictObject({
@@ -105,4 +109,14 @@ export function client(base: () => string) {
     return shape(schema, JSON.parse(r.body), path);
   }
   return { call, getJson };
+}
+
+/** `npm run search:reconcile` against a test server's database and search stand-in; returns its counts. */
+export async function reconcileOnce(srv: TestServer): Promise<{ added: number; updated: number; removed: number }> {
+  const { stdout } = await promisify(execFile)("npm", ["run", "--silent", "search:reconcile"], {
+    cwd: path.resolve(import.meta.dirname, "../.."), env: { ...process.env, DB_PATH: srv.dbPath, SEARCH_URL: srv.searchUrl!, SEARCH_KEY: "" }, timeout: 60_000,
+  });
+  const m = /search index reconciled: (\{.*\})/.exec(stdout);
+  if (!m) throw new Error(`no counts in the reconcile output:\n${stdout}`);
+  return JSON.parse(m[1]);
 }

@@ -13,20 +13,18 @@
  * The server runs with SEARCH_BREAKER_MS=1500 and SEARCH_POLL_MS=300 (production: 30 s and 2 s) to keep this short.
  * Cards and families are the invented demo library's. Figures are printed per mode.
  */
-import { execFile } from "node:child_process";
 import { mkdtempSync, rmSync } from "node:fs";
 import { createServer } from "node:net";
 import { tmpdir } from "node:os";
 import path from "node:path";
 import { performance } from "node:perf_hooks";
-import { promisify } from "node:util";
 import sqlite3 from "sqlite3";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { DEMO, req, signIn, where, type Role } from "../support/http";
 import { startServer, type TestServer } from "../support/server";
 import { startSearchStandIn } from "../../search/server.ts";
+import { reconcileOnce } from "./helpers";
 
-const root = path.resolve(import.meta.dirname, "../..");
 // QUALITY F2: "/search answers 200 within client timeout (≤ 300 ms) + 100 ms using the DB fallback".
 const CLIENT_TIMEOUT_MS = 300; // SEARCH_TIMEOUT_MS's default in app/services/search.server.ts
 const FIRST_ANSWER_BUDGET_MS = CLIENT_TIMEOUT_MS + 100;
@@ -158,14 +156,6 @@ async function untilIndex(ms: number, q = "pickup", extra = ""): Promise<Answer>
   return a;
 }
 
-async function reconcileOnce(): Promise<{ added: number; updated: number; removed: number }> {
-  const { stdout } = await promisify(execFile)("npm", ["run", "--silent", "search:reconcile"], {
-    cwd: root, env: { ...process.env, DB_PATH: srv.dbPath, SEARCH_URL: srv.searchUrl!, SEARCH_KEY: "" }, timeout: 60_000,
-  });
-  const m = /search index reconciled: (\{.*\})/.exec(stdout);
-  if (!m) throw new Error(`no counts in the reconcile output:\n${stdout}`);
-  return JSON.parse(m[1]);
-}
 
 /** A contributor's edit of pin 1's circuit on `card`, approved by the moderator; returns the decision's reply. */
 async function approveEdit(card: string, circuit: string) {
@@ -296,7 +286,7 @@ describe("F2: the search service down", () => {
       expect(back.hits[0]?.slug, "the approved change is in the index").toBe(card);
       const backMs = Date.now() - restored;
       expect((await health()).checks.search).toBe("ok");
-      expect(await reconcileOnce(), "D11: zero drift after the outage").toEqual({ added: 0, updated: 0, removed: 0 });
+      expect(await reconcileOnce(srv), "D11: zero drift after the outage").toEqual({ added: 0, updated: 0, removed: 0 });
       line.push(`approval during the outage: ${pending} job(s) waited; restored → jobs drained in ${drainedMs} ms, index answering in ${backMs} ms; reconcile drift 0; health ok`);
       figures.push(line.join(" | "));
     }, 60_000);

@@ -8,18 +8,14 @@
  * whose jis-coded pin is O/B", "the cards with a terminal 31d". Every card exists as a plug and a socket with the same
  * pins, so "first" means the first connector hit is one of the cards the database names.
  */
-import { execFile } from "node:child_process";
-import path from "node:path";
-import { promisify } from "node:util";
 import { Meilisearch } from "meilisearch";
 import sqlite3 from "sqlite3";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { z } from "zod";
 import { DEMO, req, signIn, where, type Role } from "../support/http";
 import { startServer, type TestServer } from "../support/server";
-import { errorBody, shape } from "./helpers";
+import { errorBody, reconcileOnce, shape } from "./helpers";
 
-const root = path.resolve(import.meta.dirname, "../..");
 const INDEX = "library"; // SEARCH_INDEX's default (app/services/search.server.ts)
 
 let srv: TestServer;
@@ -62,15 +58,6 @@ async function cardsWhere(cond: string, params: unknown[] = []): Promise<string[
   return rows.map((r) => r.slug);
 }
 
-/** `npm run search:reconcile` against this server's database and stand-in; returns its counts. */
-async function reconcileOnce(): Promise<{ added: number; updated: number; removed: number }> {
-  const { stdout } = await promisify(execFile)("npm", ["run", "--silent", "search:reconcile"], {
-    cwd: root, env: { ...process.env, DB_PATH: srv.dbPath, SEARCH_URL: srv.searchUrl!, SEARCH_KEY: "" }, timeout: 60_000,
-  });
-  const m = /search index reconciled: (\{.*\})/.exec(stdout);
-  if (!m) throw new Error(`no counts in the reconcile output:\n${stdout}`);
-  return JSON.parse(m[1]);
-}
 
 /** How the start went: the first answer from the index (or the last answer within 15 s) and when it came. */
 let startup: { ms: number; last: Result | null };
@@ -316,8 +303,8 @@ describe("an approved edit reaches the index; D11 reconcile", () => {
     await wait(await idx.updateDocuments([{ id: `connector-${CARD}`, version: 999 }]));
     await wait(await idx.addDocuments([{ id: "connector-nobody-s-card", type: "connector", slug: "nobody-s-card", title: "Not in the library", version: 1 }]));
 
-    expect(await reconcileOnce()).toEqual({ added: 1, updated: 1, removed: 1 });
-    expect(await reconcileOnce(), "a second reconcile finds nothing to do").toEqual({ added: 0, updated: 0, removed: 0 });
+    expect(await reconcileOnce(srv)).toEqual({ added: 1, updated: 1, removed: 1 });
+    expect(await reconcileOnce(srv), "a second reconcile finds nothing to do").toEqual({ added: 0, updated: 0, removed: 0 });
 
     // D11 pass: the documents in the index are the library's (ids and versions), the same as the database's own copy.
     const want = new Map((await dbAll<{ id: string; version: number }>("SELECT id, version FROM search_fts")).map((r) => [r.id, Number(r.version)]));
