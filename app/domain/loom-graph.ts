@@ -3,18 +3,31 @@
  * Pure functions, shared by the consistency check and the circuit walk.
  */
 
+/**
+ * The switches every family shares, and the engine's own state: a contact may name "engine" (an oil-pressure switch is
+ * closed while the engine is stopped) and the contact breakers follow "points" while the engine is stopped.
+ */
 export const SWITCH_POSITIONS = {
   main: ["off", "on", "park"],
   kill: ["run", "stop"],
   start: ["released", "pressed"],
   lights: ["off", "on"],
   brake: ["released", "pressed"],
+  beam: ["low", "high"],
+  indicators: ["off", "left", "right"],
+  horn: ["released", "pressed"],
+  gear: ["neutral", "in-gear"],
+  engine: ["stopped", "cranking", "running"],
+  points: ["closed", "open"],
 } as const;
 export type SwitchId = keyof typeof SWITCH_POSITIONS;
 export type SwitchState = Record<SwitchId, string>;
 
-/** Riding positions: what an omitted switch is taken to be. */
-export const RIDING_POSITIONS: SwitchState = { main: "on", kill: "run", start: "released", lights: "off", brake: "released" };
+/** What an omitted switch is taken to be: the riding positions (main on, kill run), the engine stopped, in neutral. */
+export const RIDING_POSITIONS: SwitchState = {
+  main: "on", kill: "run", start: "released", lights: "off", brake: "released", beam: "low", indicators: "off", horn: "released",
+  gear: "neutral", engine: "stopped", points: "closed",
+};
 
 export type EdgeKind = "wire" | "mate" | "contact" | "fuse" | "transistor" | "breaker" | "winding" | "load" | "lamp" | "sense" | "source";
 /** Edges a current passes without doing work in them; the rest are loads (or the battery itself). */

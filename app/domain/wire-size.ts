@@ -31,6 +31,31 @@ export const FUSE_MARGIN = 1.25;
 /** Standard blade and glass fuse ratings, A. */
 export const FUSE_RATINGS_A: readonly number[] = [3, 5, 7.5, 10, 15, 20, 25, 30, 40];
 
+/**
+ * IEC 60228 class 5 (flexible, plain copper) maximum conductor resistance at 20 °C, Ω/km, by nominal size in mm²: the
+ * cable a loom is made of, stranded, not solid copper (REFERENCE-FACTS 3.2, two published copies agree). 25–50 mm² from
+ * memory (the same standard's table).
+ */
+export const IEC_60228_CLASS5_OHM_PER_KM: Readonly<Record<string, number>> = Object.freeze({
+  "0.5": 39.0, "0.75": 26.0, "1": 19.5, "1.5": 13.3, "2.5": 7.98, "4": 4.95, "6": 3.3, "10": 1.91, "16": 1.21, "25": 0.78, "35": 0.554, "50": 0.386,
+});
+/** The largest resistance × area product of the class 5 table, Ω·mm²/km: used for sizes the table has no row for (0.3, 0.35, 0.85, 1.25, 2, 3, 5, 8 mm²), so they are never taken as better than the table. */
+export const CLASS5_WORST_OHM_MM2_PER_KM = Math.max(
+  ...Object.entries(IEC_60228_CLASS5_OHM_PER_KM).map(([a, r]) => Number(a) * r),
+);
+
+/** Stranded automotive cable's resistance per metre at 20 °C, Ω/m: IEC 60228 class 5 maximum, or the table's worst R·A for sizes it lacks. */
+export function strandedOhmsPerM(areaMm2: number): number {
+  const a = positive("areaMm2", areaMm2);
+  const row = IEC_60228_CLASS5_OHM_PER_KM[String(a)];
+  return (row ?? CLASS5_WORST_OHM_MM2_PER_KM / a) / 1000;
+}
+
+/** Resistance in Ω of a run of stranded cable (IEC 60228 class 5 maximum) at a temperature (IEC 60028 α). */
+export function strandedResistance(areaMm2: number, lengthM: number, tempC = 20): number {
+  return strandedOhmsPerM(areaMm2) * positive("lengthM", lengthM) * copperTempFactor(tempC);
+}
+
 /** ISO 6722-1 nominal cross-sections, mm². */
 export const ISO_6722_SIZES_MM2: readonly number[] = [0.35, 0.5, 0.75, 1, 1.5, 2.5, 4, 6, 10, 16, 25, 35, 50];
 /** Nominal sizes of Japanese harnesses of the 1970s–80s (JIS C 3406 AV wire; the list is workshop knowledge, not a published table), mm². */

@@ -10,7 +10,10 @@ export const meta: Route.MetaFunction = ({ loaderData }) => [
   { title: loaderData ? `${loaderData.circuit.name} · ${loaderData.family.name} · Loomlore` : "Not found · Loomlore" },
 ];
 
-const SWITCH_NAMES: Record<SwitchId, string> = { main: "Main switch", kill: "Kill switch", start: "Start button", lights: "Lights", brake: "Brake" };
+const SWITCH_NAMES: Record<SwitchId, string> = {
+  main: "Main switch", kill: "Kill switch", start: "Start button", lights: "Lights", brake: "Brake", beam: "Beam", indicators: "Indicators",
+  horn: "Horn button", gear: "Gearbox", engine: "Engine", points: "Points",
+};
 
 /** The switch positions chosen in the form or query; the rest take the circuit's working positions. */
 function switchesFrom(params: URLSearchParams | FormData) {

@@ -71,7 +71,7 @@ async function load(slug: string) {
     const b = g.pins.find((p) => p.id === link.toPinId);
     if (!a?.connectorId || !b?.connectorId || a.connectorId !== b.connectorId) return null;
     const s = specs.find((x) => x.connectorId === a.connectorId && new Set([x.betweenA, x.betweenB]).has(a.cavity) && new Set([x.betweenA, x.betweenB]).has(b.cavity));
-    return s ? { min: s.min, max: s.max, unit: s.unit } : null;
+    return s && s.max !== null ? { min: s.min, max: s.max, unit: s.unit } : null;
   };
   const compByKey = new Map(g.components.map((c) => [c.key, c]));
   const battery = g.components.find((c) => c.kind === "battery");

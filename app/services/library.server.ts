@@ -9,17 +9,18 @@ import { bikeChecks } from "./garage.server";
 import { photoUrls } from "./photos.server";
 import { isSlug } from "~/validation/library";
 
-export interface MakeSummary { slug: string; name: string; colourSystem: string; familyCount: number; blurb: string }
+export interface MakeSummary { slug: string; name: string; colourSystem: string; houseStyle: string; familyCount: number; blurb: string }
 export interface FamilySummary {
   slug: string; name: string; make: { slug: string; name: string }; yearFrom: number; yearTo: number; engine: string;
   cylinders: number; firingOrder: string; ignition: string; displacementCc: number; modelRange: string; colourSystem: string; crankDeg: number | null;
+  systemVoltage: number; earth: "negative" | "positive";
 }
 
 function familySummary(f: Family & { make?: Make }): FamilySummary {
   return {
     slug: f.slug, name: f.name, make: { slug: f.make!.slug, name: f.make!.name }, yearFrom: f.yearFrom, yearTo: f.yearTo, engine: f.engine,
     cylinders: f.cylinders, firingOrder: f.firingOrder, ignition: f.ignition, displacementCc: f.displacementCc, modelRange: f.modelRange,
-    colourSystem: f.colourSystem, crankDeg: f.crankDeg,
+    colourSystem: f.colourSystem, crankDeg: f.crankDeg, systemVoltage: f.systemVoltage, earth: f.earth,
   };
 }
 
@@ -29,7 +30,7 @@ export async function listMakes(): Promise<MakeSummary[]> {
   const makes = await Make.findAll({ order: [["name", "ASC"]] });
   const counts = await Family.count({ group: ["make_id"] });
   const byMake = new Map((counts as unknown as { make_id: number; count: number }[]).map((c) => [c.make_id, c.count]));
-  return makes.map((m) => ({ slug: m.slug, name: m.name, colourSystem: m.colourSystem, familyCount: byMake.get(m.id) ?? 0, blurb: m.blurb }));
+  return makes.map((m) => ({ slug: m.slug, name: m.name, colourSystem: m.colourSystem, houseStyle: m.houseStyle, familyCount: byMake.get(m.id) ?? 0, blurb: m.blurb }));
 }
 
 /** One make and its families, or null. */
@@ -39,7 +40,7 @@ export async function getMake(slug: string) {
   const make = await Make.findOne({ where: { slug } });
   if (!make) return null;
   const families = await Family.findAll({ where: { makeId: make.id }, include: [{ model: Make, as: "make" }], order: [["yearFrom", "ASC"], ["name", "ASC"]] });
-  return { make: { slug: make.slug, name: make.name, colourSystem: make.colourSystem, blurb: make.blurb }, families: families.map(familySummary) };
+  return { make: { slug: make.slug, name: make.name, colourSystem: make.colourSystem, houseStyle: make.houseStyle, blurb: make.blurb }, families: families.map(familySummary) };
 }
 
 /** Families, optionally of one make and/or covering one model year. */
@@ -139,7 +140,10 @@ export async function getConnectorCard(slug: string) {
       system: system.kind, systemName: system.name, location: c.location, gender: c.gender, housing: c.housing,
       matesWith: mate?.slug ?? null, mateName: mate?.name ?? null, component: owner ? { name: owner.name, kind: owner.kind } : null,
       colourSystem, layout: layoutOf(c), pins: pinRows,
-      specs: specs.map((s) => ({ name: s.name, min: s.min, max: s.max, unit: s.unit, between: [s.betweenA, s.betweenB] as [string, string], atC: s.atC, source: s.source })),
+      specs: specs.map((s) => ({
+        name: s.name, min: s.min, max: s.max, unit: s.unit, between: [s.betweenA, s.betweenB] as [string, string], atC: s.atC, source: s.source,
+        conditions: s.conditions, kind: s.kind, material: s.material,
+      })),
       photos: photos.map((p) => ({ ...photoUrls(p.id), width: p.width, height: p.height, thumbWidth: p.thumbWidth, thumbHeight: p.thumbHeight, caption: p.caption, credit: p.credit, licence: p.licence })),
       revisions: revisions.map((r) => ({ number: r.number, summary: r.summary, publishedAt: r.publishedAt.toISOString() })),
       notes: c.notes,

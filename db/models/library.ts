@@ -1,6 +1,7 @@
 import {
   DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute,
 } from "sequelize";
+import type { LinkParams } from "../../app/domain/electrics.ts";
 import { sequelize } from "../index.server.ts";
 
 const common = { sequelize, underscored: true } as const;
@@ -22,6 +23,8 @@ export class Make extends Model<InferAttributes<Make>, InferCreationAttributes<M
   declare slug: string;
   declare name: string;
   declare colourSystem: string;
+  /** How this make writes colours within its notation (app/domain/colours house styles); "" for the notation's usual reading. */
+  declare houseStyle: CreationOptional<string>;
   declare blurb: string;
 }
 Make.init(
@@ -30,6 +33,7 @@ Make.init(
     slug: { type: DataTypes.STRING, allowNull: false, unique: true },
     name: { type: DataTypes.STRING, allowNull: false },
     colourSystem: { type: DataTypes.STRING, allowNull: false },
+    houseStyle: { type: DataTypes.TEXT, allowNull: false, defaultValue: "" },
     blurb: { type: DataTypes.TEXT, allowNull: false, defaultValue: "" },
   },
   { ...common, tableName: "makes", timestamps: false },
@@ -51,6 +55,10 @@ export class Family extends Model<InferAttributes<Family>, InferCreationAttribut
   declare crankDeg: number | null;
   declare ignition: string;
   declare colourSystem: string;
+  /** Nominal system voltage: 6 or 12. */
+  declare systemVoltage: CreationOptional<number>;
+  /** Which battery post is joined to the frame. */
+  declare earth: CreationOptional<"negative" | "positive">;
   declare blurb: string;
   declare make?: NonAttribute<Make>;
 }
@@ -70,6 +78,8 @@ Family.init(
     crankDeg: { type: DataTypes.INTEGER, allowNull: true },
     ignition: { type: DataTypes.STRING, allowNull: false },
     colourSystem: { type: DataTypes.STRING, allowNull: false },
+    systemVoltage: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 12 },
+    earth: { type: DataTypes.TEXT, allowNull: false, defaultValue: "negative" },
     blurb: { type: DataTypes.TEXT, allowNull: false, defaultValue: "" },
   },
   { ...common, tableName: "families", timestamps: false },
@@ -172,6 +182,8 @@ export class Pin extends Model<InferAttributes<Pin>, InferCreationAttributes<Pin
   declare circuit: string;
   declare terminal: string | null;
   declare position: number;
+  /** A bare terminal's fitting ("ring M6", "6.3 mm flat-blade", "4.7 mm bullet"); null for cavities (the housing says). */
+  declare fitting: CreationOptional<string | null>;
 }
 Pin.init(
   {
@@ -184,6 +196,7 @@ Pin.init(
     circuit: { type: DataTypes.STRING, allowNull: false, defaultValue: "" },
     terminal: { type: DataTypes.STRING, allowNull: true },
     position: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
+    fitting: { type: DataTypes.TEXT, allowNull: true },
   },
   { ...common, tableName: "pins", timestamps: false },
 );
@@ -222,6 +235,8 @@ export class ComponentLink extends Model<InferAttributes<ComponentLink>, InferCr
   declare switchId: string | null;
   declare positions: string[] | null;
   declare ratingA: number | null;
+  /** The link's electrical model (app/domain/electrics.ts LinkParams), or null for the kind's defaults. */
+  declare params: CreationOptional<LinkParams | null>;
 }
 ComponentLink.init(
   {
@@ -234,6 +249,7 @@ ComponentLink.init(
     switchId: { type: DataTypes.STRING, allowNull: true },
     positions: { ...json("positions"), allowNull: true },
     ratingA: { type: DataTypes.REAL, allowNull: true },
+    params: { ...json("params"), allowNull: true },
   },
   { ...common, tableName: "component_links", timestamps: false },
 );
@@ -271,12 +287,19 @@ export class SpecValue extends Model<InferAttributes<SpecValue>, InferCreationAt
   declare connectorId: ForeignKey<number>;
   declare name: string;
   declare min: number;
-  declare max: number;
+  /** null: no upper limit (an insulation test that must read open). */
+  declare max: number | null;
   declare unit: string;
   declare betweenA: string;
   declare betweenB: string;
   declare atC: number;
   declare source: string;
+  /** How and when the value can be measured (engine, ignition, what is unplugged). */
+  declare conditions: CreationOptional<string>;
+  /** What is measured: resistance, regulated-voltage, ac-output, gap, dwell, capacitance, insulation … */
+  declare kind: CreationOptional<string>;
+  /** For resistances: the part's conductor ("copper" windings are corrected to 20 °C; "carbon", "other" are not). */
+  declare material: CreationOptional<string | null>;
 }
 SpecValue.init(
   {
@@ -284,12 +307,15 @@ SpecValue.init(
     connectorId: { type: DataTypes.INTEGER, allowNull: false },
     name: { type: DataTypes.STRING, allowNull: false },
     min: { type: DataTypes.REAL, allowNull: false },
-    max: { type: DataTypes.REAL, allowNull: false },
+    max: { type: DataTypes.REAL, allowNull: true },
     unit: { type: DataTypes.STRING, allowNull: false },
     betweenA: { type: DataTypes.STRING, allowNull: false },
     betweenB: { type: DataTypes.STRING, allowNull: false },
     atC: { type: DataTypes.REAL, allowNull: false, defaultValue: 20 },
     source: { type: DataTypes.STRING, allowNull: false },
+    conditions: { type: DataTypes.TEXT, allowNull: false, defaultValue: "" },
+    kind: { type: DataTypes.TEXT, allowNull: false, defaultValue: "resistance" },
+    material: { type: DataTypes.TEXT, allowNull: true },
   },
   { ...common, tableName: "spec_values", timestamps: false },
 );

@@ -30,7 +30,7 @@ export async function seedDemo() {
       await User.create({ email: a.email, displayName: a.displayName, role: a.role, passwordHash: hashes[i], emailVerifiedAt: a.verified ? now : null, passwordChangedAt: now, createdAt: now, disabledAt: null }, { transaction });
     }
     for (const m of demoMakes) {
-      const make = await Make.create({ slug: m.slug, name: m.name, colourSystem: m.colourSystem, blurb: m.blurb }, { transaction });
+      const make = await Make.create({ slug: m.slug, name: m.name, colourSystem: m.colourSystem, houseStyle: m.houseStyle, blurb: m.blurb }, { transaction });
       for (const f of m.families) await seedFamily(make.id, m.colourSystem, f, transaction);
     }
   });
@@ -41,7 +41,7 @@ async function seedFamily(makeId: number, colourSystem: string, f: (typeof demoM
   const family = await Family.create({
     makeId, slug: f.slug, name: f.name, modelRange: f.modelRange, yearFrom: f.yearFrom, yearTo: f.yearTo, engine: f.engine,
     displacementCc: f.displacementCc, cylinders: f.cylinders, firingOrder: f.firingOrder, crankDeg: f.crankDeg, ignition: f.ignition,
-    colourSystem, blurb: f.blurb,
+    colourSystem, systemVoltage: f.systemVoltage, earth: f.earth, blurb: f.blurb,
   }, { transaction });
   const systems = new Map<string, number>();
   for (const kind of f.systems) {
@@ -70,7 +70,7 @@ async function seedFamily(makeId: number, colourSystem: string, f: (typeof demoM
   for (const p of rows.pins) {
     const row = await Pin.create({
       familyId: family.id, connectorId: p.connector ? connectors.get(p.connector)! : null, componentId: p.component ? components.get(p.component)! : null,
-      cavity: p.cavity, colourCode: p.code, circuit: p.circuit, terminal: p.terminal, position: p.position,
+      cavity: p.cavity, colourCode: p.code, circuit: p.circuit, terminal: p.terminal, position: p.position, fitting: p.fitting ?? null,
     }, { transaction });
     pins.set(p.ref, row.id);
   }
@@ -80,7 +80,7 @@ async function seedFamily(makeId: number, colourSystem: string, f: (typeof demoM
   for (const l of rows.links) {
     await ComponentLink.create({
       componentId: components.get(l.component)!, fromPinId: pins.get(l.from)!, toPinId: pins.get(l.to)!, kind: l.kind, label: l.label,
-      switchId: l.switchId, positions: l.positions, ratingA: l.ratingA,
+      switchId: l.switchId, positions: l.positions, ratingA: l.ratingA, params: l.params,
     }, { transaction });
   }
   for (const c of rows.circuits) {
@@ -91,7 +91,7 @@ async function seedFamily(makeId: number, colourSystem: string, f: (typeof demoM
   }
   for (const s of rows.specs) {
     await SpecValue.create({ connectorId: connectors.get(s.connector)!, name: s.name, min: s.min, max: s.max, unit: s.unit, betweenA: s.betweenA,
-      betweenB: s.betweenB, atC: s.atC, source: s.source }, { transaction });
+      betweenB: s.betweenB, atC: s.atC, source: s.source, conditions: s.conditions, kind: s.kind, material: s.material }, { transaction });
   }
   for (const [, id] of connectors) {
     await Revision.create({ connectorId: id, number: 1, snapshot: await connectorSnapshot(id, transaction), summary: "First published card (demo data).", publishedAt: PUBLISHED }, { transaction });

@@ -1,3 +1,4 @@
+import type { LinkParams } from "../../../app/domain/electrics.ts";
 import type { FamilySpec, LinkKind, PairSpec } from "./spec.ts";
 
 /** Rows of one family's loom graph, keyed by stable string refs until the seeder gives them ids. */
@@ -9,11 +10,11 @@ export interface FamilyRows {
     cavities: { cavity: string; row: number; col: number }[]; pin1: string; latch: PairSpec["latch"];
     notes: string; owner: string | null;
   }[];
-  pins: { ref: string; connector: string | null; component: string | null; cavity: string; code: string | null; circuit: string; terminal: string | null; position: number }[];
+  pins: { ref: string; connector: string | null; component: string | null; cavity: string; code: string | null; circuit: string; terminal: string | null; position: number; fitting?: string | null }[];
   wires: { from: string; to: string; code: string; lengthMm: number | null; sizeMm2: number | null }[];
-  links: { component: string; from: string; to: string; kind: LinkKind; label: string; switchId: string | null; positions: string[] | null; ratingA: number | null }[];
+  links: { component: string; from: string; to: string; kind: LinkKind; label: string; switchId: string | null; positions: string[] | null; ratingA: number | null; params: LinkParams | null }[];
   circuits: FamilySpec["circuits"];
-  specs: { connector: string; name: string; min: number; max: number; unit: string; betweenA: string; betweenB: string; atC: number; source: string }[];
+  specs: { connector: string; name: string; min: number; max: number | null; unit: string; betweenA: string; betweenB: string; atC: number; source: string; conditions: string; kind: string; material: string | null }[];
 }
 
 const flipLatch = { left: "right", right: "left", top: "top", bottom: "bottom" } as const;
@@ -46,7 +47,7 @@ export function buildFamily(f: FamilySpec): FamilyRows {
       const nets = Object.values(f.nets).filter((n) => n.hub === ref || n.terminals?.includes(ref));
       const net = nets.length === 1 ? nets[0] : null;
       addPin({ ref, connector: null, component: c.key, cavity: t.label, code: net?.code ?? null,
-        circuit: net?.circuit ?? nets.map((n) => n.circuit).join(", "), terminal: t.terminal ?? null, position: i });
+        circuit: net?.circuit ?? nets.map((n) => n.circuit).join(", "), terminal: t.terminal ?? null, position: i, fitting: t.fitting ?? null });
     });
   }
 
@@ -77,7 +78,8 @@ export function buildFamily(f: FamilySpec): FamilyRows {
     }
     for (const s of p.specs ?? []) {
       rows.specs.push({ connector: s.side === "loom" ? loomSlug : ownerSlug, name: s.name, min: s.min, max: s.max, unit: s.unit,
-        betweenA: s.between[0], betweenB: s.between[1], atC: s.atC ?? 20, source: s.source });
+        betweenA: s.between[0], betweenB: s.between[1], atC: s.atC ?? 20, source: s.source, conditions: s.conditions ?? "", kind: s.kind ?? "resistance",
+        material: s.material ?? null });
     }
   }
 
@@ -85,7 +87,7 @@ export function buildFamily(f: FamilySpec): FamilyRows {
     for (const l of c.links ?? []) {
       for (const end of [l.from, l.to]) if (!pinRefs.has(end)) throw new Error(`${f.slug}: link ${c.key}.${l.label} names unknown pin ${end}`);
       rows.links.push({ component: c.key, from: l.from, to: l.to, kind: l.kind, label: l.label, switchId: l.switch ?? null,
-        positions: l.positions ?? null, ratingA: l.ratingA ?? null });
+        positions: l.positions ?? null, ratingA: l.ratingA ?? null, params: l.params ?? null });
     }
   }
 

@@ -6,12 +6,12 @@ const TCI = "transistor, battery-powered; two pickups, two double-ended coils (w
 
 export const demoMakes: MakeSpec[] = [
   {
-    slug: "asagiri", name: "Asagiri Motor Works", colourSystem: "jis",
+    slug: "asagiri", name: "Asagiri Motor Works", colourSystem: "jis", houseStyle: "jis-letters",
     blurb: "An invented maker whose diagrams use Japanese-style letter codes (B, Br, L, Lg, Sb …), base colour first, tracer after the slash.",
     families: [
       transistorFour(
         { slug: "rx750-four", name: "RX750 Four", modelRange: "RX750, RX750 S", yearFrom: 1977, yearTo: 1982, engine: "inline four, air-cooled, DOHC",
-          displacementCc: 748, cylinders: 4, firingOrder: "1-2-4-3", crankDeg: 180, ignition: TCI,
+          displacementCc: 748, cylinders: 4, firingOrder: "1-2-4-3", crankDeg: 180, ignition: TCI, systemVoltage: 12, earth: "negative",
           blurb: "The big touring four. Its ignition runs from the battery: two pickups behind the crank cover trigger a transistor unit under the seat, which switches two double-ended coils." },
         { batt: "R", "main-fused": "R/W", "ign-sw": "Br", "ign-fused": "Br/W", "kill-run": "O/W", "coil1-neg": "B/Y", "coil2-neg": "B/L",
           "pick1-a": "Sb", "pick1-b": "Gr", "pick2-a": "P", "pick2-b": "Lb", earth: "B", "start-sw": "Y/R", "starter-main": "R/B",
@@ -20,7 +20,7 @@ export const demoMakes: MakeSpec[] = [
       ),
       transistorFour(
         { slug: "rx400-four", name: "RX400 Four", modelRange: "RX400, RX400 Custom", yearFrom: 1979, yearTo: 1984, engine: "inline four, air-cooled, DOHC",
-          displacementCc: 398, cylinders: 4, firingOrder: "1-2-4-3", crankDeg: 180, ignition: TCI,
+          displacementCc: 398, cylinders: 4, firingOrder: "1-2-4-3", crankDeg: 180, ignition: TCI, systemVoltage: 12, earth: "negative",
           blurb: "The middleweight four: the same ignition scheme as the RX750 in a lighter loom with its own colours and a single-row unit plug." },
         { batt: "R", "main-fused": "R/G", "ign-sw": "O", "ign-fused": "O/B", "kill-run": "Br/B", "coil1-neg": "Y/B", "coil2-neg": "Y/W",
           "pick1-a": "W/L", "pick1-b": "W/Y", "pick2-a": "Lg/B", "pick2-b": "Ch", earth: "G", "start-sw": "Y/G", "starter-main": "R/B",
@@ -30,11 +30,11 @@ export const demoMakes: MakeSpec[] = [
     ],
   },
   {
-    slug: "brennwald", name: "Brennwald Fahrzeugbau", colourSystem: "din",
+    slug: "brennwald", name: "Brennwald Fahrzeugbau", colourSystem: "din", houseStyle: "din",
     blurb: "An invented maker writing colours with German abbreviations: lower case with a slash on early diagrams (sw/rt), upper case base-then-stripe later (SWRT).",
     families: [
       boxerTwin(
-        { slug: "b800-boxer", name: "B 800 Boxer", modelRange: "B 800, B 800 S", yearFrom: 1973, yearTo: 1980, engine: "flat twin, air-cooled, OHV",
+        { slug: "b800-boxer", name: "B 800 Boxer", modelRange: "B 800, B 800 S", yearFrom: 1973, yearTo: 1980, engine: "flat twin, air-cooled, OHV", systemVoltage: 12, earth: "negative",
           displacementCc: 798, cylinders: 2, firingOrder: "1-2", crankDeg: 180, ignition: "contact breaker (points); one double-ended coil fires both plugs",
           blurb: "The early flat twin. One set of points and one double-ended coil: both plugs spark every revolution, one of them on the exhaust stroke." },
         { batt: "rt", "main-fused": "rt/ws", "ign-sw": "sw", "ign-fused": "sw/ge", "kill-run": "sw/rt", "coil-neg": "gn", earth: "br",
@@ -43,7 +43,7 @@ export const demoMakes: MakeSpec[] = [
         { trigger: "points", blade: "6.3 mm flat-blade" },
       ),
       boxerTwin(
-        { slug: "b1000-boxer", name: "B 1000 Boxer", modelRange: "B 1000, B 1000 RT", yearFrom: 1980, yearTo: 1988, engine: "flat twin, air-cooled, OHV",
+        { slug: "b1000-boxer", name: "B 1000 Boxer", modelRange: "B 1000, B 1000 RT", yearFrom: 1980, yearTo: 1988, engine: "flat twin, air-cooled, OHV", systemVoltage: 12, earth: "negative",
           displacementCc: 980, cylinders: 2, firingOrder: "1-2", crankDeg: 180, ignition: "transistor, one inductive pickup; one double-ended coil",
           blurb: "The later flat twin: the points gave way to a pickup and a transistor unit, and the diagrams switched to upper-case codes." },
         { batt: "RT", "main-fused": "RTWS", "ign-sw": "SW", "ign-fused": "SWGN", "kill-run": "GNSW", "coil-neg": "GN", "trig-a": "BLGN", "trig-b": "GNBL",
@@ -54,11 +54,11 @@ export const demoMakes: MakeSpec[] = [
     ],
   },
   {
-    slug: "ashcombe", name: "Ashcombe & Dunmore", colourSystem: "bs",
+    slug: "ashcombe", name: "Ashcombe & Dunmore", colourSystem: "bs", houseStyle: "bs",
     blurb: "An invented maker using the older British letter code: U blue, N brown, K pink, S slate, LG light green; base letter first, tracer after.",
     families: [
       pointsTwin(
-        { slug: "sovereign-650", name: "Sovereign 650", modelRange: "Sovereign 650, Sovereign 650 Sports", yearFrom: 1966, yearTo: 1973,
+        { slug: "sovereign-650", name: "Sovereign 650", modelRange: "Sovereign 650, Sovereign 650 Sports", yearFrom: 1966, yearTo: 1973, systemVoltage: 12, earth: "negative",
           engine: "parallel twin, air-cooled, OHV, 360° crank", displacementCc: 649, cylinders: 2, firingOrder: "1-2", crankDeg: 360,
           ignition: "contact breaker (points), two sets; two coils",
           blurb: "A kick-start 650 twin with a 12 V conversion-era loom: two sets of points, two coils, a single-phase alternator and a rectifier." },
@@ -67,7 +67,7 @@ export const demoMakes: MakeSpec[] = [
         { blade: "bullet, 4.7 mm" },
       ),
       pointsTwin(
-        { slug: "marquis-500", name: "Marquis 500", modelRange: "Marquis 500, Marquis 500 Trail", yearFrom: 1969, yearTo: 1976,
+        { slug: "marquis-500", name: "Marquis 500", modelRange: "Marquis 500, Marquis 500 Trail", yearFrom: 1969, yearTo: 1976, systemVoltage: 12, earth: "negative",
           engine: "parallel twin, air-cooled, OHV, 180° crank", displacementCc: 497, cylinders: 2, firingOrder: "1-2", crankDeg: 180,
           ignition: "contact breaker (points), two sets; two coils (one per cylinder)",
           blurb: "The smaller twin with the 180° crank: its cylinders never reach top dead centre together, so each has its own coil and points." },

@@ -1,7 +1,9 @@
 /** The compact form the demo families are written in; `build.ts` expands it into loom-graph rows. */
 import type { Latch } from "../../../app/domain/connector-face.ts";
+import type { LinkParams } from "../../../app/domain/electrics.ts";
 
-export type SwitchId = "main" | "kill" | "start" | "lights" | "brake";
+/** Switch ids shared by every family (app/domain/loom-graph.ts SWITCH_POSITIONS); "engine" and "points" are the engine's state. */
+export type SwitchId = "main" | "kill" | "start" | "lights" | "brake" | "beam" | "indicators" | "horn" | "gear" | "engine" | "points";
 export type LinkKind =
   | "contact" // a switch contact: conducts only in the given positions
   | "fuse"
@@ -10,7 +12,7 @@ export type LinkKind =
   | "load" // electronics, a motor
   | "lamp"
   | "sense" // a high-impedance input (pickup sensing)
-  | "breaker" // contact-breaker points: the walk takes them as closed
+  | "breaker" // contact-breaker points: open or closed with the engine stopped, switching while it turns
   | "source"; // the battery itself
 
 /** A pin reference: "component.terminal" for a bare terminal, "pairKey:cavity" for the component side of a pair. */
@@ -24,6 +26,8 @@ export interface LinkSpec {
   switch?: SwitchId;
   positions?: string[];
   ratingA?: number;
+  /** The electrical model (watts, ohms, amps, role in the engine's states …); omitted: the kind's defaults. */
+  params?: LinkParams;
 }
 
 export interface ComponentSpec {
@@ -32,7 +36,7 @@ export interface ComponentSpec {
   name: string;
   system: string | null;
   location: string;
-  terminals?: { label: string; terminal?: string }[]; // bare terminals (posts, spades, studs)
+  terminals?: { label: string; terminal?: string; fitting?: string }[]; // bare terminals (posts, spades, studs); fitting e.g. "ring M6"
   links?: LinkSpec[];
 }
 
@@ -60,8 +64,25 @@ export interface PairSpec {
   pin1?: string;
   latch: Latch;
   pins: { cavity: string; net: string; terminal?: string }[]; // cavity labels follow the grid order "1".."n"
-  specs?: { name: string; min: number; max: number; unit: string; between: [string, string]; atC?: number; source: string; side?: "owner" | "loom" }[];
+  specs?: SpecSpec[];
   notes?: string;
+}
+
+/** A spec value of a card: measurable under the conditions it states. */
+export interface SpecSpec {
+  name: string;
+  min: number;
+  /** null: no upper limit (an insulation test that must read open). */
+  max: number | null;
+  unit: string;
+  between: [string, string];
+  atC?: number;
+  source: string;
+  /** When and how it can be measured: ignition, engine, what is unplugged, meter range. */
+  conditions?: string;
+  kind?: "resistance" | "insulation" | "regulated-voltage" | "ac-output" | "gap" | "dwell" | "capacitance";
+  material?: "copper" | "carbon" | "other";
+  side?: "owner" | "loom";
 }
 
 export interface CircuitSpec {
@@ -71,7 +92,7 @@ export interface CircuitSpec {
   from: PinRef;
   to: PinRef;
   via: string[]; // "componentKey.linkLabel"
-  switches: Partial<Record<SwitchId, string>>;
+  switches: Partial<Record<SwitchId, string>>; // its working positions, "engine" (and "points") included where it matters
 }
 
 export interface FamilySpec {
@@ -86,6 +107,8 @@ export interface FamilySpec {
   firingOrder: string;
   crankDeg: number | null;
   ignition: string;
+  systemVoltage: 6 | 12;
+  earth: "negative" | "positive";
   blurb: string;
   systems: string[];
   components: ComponentSpec[];
@@ -98,6 +121,8 @@ export interface MakeSpec {
   slug: string;
   name: string;
   colourSystem: "jis" | "din" | "bs" | "en";
+  /** How the make writes colours within its notation (app/domain/colours house styles). */
+  houseStyle: string;
   blurb: string;
   families: FamilySpec[];
 }
