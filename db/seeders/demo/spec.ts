@@ -79,7 +79,7 @@ export interface SpecSpec {
   atC?: number;
   source: string;
   /** When and how it can be measured: ignition, engine, what is unplugged, meter range. */
-  conditions?: string;
+  conditions: string;
   kind?: "resistance" | "insulation" | "regulated-voltage" | "ac-output" | "gap" | "dwell" | "capacitance";
   material?: "copper" | "carbon" | "other";
   side?: "owner" | "loom";
