@@ -105,8 +105,12 @@ type Behaviour =
   | { t: "conductor"; ohms: number }
   | { t: "switching"; ohms: number; duty: number }
   | { t: "resistor"; ohms: number }
-  /** Pushes `amps` through the element from a to b: it leaves the element at b. */
-  | { t: "current"; amps: number }
+  /**
+   * Pushes current through the element from a to b (it leaves the element at b): `amps` short-circuit, with a shunt of
+   * `ohms` inside, so the output delivers its rated current at the battery's voltage and rises to a finite voltage
+   * (not infinity) when nothing takes it.
+   */
+  | { t: "current"; amps: number; ohms: number }
   /** Holds V(a) − V(b) = volts. */
   | { t: "voltage"; volts: number }
   /** An AC winding delivering `amps` (RMS) into the leads it is joined to. */
@@ -167,7 +171,13 @@ export function behaviour(e: Element, state: OperatingState, net: Network, batte
     case "lamp":
       return closedBySwitch ? { t: "resistor", ohms: loadOhms(e, net.systemV, (net.systemV * net.systemV) / 5) } : { t: "open" };
     case "load":
-      if (p.role === "charging-output") return engine === "running" ? { t: "current", amps: p.outputA ?? 0 } : { t: "open" };
+      if (p.role === "charging-output") {
+        if (engine !== "running" || !p.outputA) return { t: "open" };
+        // Norton source: rated output at the battery's voltage, three times the system voltage with nothing connected.
+        const vMax = 3 * net.systemV;
+        const isc = (p.outputA * vMax) / Math.max(1, vMax - batteryV);
+        return { t: "current", amps: isc, ohms: vMax / isc };
+      }
       if (p.role === "exciter") return engine === "running" ? { t: "voltage", volts: batteryV } : { t: "open" };
       return closedBySwitch ? { t: "resistor", ohms: loadOhms(e, net.systemV, net.systemV / 1) } : { t: "open" };
     case "sense":
@@ -313,7 +323,7 @@ function solveTopology(elements: readonly { e: Element; b: Behaviour }[], net: N
   for (const { e, b } of elements) {
     const sa = at(find(e.a)), sb = at(find(e.b));
     if (b.t === "resistor" && sa !== sb) stampG(sa, sb, 1 / b.ohms);
-    if (b.t === "current") { if (sa >= 0) z[sa] -= b.amps; if (sb >= 0) z[sb] += b.amps; }
+    if (b.t === "current") { if (sa >= 0) z[sa] -= b.amps; if (sb >= 0) z[sb] += b.amps; if (sa !== sb) stampG(sa, sb, 1 / b.ohms); }
   }
   sources.forEach(({ e, b }, k) => {
     const row = supers.length + k;
@@ -339,7 +349,7 @@ function solveTopology(elements: readonly { e: Element; b: Behaviour }[], net: N
   for (const { e, b } of elements) {
     let i = 0;
     if (b.t === "resistor") i = (superV(find(e.a)) - superV(find(e.b))) / b.ohms;
-    else if (b.t === "current") i = b.amps;
+    else if (b.t === "current") i = b.amps - (superV(find(e.b)) - superV(find(e.a))) / b.ohms;
     else continue;
     I.set(e.id, i);
     add(e.a, -i); add(e.b, i);

@@ -197,7 +197,8 @@ export interface FrontOptions {
   sigFeed: string;
   /** The net the charge lamp's switched side joins: the regulator's lamp terminal, or the alternator's D+. */
   chargeLampNet: string;
-  /** The charge lamp for a field-excited alternator also excites it: a fixed 2 W lamp either way. */
+  /** Where the charge lamp's circuit ends: the earth post, or (field-excited) the alternator's D+ terminal, since its current goes on through the field. */
+  chargeLampTo?: string;
   watts: { main: number; dip: number; indicator: number; illumination: number; warning: number; highBeam: number; horn: number };
   earth: Earth;
 }
@@ -312,7 +313,7 @@ export function front(o: FrontOptions): Part {
     { slug: "instrument-lamps", name: "Instruments: panel lamps", system: "instruments", from: live, to: earth, via: ["instruments.illumination lamps"], switches: w({ main: "on", lights: "on" }) },
     { slug: "neutral-lamp", name: "Instruments: neutral lamp", system: "instruments", from: live, to: earth, via: ["instruments.neutral lamp"], switches: w({ main: "on", gear: "neutral" }) },
     { slug: "oil-lamp", name: "Instruments: oil-pressure lamp", system: "instruments", from: live, to: earth, via: ["instruments.oil lamp"], switches: w({ main: "on", engine: "stopped" }) },
-    { slug: "charge-lamp", name: "Instruments: charge lamp", system: "instruments", from: live, to: earth, via: ["instruments.charge lamp"], switches: w({ main: "on", engine: "stopped" }) },
+    { slug: "charge-lamp", name: "Instruments: charge lamp", system: "instruments", from: live, to: o.chargeLampTo ?? earth, via: ["instruments.charge lamp"], switches: w({ main: "on", engine: "stopped" }) },
     { slug: "high-beam-lamp", name: "Instruments: high-beam lamp", system: "instruments", from: live, to: earth, via: ["instruments.high-beam lamp"], switches: w({ main: "on", lights: "on", beam: "high" }) },
     { slug: "indicator-lamp", name: "Instruments: indicator lamp", system: "instruments", from: live, to: earth, via: ["instruments.indicator lamp"], switches: w({ main: "on", indicators: "left" }) },
   ];

@@ -318,7 +318,7 @@ export function boxerTwin(
     starter({ housing: `2-way ${o.blade}`, earth: "negative", relayOhms: 4, motorOhms: 0.07, viaKill: true }),
     front({
       v: 12, codes: c, sizes: { lamp: 0.75, small: 0.5 }, blade: o.blade, bullet: o.bullet, headFeed: "head-feed", tailFeed: "tail-feed", sigFeed: "sig-fused",
-      chargeLampNet: "d-plus", earth: "negative",
+      chargeLampNet: "d-plus", chargeLampTo: "alternator:2", earth: "negative",
       watts: { main: 60, dip: 55, indicator: 21, illumination: 6, warning: 3, highBeam: 2, horn: 4 },
     }),
     tailAndBrake({ watts: { tail: 5, brake: 21 }, housing: `3-way ${o.blade}`, latch: "left", switchLocation: "under the gearbox, right side", brakeFeed: "brake-feed", brakeFeedCode: c["brake-feed"], feed: "sig-fused", earth: "negative" }),
