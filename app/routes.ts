@@ -44,6 +44,7 @@ export default [
   route("api/v1/families/:slug/circuits", "routes/api.v1.families.$slug.circuits.ts"),
   route("api/v1/families/:slug/circuits/:circuit/walk", "routes/api.v1.families.$slug.circuits.$circuit.walk.ts"),
   route("api/v1/families/:slug/circuits/:circuit/diagnose", "routes/api.v1.families.$slug.circuits.$circuit.diagnose.ts"),
+  route("api/v1/families/:slug/plan", "routes/api.v1.families.$slug.plan.ts"),
   route("api/v1/search", "routes/api.v1.search.ts"),
   route("api/v1/submissions", "routes/api.v1.submissions.ts"),
   route("api/v1/submissions/:id", "routes/api.v1.submissions.$id.ts"),

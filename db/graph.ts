@@ -22,7 +22,7 @@ export async function loadFamilyGraph(familyId: number, transaction?: Transactio
     // Stranded cable (IEC 60228 class 5 maximum): the drops the walk expects along a wire.
     ...wires.map((w) => ({ id: `w${w.id}`, a: String(w.fromPinId), b: String(w.toPinId), kind: "wire" as const,
       ohms: strandedResistance(w.sizeMm2 && w.sizeMm2 > 0 ? w.sizeMm2 : DEFAULT_SIZE_MM2, w.lengthMm && w.lengthMm > 0 ? w.lengthMm / 1000 : DEFAULT_LENGTH_M) })),
-    ...links.map((l) => ({ id: `l${l.id}`, a: String(l.fromPinId), b: String(l.toPinId), kind: l.kind as EdgeKind, label: l.label, switchId: l.switchId, positions: l.positions, params: l.params })),
+    ...links.map((l) => ({ id: `l${l.id}`, a: String(l.fromPinId), b: String(l.toPinId), kind: l.kind as EdgeKind, label: l.label, switchId: l.switchId, positions: l.positions, params: l.params, ratingA: l.ratingA })),
   ];
   for (const c of connectors) {
     // Each mated pair once: from the half with the smaller id.

@@ -49,6 +49,8 @@ export interface Element extends GraphEdge {
   params?: LinkParams | null;
   /** Resistance in Ω: a wire's conductor (from its size and length), or a load's from its card spec. */
   ohms?: number | null;
+  /** A fuse's rating, A. */
+  ratingA?: number | null;
 }
 
 /** A family's loom as a network. */

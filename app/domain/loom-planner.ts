@@ -1,304 +1,239 @@
-// Loom planner: the cut list of a minimal loom built from a family's circuits. The builder keeps
-// some circuits (ignition, charging, one headlamp …) and gets each wire's run, colour, current, size
-// and the fuses. Pure TypeScript: the planner service feeds it from the database, the printable page
-// renders `PlanResult`, and `cutListCsv` is the download.
+// Loom planner: the cut list of a minimal loom built from a family's circuits. The builder keeps some circuits
+// (ignition, charging, one headlamp …) and gets each wire's run, colour, current, size and the fuses, with the parts to
+// buy. Pure TypeScript: the planner service feeds it the family's network from the database.
 //
-// All the electrical arithmetic is wire-size.ts's (`wireSize`, `conductorResistance`): this module only
-// decides what current, length and drop target each wire gets, and picks sizes from its lists.
+// What a wire carries comes from the loom's electrics (electrics.ts), solved in the bike's worst real states — charging
+// at rpm with the lights on, cranking, the horn pressed — with the dropped circuits' loads taken out. So a stator lead
+// carries the alternator's output, each coil's negative its own coil's current, and only pickups and sensors are signal
+// wires. The drop target holds for each circuit as a whole; conductors are stranded cable (IEC 60228 class 5).
 // Bad input comes back as {ok:false, error:{field, message}} (the API's 400), never as a throw.
 
 import { COLOUR_SYSTEM_IDS, encodeColour, type ColourName, type ColourSystemId } from "./colours";
+import { solve, type Element, type Network, type Solution } from "./electrics";
+import { LoomGraph, RIDING_POSITIONS, resolveSwitches, type SwitchState } from "./loom-graph";
+import { FITTING_SOURCE, parseFitting } from "./terminals";
 import {
-  SHORT_TERM_A_PER_MM2,
-  AMPACITY_A_PER_MM2,
-  AWG_GAUGES,
-  CIRCUIT_KINDS,
-  FUSE_MARGIN,
-  FUSE_RATINGS_A,
-  METRIC_SIZES_MM2,
-  WorkshopInputError,
-  awgAreaMm2,
-  awgLabel,
-  conductorResistance,
-  copperTempFactor,
-  defaultDropPct,
-  wireSize,
-  type CircuitKind,
+  AMPACITY_A_PER_MM2, AWG_GAUGES, CLASS5_WORST_OHM_MM2_PER_KM, FUSE_MARGIN, FUSE_RATINGS_A, METRIC_SIZES_MM2, SHORT_TERM_A_PER_MM2,
+  WorkshopInputError, awgAreaMm2, awgLabel, copperTempFactor, strandedResistance,
 } from "./wire-size";
 
-/** One wire of the family's loom, as the planner service reads it from the database. */
+/** One wire of the family's loom, as the planner service reads it. */
 export interface PlannerWire {
+  /** The wire's element id in the network. */
   id: string;
-  /** Endpoint, ideally "connector:cavity"; the text before the first ":" is taken as the connector (for telling colours apart). */
   from: string;
   to: string;
-  /** The factory's colour code as printed in the family's notation. */
+  /** Fittings at its two ends ("2.8 mm flat-blade", "ring M6", "splice"), null when unknown. */
+  fromFitting: string | null;
+  toFitting: string | null;
+  /** The factory's colour code as printed in the family's notation, and its decoded colours (base first). */
   code: string;
-  /** Decoded factory colour, base first. */
   colours: ColourName[];
   defaultLengthM: number | null;
   factorySizeMm2: number | null;
-  /** Part of the earth return. */
-  earth: boolean;
-  feed: "battery" | "switched" | "signal" | "earth" | "load";
 }
 
-/** One circuit of the family; a solenoid's control side should be its own circuit, or its wires would carry the cranking current. */
+/** One circuit of the family: its load links and the positions it works in. */
 export interface PlannerCircuit {
   slug: string;
   name: string;
-  system: "ignition" | "charging" | "starting" | "lighting" | "signals" | "instruments" | string;
-  /** Nominal current of its load(s), rule of thumb (see nominalLoadA). */
-  loadA: number;
-  /** How loadA was reached, e.g. "60 W headlamp at 12 V ≈ 5 A". */
-  loadBasis: string;
-  /** Ids of the wires current passes in this circuit, supply and return. */
-  wires: string[];
-  /** The factory fuse on its supply path nearest the load, if any. */
-  fuse: { name: string; ratingA: number } | null;
-  /** Every factory fuse on its supply path, battery first (the main fuse feeds every circuit behind it). Defaults to [fuse]. */
-  fusesOnPath?: { name: string; ratingA: number }[];
+  system: string;
+  from: string;
+  to: string;
+  loads: string[];
+  switches: Record<string, string>;
 }
 
-/** What the builder asks for: the family's circuits and wires, the circuits to keep, and how to colour and measure. */
+/** What the builder asks for: the family's network, circuits and wires, the circuits to keep, and how to colour and measure. */
 export interface PlannerInput {
+  network: Network;
   circuits: PlannerCircuit[];
   wires: PlannerWire[];
-  /** Circuit slugs to keep. */
+  /** Readable names of elements (fuses, switch contacts) by element id. */
+  names: Record<string, string>;
+  /** The frame earth point's node, if the loom has one: the earth net is the net joined to it or to the earth post. */
+  frameEarth: string | null;
   keep: string[];
-  /** factory: the family's own colours; simple: Loomlore's minimal scheme (see SIMPLE_SCHEME). */
+  /** factory: the family's own colours; simple: Loomlore's scheme (SIMPLE_SCHEME). */
   scheme: "factory" | "simple";
-  /** How to write colours in the cut list (the family's own for factory). */
+  /** How to write colours (the family's own notation for factory). */
   notation: ColourSystemId;
-  /** Builder-entered run lengths by wire id; they override the family defaults. */
   lengthsM?: Record<string, number>;
-  /** Default 12. */
-  systemV?: number;
-  /** Conductor temperature for sizing, default 20 °C. */
   tempC?: number;
 }
 
-/** One row of the cut list: a wire to cut, colour, size and why. */
+export type WireRole = "power" | "earth" | "signal";
+
+/** One row of the cut list. */
 export interface CutRow {
   wire: string;
   from: string;
   to: string;
+  /** The net it belongs to: wires joined through splices and mated terminals share one. */
+  net: string;
   colour: string;
   colours: ColourName[];
   lengthM: number;
   lengthSource: "builder" | "family default" | "assumed";
+  /** Current in its worst real state (charging at rpm, cranking, lights on), A. */
   currentA: number;
+  /** Worst current outside the moments a button is held (horn, start), A: what heats it steadily. */
+  continuousA: number;
+  /** Worst instant: every switching element closed at once, A. */
+  peakA: number;
+  /** Carries current only while a button is held (starter cable, horn wire). */
+  momentary: boolean;
+  role: WireRole;
   circuits: string[];
-  maxDropPct: number;
   sizeMm2: number;
   awg: number | null;
   dropV: number;
   dropPct: number;
-  decidedBy: "voltage-drop" | "ampacity" | "minimum";
+  decidedBy: "voltage-drop" | "ampacity" | "minimum" | "fuse" | "factory";
+  fittings: [string, string];
   notes: string[];
 }
 
-/** One fuse of the minimal loom: the circuits behind it, its re-checked rating and the wires it protects. */
+/** One fuse of the planned loom. */
 export interface FuseRow {
+  id: string;
+  name: string;
   circuits: string[];
+  factoryA: number;
   ratingA: number;
-  /** Wire ids. */
+  continuousA: number;
+  peakA: number;
+  /** The rating went above the factory's (only with every part behind it checked). */
+  raised: boolean;
+  /** Wire ids it protects. */
   protects: string[];
   basis: string;
+  warnings: string[];
 }
 
-/** The planned loom: cut list, fuses, the circuits left out, totals and every assumption made. */
+export interface CircuitDrop { circuit: string; name: string; dropV: number; budgetV: number; budgetPct: number; basis: string }
+export interface LegendRow { colour: string; colours: ColourName[]; nets: string[]; meaning: string }
+export interface PartRow { kind: "wire" | "fuse" | "terminal" | "splice"; item: string; quantity: number; unit: string; notes: string }
+
+/** The planned loom. */
 export interface PlanResult {
   rows: CutRow[];
   fuses: FuseRow[];
+  circuitDrops: CircuitDrop[];
+  legend: LegendRow[];
+  parts: PartRow[];
   dropped: { slug: string; name: string }[];
   /** byGauge: metres per size, keyed by the size in mm² as a string ("0.5", "1.25"). */
   totals: { wires: number; lengthM: number; byGauge: Record<string, number> };
   assumptions: string[];
+  warnings: string[];
 }
 
-/** Thinnest wire the planner cuts, mm²: below it a crimped wire breaks under vibration (common practice), whatever its current. */
+/** Thinnest wire the planner cuts, mm²: thinner crimped wire breaks under vibration (common practice), whatever its current. */
 export const MIN_PRACTICAL_MM2 = 0.5;
 /** Longest run a builder may enter, m: nothing on a motorcycle is further apart, so more is a typing slip. */
 export const MAX_RUN_M = 10;
 /** Run length taken when neither the builder nor the family gives one, m. */
 export const ASSUMED_RUN_M = 1.0;
-/** A starting circuit drawing at least this much is the starter motor itself (cranking, rule of thumb 100–150 A); nothing else on the loom comes close. */
-export const CRANKING_MIN_A = 50;
-/** Short-term current per mm² (wire-size.ts): what a starter cable may carry for the seconds it cranks. */
-export { SHORT_TERM_A_PER_MM2 };
-/** The nominal voltage nominalLoadA divides by (REFERENCE-FACTS §5: 6 cells ≈ 12 V). */
-export const NOMINAL_V = 12;
+/** Extra wire bought for stripping, routing and mistakes (common practice). */
+export const CUTTING_ALLOWANCE = 0.1;
+/** A blade fuse holds about 135 % of its rating for minutes before it opens (from memory, the usual blade-fuse curve): a momentary load may reach it. */
+export const FUSE_MOMENTARY_FACTOR = 1.35;
+/** A wire carrying less than this in every state is taken as carrying none, A. */
+const NO_CURRENT_A = 0.05;
 
-// Floating point: 7.5 A / 5 A/mm² must select 1.5 mm², not 2, when the quotient lands a hair above.
-const EPS = 1e-9;
-
-const fmt = (x: number, sig = 3) => String(Number(x.toPrecision(sig)));
-
-const fail = (field: string, message: string) => new WorkshopInputError(field, message);
-
-function smallestMetric(needMm2: number): number | undefined {
-  return METRIC_SIZES_MM2.find((a) => a >= needMm2 * (1 - EPS));
+/** Drop targets for a whole circuit (supply and return wires together), % of the system voltage. */
+export function circuitDropPct(c: { system: string; slug: string; loads: string[] }): { pct: number; basis: string } {
+  if (c.system === "ignition" || c.system === "charging") return { pct: 3, basis: "3 % for ignition and charging (ABYC's figure for critical circuits)" };
+  if (/headlamp/.test(c.slug)) return { pct: 3, basis: "3 % for the headlamp: a lamp at 90 % of its voltage gives only about 70 % of its light (from memory)" };
+  if (c.system === "starting") return { pct: 5, basis: "5 % while cranking: the ignition must still fire on what is left (common practice)" };
+  return { pct: 10, basis: "10 % for the rest (ABYC's figure for non-critical circuits)" };
 }
 
-const AWG_THIN_FIRST = [...AWG_GAUGES].sort((a, b) => b - a);
-function smallestAwg(needMm2: number): number | null {
-  return AWG_THIN_FIRST.find((g) => awgAreaMm2(g) >= needMm2 * (1 - EPS)) ?? null;
-}
-
-// wire-size knows only its own circuit kinds; "instruments" and anything new count as "other" (10 %).
-function kindOf(system: string): CircuitKind {
-  return (CIRCUIT_KINDS as readonly string[]).includes(system) ? (system as CircuitKind) : "other";
-}
-
-const isEarth = (w: PlannerWire) => w.earth === true || w.feed === "earth";
-const isCranking = (c: PlannerCircuit) => c.system === "starting" && c.loadA >= CRANKING_MIN_A;
-
-// ---------------------------------------------------------------------------------------------
-// Sizing
-
-interface Sized {
-  sizeMm2: number;
-  awg: number | null;
-  dropV: number;
-  decidedBy: CutRow["decidedBy"];
-  notes: string[];
-}
-
-function sizeWire(currentA: number, lengthM: number, systemV: number, maxDropPct: number, tempC: number, cranking: boolean): Sized {
-  if (currentA <= 0) {
-    // wireSize needs a current; a pickup's few mA drop nothing worth computing.
-    return {
-      sizeMm2: MIN_PRACTICAL_MM2,
-      awg: smallestAwg(MIN_PRACTICAL_MM2),
-      dropV: 0,
-      decidedBy: "minimum",
-      notes: [`Signal wire (no load current): the ${MIN_PRACTICAL_MM2} mm² minimum for mechanical strength (common practice).`],
-    };
-  }
-  // roundTrip false: each wire is a row of its own and its return is another row (or the frame),
-  // so its own one-way length is the whole of its conductor.
-  const ws = wireSize({ currentA, lengthM, systemV, maxDropPct, roundTrip: false, tempC });
-  const notes: string[] = [];
-  let sizeMm2: number;
-  let awg: number | null;
-  let decidedBy: CutRow["decidedBy"];
-  if (cranking) {
-    // Cranking lasts seconds: the continuous 5 A/mm² rule would ask for 35 mm² at 150 A, so the cable is
-    // sized for the drop while cranking, with the short-term 10 A/mm² rule of thumb as the floor.
-    const need = Math.max(ws.minAreaMm2, currentA / SHORT_TERM_A_PER_MM2);
-    const size = smallestMetric(need);
-    if (size === undefined) throw fail("currentA", `the starter cable needs ${fmt(need)} mm², more than the largest size offered`);
-    sizeMm2 = size;
-    awg = smallestAwg(need);
-    decidedBy = size > smallestMetric(ws.minAreaMm2)! ? "ampacity" : "voltage-drop";
-    notes.push(
-      `Starter cable: sized for the voltage drop while cranking (${fmt(currentA)} A, rule of thumb) and the short-term ` +
-        `${SHORT_TERM_A_PER_MM2} A/mm² rule of thumb, not for continuous ampacity; starter cables are usually unfused.`,
-    );
-  } else {
-    sizeMm2 = ws.metric.sizeMm2;
-    awg = ws.awg.gauge;
-    decidedBy = ws.metric.decidedBy;
-  }
-  if (sizeMm2 < MIN_PRACTICAL_MM2 - EPS) {
-    sizeMm2 = MIN_PRACTICAL_MM2;
-    decidedBy = "minimum";
-    notes.push(`Raised to the ${MIN_PRACTICAL_MM2} mm² minimum for mechanical strength (common practice); ${fmt(ws.metric.sizeMm2)} mm² would carry it.`);
-  }
-  if (awg === null || awgAreaMm2(awg) < MIN_PRACTICAL_MM2 - EPS) awg = smallestAwg(MIN_PRACTICAL_MM2);
-  if (decidedBy === "ampacity" && !cranking) notes.push(`Decided by the ampacity rule of thumb (${AMPACITY_A_PER_MM2} A/mm² continuous), not a standard.`);
-  const dropV = sizeMm2 === ws.metric.sizeMm2 ? ws.metric.dropV : currentA * conductorResistance(sizeMm2, lengthM, tempC);
-  return { sizeMm2, awg, dropV, decidedBy, notes };
-}
-
-// ---------------------------------------------------------------------------------------------
-// Colours
-
-/** Loomlore's simple scheme, for the page and the assumptions: one line per rule, applied top to bottom. */
+/** Loomlore's simple scheme, for the page and the assumptions: one line per rule. */
 export const SIMPLE_SCHEME: readonly string[] = Object.freeze([
-  "earth: black (every earth, even several in one connector: they are one node)",
-  "pickup and other signal wires: violet, then grey",
-  "charging: red/yellow (stator and other generator leads yellow)",
-  "battery feed (unswitched): red",
-  "ignition: switched feed white, coil negatives white/black",
-  "starting: yellow/red",
-  "lighting: headlamp blue, tail brown, brake green, other lighting feeds red/white",
-  "indicators (signals): orange; instruments: pink; other systems: brown/white",
-  "a switched feed shared by several systems: red/white",
-  "where two wires in one connector would look alike, a tracer is added (green, blue, violet …)",
+  "earth: black, and only earth (every wire joined to the frame or the earth post through no switch, fuse or load)",
+  "battery feed, unswitched (fused or not): red",
+  "switched feeds shared by several systems, and the ignition's own feeds: white",
+  "coil negatives and the points' leads: green",
+  "pickups and other signal wires: grey",
+  "charging (stator leads, field, D+): yellow",
+  "starting (button to relay, relay to motor): brown",
+  "lighting: blue; indicators and horn: orange; instruments and warning lamps: violet; anything else: pink",
+  "each net has its own colour: the first of a group plain, the others with a tracer (green and yellow never together: IEC 60757 keeps GNYE for the protective earth)",
 ]);
 
-// Tracers added to keep wires apart; green and yellow never meet (IEC 60757 keeps GNYE for the protective earth).
-const TRACER_CYCLE: readonly ColourName[] = ["green", "blue", "violet", "orange", "grey", "pink", "brown", "white", "black", "yellow", "red"];
+const GROUP_BASE: Record<string, ColourName> = {
+  feed: "red", switched: "white", negative: "green", signal: "grey", charging: "yellow", starting: "brown", lighting: "blue",
+  signals: "orange", instruments: "violet", other: "pink",
+};
+const TRACERS: readonly ColourName[] = ["white", "black", "red", "blue", "green", "yellow", "orange", "violet", "grey", "brown", "pink"];
 
-// Lamps recognised by name; brake first, because a wire that touches a brake switch is the brake wire.
-const LAMPS: readonly (readonly [RegExp, ColourName[]])[] = [
-  [/brake|stop/i, ["green"]],
-  [/tail|rear|number|plate|park|position/i, ["brown"]],
-  [/head|beam|\bdip|\bhigh\b|\blow\b/i, ["blue"]],
+const EPS = 1e-9;
+const fmt = (x: number, sig = 3) => String(Number(x.toPrecision(sig)));
+const fail = (field: string, message: string) => new WorkshopInputError(field, message);
+const round3 = (x: number) => Math.round(x * 1000) / 1000;
+const smallestMetric = (need: number) => METRIC_SIZES_MM2.find((a) => a >= need * (1 - EPS));
+const AWG_THIN_FIRST = [...AWG_GAUGES].sort((a, b) => b - a);
+const smallestAwg = (need: number) => AWG_THIN_FIRST.find((g) => awgAreaMm2(g) >= need * (1 - EPS)) ?? null;
+
+// ---------------------------------------------------------------------------------------------
+// The bike's worst real states
+
+const CONTINUOUS_STATES: readonly Partial<SwitchState>[] = [
+  { engine: "running", lights: "on", beam: "high", brake: "pressed", indicators: "left", gear: "in-gear" },
+  { engine: "running", lights: "on", beam: "low", brake: "pressed", indicators: "right", gear: "in-gear" },
+  { engine: "stopped", lights: "on", beam: "high", brake: "pressed", indicators: "left", gear: "neutral", points: "closed" },
+  { engine: "stopped", lights: "on", beam: "low", brake: "pressed", indicators: "right", gear: "neutral", points: "closed" },
+  { engine: "stopped", main: "park", lights: "off" },
+];
+const MOMENTARY_STATES: readonly Partial<SwitchState>[] = [
+  { engine: "cranking", start: "pressed", lights: "on", beam: "low", gear: "neutral" },
+  { engine: "running", horn: "pressed", lights: "on", beam: "high", brake: "pressed", indicators: "left", gear: "in-gear" },
 ];
 
-function lampColour(text: string): ColourName[] | null {
-  for (const [re, colours] of LAMPS) if (re.test(text)) return [...colours];
-  return null;
+interface Currents {
+  continuous: number;
+  momentary: number;
+  peak: number;
+  /** Per state, in CONTINUOUS_STATES then MOMENTARY_STATES order: average current, A. */
+  byState: number[];
 }
 
-function lampColours(text: string): Set<string> {
-  return new Set(LAMPS.filter(([re]) => re.test(text)).map(([, c]) => c.join("/")));
-}
-
-/** The colours the simple scheme would give a wire, most wanted first (before keeping connectors apart). */
-function schemeCandidates(w: PlannerWire, cs: PlannerCircuit[]): ColourName[][] {
-  if (isEarth(w)) return [["black"]];
-  if (w.feed === "signal") return [["violet"], ["grey"]];
-  const systems = new Set(cs.map((c) => c.system));
-  const only = systems.size === 1 ? [...systems][0] : null;
-  if (only === "charging") return w.feed === "load" ? [["yellow"]] : [["red", "yellow"]];
-  if (w.feed === "battery") return [["red"]];
-  switch (only) {
-    case "ignition":
-      return w.feed === "load" ? [["white", "black"]] : [["white"]];
-    case "starting":
-      return [["yellow", "red"]];
-    case "lighting": {
-      const own = lampColour(`${w.from} ${w.to}`);
-      if (own) return [own];
-      const kinds = lampColours(cs.map((c) => `${c.slug} ${c.name}`).join(" "));
-      if (kinds.size === 1) return [[...kinds][0].split("/") as ColourName[]];
-      return [["red", "white"]];
+function worstCurrents(net: Network, ids: Iterable<string>, without: ReadonlySet<string>): Map<string, Currents> {
+  const out = new Map<string, Currents>();
+  const list = [...ids];
+  for (const id of list) out.set(id, { continuous: 0, momentary: 0, peak: 0, byState: [] });
+  const take = (sol: Solution, momentary: boolean) => {
+    for (const id of list) {
+      const c = out.get(id)!;
+      const avg = Math.max(Math.abs(sol.current(id)), sol.ac(id));
+      const peak = Math.max(Math.abs(sol.peak(id)), sol.ac(id));
+      if (momentary) c.momentary = Math.max(c.momentary, avg);
+      else c.continuous = Math.max(c.continuous, avg);
+      c.peak = Math.max(c.peak, peak);
+      c.byState.push(avg);
     }
-    case "signals":
-      return [["orange"]];
-    case "instruments":
-      return [["pink"]];
-    case null:
-      return [["red", "white"]];
-    default:
-      return [["brown", "white"]];
-  }
-}
-
-function variants(candidates: ColourName[][]): ColourName[][] {
-  const out = [...candidates];
-  const ok = (v: ColourName[]) => new Set(v).size === v.length && !(v.includes("green") && v.includes("yellow"));
-  const base = candidates[0];
-  for (const t of TRACER_CYCLE) if (base.length < 3 && ok([...base, t])) out.push([...base, t]);
-  if (base.length === 1) for (const t1 of TRACER_CYCLE) for (const t2 of TRACER_CYCLE) if (ok([...base, t1, t2])) out.push([...base, t1, t2]);
+  };
+  for (const s of CONTINUOUS_STATES) take(solve(net, { ...RIDING_POSITIONS, ...s } as SwitchState, { without }), false);
+  for (const s of MOMENTARY_STATES) take(solve(net, { ...RIDING_POSITIONS, ...s } as SwitchState, { without }), true);
   return out;
 }
 
-/** "main-6p:3" → "main-6p": the part before the first ":" names the connector (or the component). */
-function connectorOf(endpoint: string): string {
-  return String(endpoint).split(":")[0].trim().toLowerCase();
+// The whole loom's currents depend only on the network: solved once per network (the service keeps one per family).
+const fullCache = new WeakMap<Network, Map<string, Currents>>();
+function fullLoomCurrents(net: Network, ids: string[]): Map<string, Currents> {
+  let m = fullCache.get(net);
+  if (!m) fullCache.set(net, (m = worstCurrents(net, ids, new Set())));
+  return m;
 }
 
-function writeColour(colours: ColourName[], notation: ColourSystemId): { text: string; note: string | null } {
-  if (colours.length === 0) return { text: "", note: "Factory colour not recorded." };
-  const written = encodeColour(colours[0], colours.slice(1), notation);
-  if (written !== null) return { text: written, note: null };
-  const en = encodeColour(colours[0], colours.slice(1), "en");
-  return { text: en ?? colours.join("/"), note: `No ${notation} code for ${colours.join("/")}: written in English.` };
+/** The states whose currents a circuit's drop is judged in: cranking for the starter, the horn pressed for the horn, the continuous ones for the rest. */
+function statesOf(c: PlannerCircuit): number[] {
+  const n = CONTINUOUS_STATES.length;
+  if (c.system === "starting") return [n];
+  if (/horn/.test(c.slug)) return [n + 1];
+  return CONTINUOUS_STATES.map((_, i) => i);
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -311,17 +246,13 @@ function checkInput(input: PlannerInput) {
   if (!Array.isArray(input.keep) || input.keep.length === 0) throw fail("keep", "choose at least one circuit to keep");
   const slugs = new Set(input.circuits.map((c) => c.slug));
   for (const slug of input.keep) {
-    if (typeof slug !== "string" || !slugs.has(slug)) {
-      throw fail("keep", `"${String(slug)}" is not a circuit of this family; use one of ${[...slugs].join(", ")}`);
-    }
+    if (typeof slug !== "string" || !slugs.has(slug)) throw fail("keep", `"${String(slug)}" is not a circuit of this family; use one of ${[...slugs].join(", ")}`);
   }
   if (input.scheme !== "factory" && input.scheme !== "simple") throw fail("scheme", 'use "factory" or "simple"');
   if (!COLOUR_SYSTEM_IDS.includes(input.notation)) throw fail("notation", `use one of ${COLOUR_SYSTEM_IDS.join(", ")}`);
-  const systemV = input.systemV ?? 12;
-  if (typeof systemV !== "number" || !Number.isFinite(systemV) || systemV <= 0) throw fail("systemV", "must be a positive number of volts");
   const tempC = input.tempC ?? 20;
   try {
-    copperTempFactor(tempC); // wire-size's own range check
+    copperTempFactor(tempC);
   } catch (e) {
     if (e instanceof WorkshopInputError) throw fail("tempC", e.message.replace(/^tempC: /, ""));
     throw e;
@@ -335,19 +266,8 @@ function checkInput(input: PlannerInput) {
     if (typeof v !== "number" || !Number.isFinite(v)) throw fail(field, "must be a number of metres");
     if (v <= 0 || v > MAX_RUN_M) throw fail(field, `must be more than 0 and at most ${MAX_RUN_M} m, got ${v}`);
   }
-  const keep = new Set(input.keep);
-  for (const c of input.circuits) {
-    if (!keep.has(c.slug)) continue; // a dropped circuit's data cannot spoil the plan
-    if (typeof c.loadA !== "number" || !Number.isFinite(c.loadA) || c.loadA < 0) throw fail(`circuits.${c.slug}.loadA`, "must be a current of 0 A or more");
-    if (!Array.isArray(c.wires)) throw fail(`circuits.${c.slug}.wires`, "must be a list of wire ids");
-    const missing = c.wires.find((id) => !wireIds.has(id));
-    if (missing !== undefined) throw fail(`circuits.${c.slug}.wires`, `wire "${missing}" is not in the family's wires`);
-  }
-  return { systemV, tempC, lengths };
+  return { tempC, lengths };
 }
-
-// ---------------------------------------------------------------------------------------------
-// Planning
 
 /** Build the cut list. Returns {ok:false,error:{field,message}} for unknown circuits, empty keep, bad lengths. */
 export function planLoom(input: PlannerInput): { ok: true; plan: PlanResult } | { ok: false; error: { field: string; message: string } } {
@@ -362,267 +282,425 @@ export function planLoom(input: PlannerInput): { ok: true; plan: PlanResult } | 
   }
 }
 
+// ---------------------------------------------------------------------------------------------
+// Topology: each circuit's wires (supply or return side), the fuses and contacts on its supply path, and the nets
+
+interface Topology {
+  /** Per circuit: wires on the supply side (battery first) and on the return side, fuses and contacts on its supply path. */
+  circuits: Map<string, { supply: string[]; ret: string[]; fuses: string[]; contacts: string[]; supplyOrder: string[] }>;
+  netOf: Map<string, string>;
+  earthNets: Set<string>;
+  senseNodes: Set<string>;
+}
+
+function topology(input: PlannerInput): Topology {
+  const graph = new LoomGraph([...input.network.elements]);
+  const byId = new Map(input.network.elements.map((e) => [e.id, e]));
+  const circuits: Topology["circuits"] = new Map();
+  for (const c of input.circuits) {
+    const sw = resolveSwitches(c.switches);
+    const state = sw.ok ? sw.value : RIDING_POSITIONS;
+    const entry = { supply: [] as string[], ret: [] as string[], fuses: [] as string[], contacts: [] as string[], supplyOrder: [] as string[] };
+    for (const id of c.loads) {
+      const load = byId.get(id);
+      if (!load) continue;
+      const loop = graph.loop(c.from, load, c.to, state);
+      if (!loop) continue;
+      for (const e of loop.supply.edges) {
+        if (!entry.supplyOrder.includes(e.id)) entry.supplyOrder.push(e.id);
+        if (e.kind === "wire" && !entry.supply.includes(e.id)) entry.supply.push(e.id);
+        if (e.kind === "fuse" && !entry.fuses.includes(e.id)) entry.fuses.push(e.id);
+        if (e.kind === "contact" && !entry.contacts.includes(e.id)) entry.contacts.push(e.id);
+      }
+      for (const e of loop.ret.edges) if (e.kind === "wire" && !entry.ret.includes(e.id)) entry.ret.push(e.id);
+    }
+    circuits.set(c.slug, entry);
+  }
+  // Nets: pins joined by wires and mated terminals (and so through splices), never through a switch, fuse or load.
+  const parent = new Map<string, string>();
+  const find = (n: string): string => { let r = n; while (parent.has(r) && parent.get(r) !== r) r = parent.get(r)!; return r; };
+  const union = (a: string, b: string) => { for (const n of [a, b]) if (!parent.has(n)) parent.set(n, n); const ra = find(a), rb = find(b); if (ra !== rb) parent.set(ra, rb); };
+  for (const e of input.network.elements) if (e.kind === "wire" || e.kind === "mate") union(e.a, e.b);
+  const netOf = new Map<string, string>();
+  for (const w of input.wires) { const e = byId.get(w.id); if (e) netOf.set(w.id, find(e.a)); }
+  const earthPost = input.network.earth === "positive" ? input.network.plus : input.network.minus;
+  const earthNets = new Set([find(earthPost), ...(input.frameEarth ? [find(input.frameEarth)] : [])]);
+  const senseNodes = new Set<string>();
+  for (const e of input.network.elements) if (e.kind === "sense" || (e.kind === "winding" && /pickup|pulser/i.test(`${e.label ?? ""}`))) { senseNodes.add(find(e.a)); senseNodes.add(find(e.b)); }
+  return { circuits, netOf, earthNets, senseNodes };
+}
+
+// ---------------------------------------------------------------------------------------------
+// Planning
+
 function buildPlan(input: PlannerInput): PlanResult {
-  const { systemV, tempC, lengths } = checkInput(input);
+  const { tempC, lengths } = checkInput(input);
+  const systemV = input.network.systemV;
   const keep = new Set(input.keep);
   const kept = input.circuits.filter((c) => keep.has(c.slug));
   const dropped = input.circuits.filter((c) => !keep.has(c.slug)).map(({ slug, name }) => ({ slug, name }));
+  const keptLoads = new Set(kept.flatMap((c) => c.loads));
+  const without = new Set(input.circuits.flatMap((c) => c.loads).filter((id) => !keptLoads.has(id)));
+  const topo = topology(input);
+  const warnings: string[] = [];
 
-  // Kirchhoff's current law: a wire shared by several kept circuits carries all their currents.
-  const byWire = new Map<string, PlannerCircuit[]>();
+  // The wires the kept circuits pass, each with the circuits that use it.
+  const rowCircuits = new Map<string, string[]>();
   for (const c of kept) {
-    for (const id of new Set(c.wires)) {
-      const list = byWire.get(id);
-      if (list) list.push(c);
-      else byWire.set(id, [c]);
-    }
+    const t = topo.circuits.get(c.slug)!;
+    for (const id of [...t.supply, ...t.ret]) rowCircuits.set(id, [...(rowCircuits.get(id) ?? []), c.slug]);
   }
+  const wires = input.wires.filter((w) => rowCircuits.has(w.id));
+  const fuseIds = new Set(kept.flatMap((c) => topo.circuits.get(c.slug)!.fuses));
+  const contactIds = new Set(kept.flatMap((c) => topo.circuits.get(c.slug)!.contacts));
+  const cur = worstCurrents(input.network, [...wires.map((w) => w.id), ...fuseIds, ...contactIds], without);
+  const full = fullLoomCurrents(input.network, input.wires.map((w) => w.id));
 
-  const rows: CutRow[] = [];
-  const rowCircuits = new Map<string, PlannerCircuit[]>();
+  // Lengths and roles.
   let assumed = 0;
-  for (const w of input.wires) {
-    const cs = byWire.get(w.id);
-    if (!cs || rowCircuits.has(w.id)) continue;
-    rowCircuits.set(w.id, cs);
-    const currentA = cs.reduce((sum, c) => sum + c.loadA, 0);
-    const maxDropPct = Math.min(...cs.map((c) => defaultDropPct(kindOf(c.system))));
-    const notes: string[] = [];
+  const rows: CutRow[] = wires.map((w) => {
+    const c = cur.get(w.id)!;
+    const net = topo.netOf.get(w.id) ?? w.id;
+    const currentA = Math.max(c.continuous, c.momentary);
+    const earth = topo.earthNets.has(net);
+    const role: WireRole = earth ? "earth" : currentA < NO_CURRENT_A && c.peak < NO_CURRENT_A && topo.senseNodes.has(net) ? "signal" : "power";
     let lengthM: number;
     let lengthSource: CutRow["lengthSource"];
-    if (lengths[w.id] !== undefined) {
-      lengthM = lengths[w.id];
-      lengthSource = "builder";
-    } else if (typeof w.defaultLengthM === "number" && Number.isFinite(w.defaultLengthM) && w.defaultLengthM > 0) {
-      lengthM = w.defaultLengthM;
-      lengthSource = "family default";
-    } else {
-      lengthM = ASSUMED_RUN_M;
-      lengthSource = "assumed";
-      assumed++;
-      notes.push(`Length assumed ${ASSUMED_RUN_M} m: measure the run and enter it.`);
+    const notes: string[] = [];
+    if (lengths[w.id] !== undefined) { lengthM = lengths[w.id]; lengthSource = "builder"; }
+    else if (typeof w.defaultLengthM === "number" && Number.isFinite(w.defaultLengthM) && w.defaultLengthM > 0) { lengthM = w.defaultLengthM; lengthSource = "family default"; }
+    else { lengthM = ASSUMED_RUN_M; lengthSource = "assumed"; assumed++; notes.push(`Length assumed ${ASSUMED_RUN_M} m: measure the run and enter it.`); }
+    if (role === "power" && currentA < NO_CURRENT_A) notes.push("Carries no current in any state the planner checks: check what it feeds before you leave it out or cut it thin.");
+    return {
+      wire: w.id, from: w.from, to: w.to, net, colour: "", colours: [], lengthM, lengthSource, currentA, continuousA: c.continuous, peakA: Math.max(c.peak, currentA),
+      momentary: c.continuous < NO_CURRENT_A && c.momentary >= NO_CURRENT_A, role, circuits: rowCircuits.get(w.id)!, sizeMm2: 0, awg: null, dropV: 0, dropPct: 0,
+      decidedBy: "minimum", fittings: [parseFitting(w.fromFitting).words, parseFitting(w.toFitting).words], notes,
+    };
+  });
+  const rowById = new Map(rows.map((r) => [r.wire, r]));
+  const wireById = new Map(input.wires.map((w) => [w.id, w]));
+
+  // Sizing. A circuit's drop budget is shared among its wires so that the copper is least: area ∝ √I (Lagrange), every
+  // wire at least what its own share needs; rounding up to standard sizes only lowers the drops.
+  const k = (CLASS5_WORST_OHM_MM2_PER_KM / 1000) * copperTempFactor(tempC); // Ω·mm²/m, class 5, at temperature
+  const needDrop = new Map<string, number>();
+  const budgets = new Map<string, { pct: number; basis: string }>();
+  const circuitAmps = new Map<string, (id: string) => number>();
+  for (const c of kept) {
+    const t = topo.circuits.get(c.slug)!;
+    // In the states this circuit works in: the starter's wires while cranking, the rest with everything continuous on.
+    const states = statesOf(c);
+    const amps = (id: string) => Math.max(...states.map((i) => cur.get(id)!.byState[i] ?? 0));
+    const ws = [...t.supply, ...t.ret].map((id) => rowById.get(id)!).filter((r) => r.role !== "signal" && amps(r.wire) >= NO_CURRENT_A);
+    const budget = circuitDropPct(c);
+    budgets.set(c.slug, budget);
+    circuitAmps.set(c.slug, amps);
+    const B = (systemV * budget.pct) / 100;
+    const S = ws.reduce((s, r) => s + r.lengthM * Math.sqrt(amps(r.wire)), 0);
+    for (const r of ws) needDrop.set(r.wire, Math.max(needDrop.get(r.wire) ?? 0, (k * Math.sqrt(amps(r.wire)) * S) / B));
+  }
+  for (const r of rows) {
+    if (r.role === "signal") {
+      r.sizeMm2 = MIN_PRACTICAL_MM2; r.awg = smallestAwg(MIN_PRACTICAL_MM2); r.decidedBy = "minimum";
+      r.notes.push(`Signal wire (no load current in any state): the ${MIN_PRACTICAL_MM2} mm² minimum for mechanical strength (common practice).`);
+      continue;
     }
-    let sized: Sized;
-    try {
-      sized = sizeWire(currentA, lengthM, systemV, maxDropPct, tempC, cs.some(isCranking));
-    } catch (e) {
-      if (!(e instanceof WorkshopInputError)) throw e;
-      // Name what the builder can change: this run's length, or the circuits that load it.
-      const field = e.field === "lengthM" ? `lengthsM.${w.id}` : "keep";
-      throw fail(field, `wire ${w.id} (${w.from} → ${w.to}): ${e.message.replace(/^\w+: /, "")}`);
+    const drop = needDrop.get(r.wire) ?? 0;
+    const amp = r.momentary ? r.currentA / SHORT_TERM_A_PER_MM2 : r.continuousA / AMPACITY_A_PER_MM2;
+    const need = Math.max(drop, amp, MIN_PRACTICAL_MM2);
+    const size = smallestMetric(need);
+    if (size === undefined) throw fail("keep", `wire ${r.wire} (${r.from} → ${r.to}) needs ${fmt(need)} mm², more than the largest size offered: split the load or shorten the run`);
+    r.sizeMm2 = size;
+    r.awg = smallestAwg(need);
+    r.decidedBy = need === MIN_PRACTICAL_MM2 && drop < MIN_PRACTICAL_MM2 && amp < MIN_PRACTICAL_MM2 ? "minimum" : amp >= drop ? "ampacity" : "voltage-drop";
+    if (r.decidedBy === "ampacity") r.notes.push(r.momentary
+      ? `Carries ${fmt(r.currentA)} A only while a button is held: sized by the short-term ${SHORT_TERM_A_PER_MM2} A/mm² rule of thumb.`
+      : `Decided by the ampacity rule of thumb (${AMPACITY_A_PER_MM2} A/mm² continuous, German automotive practice), not a standard.`);
+    if (r.decidedBy === "minimum") r.notes.push(`Raised to the ${MIN_PRACTICAL_MM2} mm² minimum for mechanical strength (common practice).`);
+    const w = wireById.get(r.wire)!;
+    const fullA = full.get(r.wire)!;
+    if (w.factorySizeMm2 !== null && w.factorySizeMm2 > r.sizeMm2 + EPS) {
+      if (Math.max(fullA.continuous, fullA.momentary) <= r.currentA * 1.02) {
+        // Dropping circuits took nothing off this wire: never cut it thinner than the factory did.
+        r.sizeMm2 = w.factorySizeMm2;
+        r.awg = smallestAwg(w.factorySizeMm2);
+        r.decidedBy = "factory";
+        r.notes.push(`Kept at the factory's ${w.factorySizeMm2} mm²: it carries as much as it did in the full loom.`);
+      } else {
+        r.notes.push(`Thinner than the factory's ${w.factorySizeMm2} mm²: with the dropped circuits gone it carries ${fmt(r.currentA)} A instead of ${fmt(Math.max(fullA.continuous, fullA.momentary))} A.`);
+      }
     }
-    notes.push(...sized.notes);
-    if (w.factorySizeMm2 !== null && w.factorySizeMm2 > sized.sizeMm2 + EPS) {
-      notes.push(`Thinner than the factory's ${w.factorySizeMm2} mm²: sized for the kept circuits only.`);
+    if (r.role === "power" && /stator|phase|alternator/i.test(`${r.from} ${r.to}`)) r.notes.push(`Stator lead: carries the alternator's output (AC) at rpm, ${fmt(r.currentA)} A (common practice).`);
+  }
+  const setDrop = (r: CutRow) => {
+    r.dropV = r.currentA > 0 ? r.currentA * strandedResistance(r.sizeMm2, r.lengthM, tempC) : 0;
+    r.dropPct = (r.dropV / systemV) * 100;
+  };
+
+  // Fuses, after the sizes: a fuse must not exceed what the wires it protects stand short-term.
+  const fuses = planFuses(input, kept, topo, rows, rowById, cur, warnings);
+  rows.forEach(setDrop);
+
+  // Each kept circuit's total drop against its target (what the budget promised).
+  const circuitDrops: CircuitDrop[] = kept.map((c) => {
+    const t = topo.circuits.get(c.slug)!;
+    const amps = circuitAmps.get(c.slug)!;
+    const dropV = [...t.supply, ...t.ret].reduce((s, id) => { const r = rowById.get(id); return s + (r ? amps(id) * strandedResistance(r.sizeMm2, r.lengthM, tempC) : 0); }, 0);
+    const b = budgets.get(c.slug)!;
+    return { circuit: c.slug, name: c.name, dropV: round3(dropV), budgetV: round3((systemV * b.pct) / 100), budgetPct: b.pct, basis: b.basis };
+  });
+  for (const d of circuitDrops) if (d.dropV > d.budgetV + 1e-6) warnings.push(`${d.name}: its wires drop ${d.dropV} V, over its ${d.budgetV} V target.`);
+
+  // Unfused live wires: what protects them is the builder's routing.
+  for (const r of rows) {
+    if (r.role !== "power" || fuses.some((f) => f.protects.includes(r.wire))) continue;
+    const supplySide = kept.some((c) => topo.circuits.get(c.slug)!.supply.includes(r.wire));
+    if (supplySide) r.notes.push("Unfused: keep it short, sleeved and clear of sharp edges; fit the main fuse as close to the battery as you can.");
+  }
+  // Every wire's terminals against what it carries.
+  for (const r of rows) {
+    for (const [i, f] of [wireById.get(r.wire)!.fromFitting, wireById.get(r.wire)!.toFitting].entries()) {
+      const fit = parseFitting(f);
+      if (fit.ratingA !== null && r.continuousA > fit.ratingA) r.notes.push(`Its ${i === 0 ? "first" : "second"} end's ${fit.words} terminal is rated about ${fit.ratingA} A, less than the ${fmt(r.continuousA)} A it carries: use a larger terminal (${FITTING_SOURCE}).`);
     }
-    rows.push({
-      wire: w.id,
-      from: w.from,
-      to: w.to,
-      colour: "",
-      colours: [],
-      lengthM,
-      lengthSource,
-      currentA,
-      circuits: cs.map((c) => c.slug),
-      maxDropPct,
-      sizeMm2: sized.sizeMm2,
-      awg: sized.awg,
-      dropV: sized.dropV,
-      dropPct: (sized.dropV / systemV) * 100,
-      decidedBy: sized.decidedBy,
-      notes,
-    });
   }
 
-  const wiresById = new Map(input.wires.map((w) => [w.id, w]));
-  colourRows(rows, wiresById, rowCircuits, input.scheme, input.notation);
-  const fuses = planFuses(input.circuits, kept, rows, wiresById, tempC, systemV);
-
+  const legend = colourRows(rows, topo, input, kept);
   const byGauge: Record<string, number> = {};
   for (const r of [...rows].sort((a, b) => a.sizeMm2 - b.sizeMm2)) byGauge[String(r.sizeMm2)] = round3((byGauge[String(r.sizeMm2)] ?? 0) + r.lengthM);
   const totals = { wires: rows.length, lengthM: round3(rows.reduce((s, r) => s + r.lengthM, 0)), byGauge };
-
+  const parts = partsList(rows, fuses, input);
   const assumptions = [
-    `Conductor temperature ${fmt(tempC)} °C${input.tempC === undefined ? " (the default; copper's resistance rises 0.393 %/°C, so choose a higher temperature for a hot run)" : ""}; system ${fmt(systemV)} V${input.systemV === undefined ? " (the default)" : ""}.`,
-    "Each wire is sized on its own length: its return is another row of the list or the frame. The drop target applies to each wire; a circuit's total drop is the sum of its wires' drops.",
-    "Drop targets: 3 % for ignition and charging, 10 % for the rest (ABYC critical / non-critical); a shared wire takes the strictest of its circuits.",
-    `Ampacity: at most ${AMPACITY_A_PER_MM2} A/mm² continuous, a rule of thumb of German automotive practice, not a standard.`,
-    `No wire thinner than ${MIN_PRACTICAL_MM2} mm², for mechanical strength (common practice).`,
-    `Fuses: the smallest standard rating at or above ${FUSE_MARGIN} × the current behind it (common practice), and no more than the thinnest wire it protects stands short-term by the ${SHORT_TERM_A_PER_MM2} A/mm² rule of thumb.`,
-    ...kept.map((c) => `Load of ${c.name}: ${fmt(c.loadA)} A${c.loadBasis ? ` — ${c.loadBasis}` : ""}.`),
+    `System ${systemV} V, conductor temperature ${fmt(tempC)} °C${input.tempC === undefined ? " (the default; copper's resistance rises 0.393 %/°C, so choose a higher temperature for a hot run)" : ""}.`,
+    "Currents from the loom's electrics in its worst real states: charging at rpm with the lights, brake and an indicator on; standing with the ignition on and the points closed; cranking; the horn pressed. Dropped circuits draw nothing.",
+    "Conductors: stranded automotive cable, IEC 60228 class 5 maximum resistance (19.5 mΩ/m at 1 mm²), at the conductor temperature.",
+    "Drop targets hold for each circuit as a whole, supply and return wires together: 3 % for ignition, charging and the headlamp, 5 % while cranking, 10 % for the rest.",
+    `Ampacity: at most ${AMPACITY_A_PER_MM2} A/mm² continuous and ${SHORT_TERM_A_PER_MM2} A/mm² for the seconds a button is held (rules of thumb of German automotive practice, not a standard). No wire thinner than ${MIN_PRACTICAL_MM2} mm² (common practice).`,
+    `Fuses: at least ${FUSE_MARGIN} × the continuous current behind them (common practice), a momentary load within ${FUSE_MOMENTARY_FACTOR} × the rating (from memory), never above what the thinnest wire behind them stands short-term, and never above the factory's rating unless every terminal and switch contact behind it is rated for more.`,
+    `Terminals: ${FITTING_SOURCE}.`,
+    ...(assumed > 0 ? [`${assumed} wire${assumed === 1 ? " has" : "s have"} no entered or family length: ${ASSUMED_RUN_M} m assumed.`] : []),
+    input.scheme === "factory" ? "Colours: the factory's." : `Colours: Loomlore's simple scheme: ${SIMPLE_SCHEME.join("; ")}.`,
   ];
-  if (kept.some(isCranking)) {
-    assumptions.push(`Starter cables: sized for the cranking drop with the short-term ${SHORT_TERM_A_PER_MM2} A/mm² rule of thumb, not continuous ampacity; usually unfused.`);
-  }
-  if (assumed > 0) assumptions.push(`${assumed} wire${assumed === 1 ? " has" : "s have"} no entered or family length: ${ASSUMED_RUN_M} m assumed.`);
   const ignored = Object.keys(lengths).filter((id) => !rowCircuits.has(id));
   if (ignored.length > 0) assumptions.push(`Lengths entered for ${ignored.join(", ")} are unused: no kept circuit passes ${ignored.length === 1 ? "that wire" : "those wires"}.`);
-  assumptions.push(
-    input.scheme === "factory"
-      ? `Colours: the factory's, written in ${NOTATION_WORDS[input.notation]}.`
-      : `Colours: Loomlore's simple scheme, written in ${NOTATION_WORDS[input.notation]}: ${SIMPLE_SCHEME.join("; ")}.`,
-  );
-
-  return { rows, fuses, dropped, totals, assumptions };
-}
-
-const round3 = (x: number) => Math.round(x * 1000) / 1000;
-
-const NOTATION_WORDS: Record<ColourSystemId, string> = {
-  jis: "Japanese-style letter codes", iec: "IEC 60757 codes", din: "DIN abbreviations", bs: "the older British letter code", en: "English names",
-};
-
-function colourRows(
-  rows: CutRow[],
-  wiresById: Map<string, PlannerWire>,
-  rowCircuits: Map<string, PlannerCircuit[]>,
-  scheme: PlannerInput["scheme"],
-  notation: ColourSystemId,
-) {
-  // Per connector, the colours already given (both the colour list and the written code: IEC writes
-  // red/white and white/red alike as RDWH, so the written form must differ too).
-  const used = new Map<string, Set<string>>();
-  const taken = (conns: string[], keys: string[]) => conns.some((c) => keys.some((k) => used.get(c)?.has(k)));
-  for (const row of rows) {
-    const w = wiresById.get(row.wire)!;
-    let colours: ColourName[];
-    if (scheme === "factory") colours = [...(w.colours ?? [])];
-    else {
-      const candidates = schemeCandidates(w, rowCircuits.get(row.wire)!);
-      colours = candidates[0];
-      if (!isEarth(w)) {
-        const conns = [...new Set([connectorOf(w.from), connectorOf(w.to)])];
-        const keysOf = (v: ColourName[]) => [v.join("/"), writeColour(v, notation).text];
-        const pick = variants(candidates).find((v) => !taken(conns, keysOf(v)));
-        if (pick) colours = pick;
-        else row.notes.push("Looks like another wire in the same connector: sleeve or tag it.");
-        for (const c of conns) {
-          const set = used.get(c) ?? new Set<string>();
-          for (const k of keysOf(colours)) set.add(k);
-          used.set(c, set);
-        }
-      }
-    }
-    const { text, note } = writeColour(colours, notation);
-    row.colours = colours;
-    row.colour = text;
-    if (note) row.notes.push(note);
-  }
+  return { rows, fuses, circuitDrops, legend, parts, dropped, totals, assumptions, warnings };
 }
 
 function planFuses(
-  all: PlannerCircuit[],
-  kept: PlannerCircuit[],
-  rows: CutRow[],
-  wiresById: Map<string, PlannerWire>,
-  tempC: number,
-  systemV: number,
+  input: PlannerInput, kept: PlannerCircuit[], topo: Topology, rows: CutRow[], rowById: Map<string, CutRow>, cur: Map<string, Currents>, warnings: string[],
 ): FuseRow[] {
-  const pathOf = (c: PlannerCircuit) => c.fusesOnPath ?? (c.fuse ? [c.fuse] : []);
-  // A fuse carries the current of every kept circuit whose supply passes through it, not only of those it is nearest to:
-  // the main fuse feeds the lot (Kirchhoff's current law).
-  const groups = new Map<string, PlannerCircuit[]>();
-  const ratingOf = new Map<string, number>();
+  const byId = new Map<string, Element>(input.network.elements.map((e) => [e.id, e]));
+  // A wire is protected by the nearest fuse before it on the supply path of every kept circuit that uses it.
+  const protector = new Map<string, string | null>();
   for (const c of kept) {
-    for (const f of pathOf(c)) {
-      ratingOf.set(f.name, f.ratingA);
-      const list = groups.get(f.name);
-      if (list) list.push(c);
-      else groups.set(f.name, [c]);
-    }
-  }
-  // A wire is protected by the nearest fuse that every circuit using it (in the factory loom) passes through.
-  const protector = (wire: string): string | null => {
-    const paths = all.filter((c) => Array.isArray(c.wires) && c.wires.includes(wire)).map(pathOf);
-    if (!paths.length || paths.some((p) => p.length === 0)) return null;
-    const common = paths[0].filter((f) => paths.every((p) => p.some((x) => x.name === f.name)));
-    return common.at(-1)?.name ?? null;
-  };
-  const fuses: FuseRow[] = [];
-  for (const [name, cs] of groups) {
-    // Earth returns and signal wires are not on a fuse's supply path: a short to the frame bypasses them.
-    const protectedRows = rows.filter((r) => {
-      const w = wiresById.get(r.wire)!;
-      if (isEarth(w) || w.feed === "signal") return false;
-      return protector(r.wire) === name;
-    });
-    const currentA = cs.reduce((s, c) => s + c.loadA, 0);
-    const needA = FUSE_MARGIN * currentA;
-    const factory = ratingOf.get(name)!;
-    const candidate = FUSE_RATINGS_A.find((r) => r >= needA * (1 - EPS));
-    const parts: string[] = [
-      `"${name}": kept circuits draw ${fmt(currentA)} A; ${FUSE_MARGIN} × ${fmt(currentA)} A = ${fmt(needA)} A (common practice).`,
-    ];
-    let ratingA: number;
-    if (candidate === undefined) {
-      ratingA = factory;
-      parts.push(`No standard rating reaches ${fmt(needA)} A (the largest is ${FUSE_RATINGS_A[FUSE_RATINGS_A.length - 1]} A): the factory's ${factory} A is listed unchanged; split the load.`);
-    } else {
-      ratingA = candidate;
-      parts.push(`${candidate} A is the smallest standard rating at or above it.`);
-      if (protectedRows.length === 0) {
-        parts.push("No wire is on this fuse alone, so none was checked against it.");
-      } else {
-        const thinnest = protectedRows.reduce((a, b) => (b.sizeMm2 < a.sizeMm2 ? b : a));
-        const thinnestMm2 = thinnest.sizeMm2; // before any upsizing below
-        const limitA = SHORT_TERM_A_PER_MM2 * thinnestMm2;
-        if (candidate > limitA * (1 + EPS)) {
-          // The fuse protects the wire: rather than a fuse the wire cannot carry, the wire grows to the fuse.
-          const needMm2 = candidate / SHORT_TERM_A_PER_MM2;
-          const size = smallestMetric(needMm2)!;
-          const grown: string[] = [];
-          for (const r of protectedRows) {
-            if (SHORT_TERM_A_PER_MM2 * r.sizeMm2 >= candidate * (1 - EPS)) continue;
-            const from = r.sizeMm2;
-            r.sizeMm2 = size;
-            const g = smallestAwg(needMm2);
-            if (g !== null && (r.awg === null || awgAreaMm2(g) > awgAreaMm2(r.awg))) r.awg = g;
-            r.dropV = r.currentA > 0 ? r.currentA * conductorResistance(size, r.lengthM, tempC) : 0;
-            r.dropPct = (r.dropV / systemV) * 100;
-            r.decidedBy = "ampacity";
-            r.notes.push(`Upsized from ${from} to ${size} mm² so the ${candidate} A fuse "${name}" protects it (${SHORT_TERM_A_PER_MM2} A/mm² rule of thumb).`);
-            grown.push(r.wire);
-          }
-          parts.push(
-            `The thinnest wire it protects (${thinnest.wire}, ${fmt(thinnestMm2)} mm²) carries only ${fmt(limitA)} A by the ${SHORT_TERM_A_PER_MM2} A/mm² rule of thumb, ` +
-              `so ${grown.join(", ")} ${grown.length === 1 ? "is" : "are"} upsized to ${size} mm² (or split these circuits across smaller fuses).`,
-          );
-        } else {
-          parts.push(`The thinnest wire it protects (${thinnest.wire}, ${fmt(thinnestMm2)} mm²) carries ${fmt(limitA)} A by the ${SHORT_TERM_A_PER_MM2} A/mm² rule of thumb.`);
-        }
+    const t = topo.circuits.get(c.slug)!;
+    let last: string | null = null;
+    for (const id of t.supplyOrder) {
+      if (t.fuses.includes(id)) last = id;
+      if (rowById.has(id)) {
+        const had = protector.get(id);
+        protector.set(id, had === undefined ? last : had === last ? last : null);
       }
     }
-    for (const r of protectedRows) r.notes.push(`Protected by fuse "${name}" (${ratingA} A).`);
-    if (factory !== ratingA) {
-      parts.push(`Warning: the factory fitted ${factory} A; ${ratingA} A suits the kept circuits${factory > ratingA ? " (the factory's also fed circuits now dropped, or was generous)" : ""}.`);
-    }
-    fuses.push({ circuits: cs.map((c) => c.slug), ratingA, protects: protectedRows.map((r) => r.wire), basis: parts.join(" ") });
   }
-  return fuses;
+  const out: FuseRow[] = [];
+  for (const id of new Set(kept.flatMap((c) => topo.circuits.get(c.slug)!.fuses))) {
+    const el = byId.get(id)!;
+    const name = input.names[id] ?? "fuse";
+    const factoryA = el.ratingA ?? 0;
+    const c = cur.get(id)!;
+    const circuits = kept.filter((k) => topo.circuits.get(k.slug)!.fuses.includes(id)).map((k) => k.slug);
+    const protects = rows.filter((r) => protector.get(r.wire) === id && r.role === "power").map((r) => r.wire);
+    const contacts = [...new Set(kept.filter((k) => circuits.includes(k.slug)).flatMap((k) => {
+      const t = topo.circuits.get(k.slug)!;
+      return t.contacts.filter((x) => t.supplyOrder.indexOf(x) > t.supplyOrder.indexOf(id));
+    }))];
+    const need = FUSE_MARGIN * c.continuous;
+    const momentaryNeed = Math.max(c.momentary, c.peak) / FUSE_MOMENTARY_FACTOR;
+    const candidate = FUSE_RATINGS_A.find((r) => r >= Math.max(need, momentaryNeed) * (1 - EPS)) ?? FUSE_RATINGS_A.at(-1)!;
+    const parts: string[] = [`Continuous ${fmt(c.continuous)} A behind it; ${FUSE_MARGIN} × that is ${fmt(need)} A.`];
+    if (c.momentary > c.continuous) parts.push(`Momentary ${fmt(c.momentary)} A (a button held): within ${FUSE_MOMENTARY_FACTOR} × the rating for the seconds it lasts.`);
+    const fuseWarnings: string[] = [];
+    // What stands behind the fuse: the terminals of the wires it protects and the switch contacts on its path, each with
+    // the current it carries itself. The trunk (what carries most of the fuse's current) sees whatever the fuse lets through.
+    const behind: { what: string; ratingA: number; amps: number }[] = [];
+    const seen = new Set<string>();
+    for (const wid of protects) {
+      const w = input.wires.find((x) => x.id === wid)!;
+      const r = rowById.get(wid)!;
+      for (const f of [w.fromFitting, w.toFitting]) {
+        const fit = parseFitting(f);
+        const what = `the ${fit.words} terminal${w.from.includes(":") ? ` at ${(f === w.fromFitting ? w.from : w.to)}` : ""}`;
+        if (fit.ratingA !== null && !seen.has(what)) { seen.add(what); behind.push({ what, ratingA: fit.ratingA, amps: r.continuousA }); }
+      }
+    }
+    for (const x of contacts) {
+      const p = byId.get(x)?.params as { contactA?: number } | null | undefined;
+      if (p?.contactA) behind.push({ what: input.names[x] ?? "a switch contact", ratingA: p.contactA, amps: cur.get(x)?.continuous ?? 0 });
+    }
+    const trunk = behind.filter((b) => b.amps >= 0.8 * c.continuous);
+    let ratingA: number;
+    let raised = false;
+    if (candidate <= factoryA || factoryA === 0) {
+      ratingA = candidate;
+      parts.push(factoryA === 0 ? `${ratingA} A suits the kept circuits.` : ratingA < factoryA ? `${ratingA} A is enough for the kept circuits: smaller than the factory's ${factoryA} A (which also fed circuits now dropped), so it protects them better.` : `The factory's ${factoryA} A suits the kept circuits.`);
+    } else {
+      const weak = trunk.filter((b) => b.ratingA < candidate);
+      if (weak.length === 0) {
+        ratingA = candidate;
+        raised = true;
+        parts.push(`Raised above the factory's ${factoryA} A because the kept circuits draw ${fmt(c.continuous)} A continuous; what carries its whole current is rated for ${candidate} A or more (${trunk.map((b) => `${b.what} ≈ ${b.ratingA} A`).join("; ") || "no terminal or contact recorded"}).`);
+      } else {
+        ratingA = factoryA;
+        const w = `"${name}": the kept circuits draw ${fmt(c.continuous)} A continuous, more than its factory ${factoryA} A suits (${FUSE_MARGIN} × ${fmt(c.continuous)} = ${fmt(need)} A). Not raised: ${weak.map((b) => `${b.what} (≈ ${b.ratingA} A)`).join(", ")} carries all of it and would then be the weakest part. Split the feed across a second fuse, or switch the heavy load through a relay.`;
+        fuseWarnings.push(w);
+        warnings.push(w);
+      }
+    }
+    for (const b of behind) {
+      if (b.amps > b.ratingA) fuseWarnings.push(`${b.what} carries ${fmt(b.amps)} A, more than the ≈ ${b.ratingA} A it is rated for (${FITTING_SOURCE}): fit a larger part or a relay.`);
+    }
+    // The fuse protects the wire: no wire behind it may be thinner than the fuse stands short-term; grow it if so.
+    for (const wid of protects) {
+      const r = rowById.get(wid)!;
+      if (SHORT_TERM_A_PER_MM2 * r.sizeMm2 >= ratingA * (1 - EPS)) continue;
+      const size = smallestMetric(ratingA / SHORT_TERM_A_PER_MM2)!;
+      r.notes.push(`Upsized from ${r.sizeMm2} to ${size} mm² so the ${ratingA} A fuse "${name}" protects it (${SHORT_TERM_A_PER_MM2} A/mm² short-term, rule of thumb).`);
+      r.sizeMm2 = size;
+      const g = smallestAwg(size);
+      if (g !== null && (r.awg === null || awgAreaMm2(g) > awgAreaMm2(r.awg))) r.awg = g;
+      r.decidedBy = "fuse";
+    }
+    for (const wid of protects) rowById.get(wid)!.notes.push(`Protected by fuse "${name}" (${ratingA} A).`);
+    out.push({ id, name, circuits, factoryA, ratingA, continuousA: c.continuous, peakA: Math.max(c.peak, c.momentary), raised, protects, basis: parts.join(" "), warnings: fuseWarnings });
+  }
+  return out;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Colours
+
+/** How to say what a net carries, for the legend. */
+function netMeaning(net: string, rows: CutRow[], input: PlannerInput): string {
+  const mine = rows.filter((r) => r.net === net);
+  const circuits = [...new Set(mine.flatMap((r) => r.circuits))].map((s) => input.circuits.find((c) => c.slug === s)?.name ?? s);
+  return `${mine.map((r) => `${r.from} → ${r.to}`).join("; ")} (${circuits.join(", ")})`;
+}
+
+function groupOf(net: string, rows: CutRow[], topo: Topology, input: PlannerInput, kept: PlannerCircuit[]): keyof typeof GROUP_BASE | "earth" {
+  if (topo.earthNets.has(net)) return "earth";
+  const mine = rows.filter((r) => r.net === net);
+  if (mine.every((r) => r.role === "signal")) return "signal";
+  const circuits = kept.filter((c) => mine.some((r) => r.circuits.includes(c.slug)));
+  const systems = new Set(circuits.map((c) => c.system));
+  const live = input.network.earth === "positive" ? input.network.minus : input.network.plus;
+  const liveNet = topo.netOf.get(input.wires.find((w) => { const e = input.network.elements.find((x) => x.id === w.id); return e && (e.a === live || e.b === live); })?.id ?? "");
+  if (net === liveNet) return "feed";
+  if (systems.has("charging")) return "charging";
+  // Joined to the live post through fuses only (no switch): still an unswitched feed.
+  const fed = circuits.filter((c) => c.from === live);
+  const onlyFuses = fed.length > 0 && fed.every((c) => {
+    const t = topo.circuits.get(c.slug)!;
+    const at = t.supplyOrder.findIndex((id) => mine.some((r) => r.wire === id));
+    return at >= 0 && t.supplyOrder.slice(0, at).every((id) => !t.contacts.includes(id) && !input.network.elements.find((e) => e.id === id && e.kind !== "wire" && e.kind !== "mate" && e.kind !== "fuse"));
+  });
+  if (onlyFuses) return "feed";
+  const returnSide = circuits.length > 0 && circuits.every((c) => topo.circuits.get(c.slug)!.ret.some((id) => mine.some((r) => r.wire === id)));
+  if (systems.size > 1) return "switched";
+  const only = [...systems][0];
+  if (only === "ignition") return returnSide ? "negative" : "switched";
+  if (only === "starting") return "starting";
+  if (only === "lighting") return "lighting";
+  if (only === "signals") return "signals";
+  if (only === "instruments") return "instruments";
+  return "other";
+}
+
+function colourRows(rows: CutRow[], topo: Topology, input: PlannerInput, kept: PlannerCircuit[]): LegendRow[] {
+  const legend = new Map<string, LegendRow>();
+  const write = (colours: ColourName[]) => {
+    const t = encodeColour(colours[0], colours.slice(1), input.notation);
+    return t ?? encodeColour(colours[0], colours.slice(1), "en") ?? colours.join("/");
+  };
+  if (input.scheme === "factory") {
+    for (const r of rows) {
+      const w = input.wires.find((x) => x.id === r.wire)!;
+      r.colours = [...w.colours];
+      r.colour = w.code;
+      if (!w.colours.length) r.notes.push("Factory colour not recorded.");
+      const row = legend.get(r.colour) ?? { colour: r.colour, colours: r.colours, nets: [], meaning: "" };
+      if (!row.nets.includes(r.net)) row.nets.push(r.net);
+      legend.set(r.colour, row);
+    }
+    for (const row of legend.values()) row.meaning = row.nets.map((n) => netMeaning(n, rows, input)).join(" | ");
+    return [...legend.values()];
+  }
+  // Simple scheme: one colour per net, never shared, never black unless earth; base + at most one tracer.
+  // First the live feed, then in the order the cut list meets them (battery outwards).
+  const nets = [...new Set(rows.map((r) => r.net))];
+  const used = new Set<string>(); // written codes (IEC writes R/W and W/R alike, so the written form must differ too)
+  const taken = new Set<string>();
+  const ok = (v: ColourName[]) => new Set(v).size === v.length && !(v.includes("green") && v.includes("yellow")) && !(v.length === 1 && v[0] === "black");
+  const assign = new Map<string, ColourName[]>();
+  const earthColours: ColourName[] = ["black"];
+  const groups = new Map<string, string>(nets.map((n) => [n, groupOf(n, rows, topo, input, kept)]));
+  for (const n of nets) {
+    const g = groups.get(n)!;
+    if (g === "earth") { assign.set(n, earthColours); continue; }
+    const base = GROUP_BASE[g];
+    const options: ColourName[][] = [[base], ...TRACERS.map((t) => [base, t] as ColourName[])];
+    // When a group runs out, any free pair that keeps the rules.
+    for (const b of Object.values(GROUP_BASE)) for (const t of TRACERS) options.push([b, t]);
+    const pick = options.find((v) => ok(v) && !taken.has(v.join("/")) && !used.has(write(v)));
+    if (!pick) throw fail("keep", "more nets than the simple scheme has colours for: use the factory colours");
+    taken.add(pick.join("/"));
+    used.add(write(pick));
+    assign.set(n, pick);
+  }
+  for (const r of rows) {
+    r.colours = assign.get(r.net)!;
+    r.colour = write(r.colours);
+    const row = legend.get(r.colour) ?? { colour: r.colour, colours: r.colours, nets: [], meaning: "" };
+    if (!row.nets.includes(r.net)) row.nets.push(r.net);
+    legend.set(r.colour, row);
+  }
+  for (const row of legend.values()) {
+    row.meaning = row.colours.length === 1 && row.colours[0] === "black" ? "earth" : row.nets.map((n) => netMeaning(n, rows, input)).join(" | ");
+  }
+  return [...legend.values()];
+}
+
+// ---------------------------------------------------------------------------------------------
+// Parts
+
+function partsList(rows: CutRow[], fuses: FuseRow[], input: PlannerInput): PartRow[] {
+  const parts: PartRow[] = [];
+  const wire = new Map<string, number>();
+  for (const r of rows) wire.set(`${r.sizeMm2} mm² ${r.colour}`, (wire.get(`${r.sizeMm2} mm² ${r.colour}`) ?? 0) + r.lengthM);
+  for (const [item, m] of [...wire].sort()) parts.push({ kind: "wire", item, quantity: round3(m * (1 + CUTTING_ALLOWANCE)), unit: "m", notes: `${round3(m)} m plus ${CUTTING_ALLOWANCE * 100} % for cutting (common practice)` });
+  const ratings = new Map<number, number>();
+  for (const f of fuses) ratings.set(f.ratingA, (ratings.get(f.ratingA) ?? 0) + 1);
+  for (const [a, n] of [...ratings].sort((x, y) => x[0] - y[0])) parts.push({ kind: "fuse", item: `${a} A fuse and holder`, quantity: n, unit: "pcs", notes: "plus a spare of each rating" });
+  const ends = new Map<string, number>();
+  let splices = 0;
+  for (const r of rows) {
+    const w = input.wires.find((x) => x.id === r.wire)!;
+    for (const f of [w.fromFitting, w.toFitting]) {
+      const fit = parseFitting(f);
+      if (fit.family === "splice") splices++;
+      else if (fit.family !== "unknown") ends.set(fit.words, (ends.get(fit.words) ?? 0) + 1);
+    }
+  }
+  for (const [item, n] of [...ends].sort()) parts.push({ kind: "terminal", item: `${item} terminal`, quantity: n, unit: "pcs", notes: "one per wire end, crimped with the die for the wire's size" });
+  if (splices) parts.push({ kind: "splice", item: "crimped splice with heat-shrink", quantity: new Set(rows.filter((r) => [input.wires.find((x) => x.id === r.wire)!.fromFitting, input.wires.find((x) => x.id === r.wire)!.toFitting].some((f) => parseFitting(f).family === "splice")).map((r) => r.net)).size, unit: "pcs", notes: "one per splice point" });
+  return parts;
 }
 
 // ---------------------------------------------------------------------------------------------
 // CSV
 
-const CSV_HEADER = [
-  "wire",
-  "from",
-  "to",
-  "colour",
-  "colours",
-  "length_m",
-  "length_source",
-  "current_a",
-  "circuits",
-  "max_drop_pct",
-  "size_mm2",
-  "awg",
-  "drop_v",
-  "drop_pct",
-  "decided_by",
-  "notes",
-] as const;
+const CSV_HEADER = ["wire", "from", "to", "colour", "colours", "length_m", "length_source", "current_a", "continuous_a", "peak_a", "role", "circuits",
+  "size_mm2", "awg", "drop_v", "drop_pct", "decided_by", "notes"] as const;
 
 function csvCell(v: string | number | null): string {
   const s = v === null ? "" : String(v);
@@ -637,115 +715,10 @@ const num = (x: number, decimals: number) => String(Number(x.toFixed(decimals)))
 export function cutListCsv(plan: PlanResult): string {
   const lines = [CSV_HEADER.join(",")];
   for (const r of plan.rows) {
-    const cells: (string | number | null)[] = [
-      r.wire,
-      r.from,
-      r.to,
-      r.colour,
-      r.colours.join("/"),
-      num(r.lengthM, 3),
-      r.lengthSource,
-      num(r.currentA, 2),
-      r.circuits.join("; "),
-      num(r.maxDropPct, 2),
-      num(r.sizeMm2, 2),
-      r.awg === null ? null : awgLabel(r.awg).replace(" AWG", ""),
-      num(r.dropV, 3),
-      num(r.dropPct, 2),
-      r.decidedBy,
-      r.notes.join(" "),
-    ];
-    lines.push(cells.map(csvCell).join(","));
+    lines.push([
+      r.wire, r.from, r.to, r.colour, r.colours.join("/"), num(r.lengthM, 3), r.lengthSource, num(r.currentA, 2), num(r.continuousA, 2), num(r.peakA, 2), r.role,
+      r.circuits.join("; "), num(r.sizeMm2, 2), r.awg === null ? null : awgLabel(r.awg).replace(" AWG", ""), num(r.dropV, 3), num(r.dropPct, 2), r.decidedBy, r.notes.join(" "),
+    ].map(csvCell).join(","));
   }
-  // RFC 4180: CRLF line breaks, and the last record ends with one too.
   return lines.join("\r\n") + "\r\n";
-}
-
-// ---------------------------------------------------------------------------------------------
-// Nominal loads
-
-interface LoadKind {
-  match: RegExp;
-  what: string;
-  /** Per item, W: lamps. */
-  watts?: number;
-  /** Per item, Ω: coils. */
-  ohms?: number;
-  /** Per item, A, where neither W nor Ω says it. */
-  amps?: number;
-  source: string;
-}
-
-// Checked top to bottom, so "starter relay" is a solenoid before it is a starter. Figures are the
-// trade's rules of thumb [from memory / common practice], stated in each basis.
-const LOAD_KINDS: readonly LoadKind[] = [
-  { match: /pick-?up|pulser|sensor|signal generator|trigger/i, what: "pickup", amps: 0, source: "a few mA, taken as 0" },
-  { match: /solenoid|starter relay|start relay/i, what: "starter solenoid coil", ohms: 3, source: "a solenoid coil of ≈ 3 Ω" },
-  { match: /starter|starting motor|cranking/i, what: "starter motor", amps: 150, source: "cranking ≈ 100–150 A; the upper end taken" },
-  { match: /\bcoil/i, what: "ignition coil primary", ohms: 3, source: "coil primary ≈ 3 Ω while it is switched on (the dwell lowers the average)" },
-  { match: /relay/i, what: "relay coil", ohms: 85, source: "a mini relay coil of ≈ 85 Ω" },
-  { match: /igniter|ignition unit|\bcdi\b|control unit|ignition module/i, what: "electronic ignition unit", amps: 1, source: "≈ 1 A for the unit itself" },
-  { match: /alternator|generator|dynamo|stator|charging|regulator|rectifier/i, what: "charging output", watts: 180, source: "a 150–200 W alternator of the era" },
-  { match: /horn/i, what: "horn", amps: 4, source: "a motorcycle horn draws ≈ 2–5 A" },
-  { match: /instrument|warning|pilot|tell-?tale|gauge|meter|neutral|indicator lamp/i, what: "instrument or warning lamp", watts: 3, source: "≈ 3 W bulbs" },
-  { match: /indicator|turn|flasher|winker|blinker/i, what: "indicator lamp", watts: 21, source: "21 W lamps" },
-  { match: /brake|stop/i, what: "brake lamp", watts: 21, source: "a 21 W filament" },
-  { match: /tail|number|plate|park|position/i, what: "tail lamp", watts: 5, source: "a 5 W filament" },
-  { match: /head/i, what: "headlamp", watts: 60, source: "a 60 W filament, typical of 12 V bikes" },
-  { match: /lamp|bulb|light/i, what: "lamp", source: "give its wattage" },
-];
-
-const NUM = String.raw`(\d+(?:[.,]\d+)?)`;
-const COUNT = String.raw`(?:(\d+)\s*[×x*]\s*)?`;
-const parseNum = (s: string) => Number(s.replace(",", "."));
-
-// Throws a WorkshopInputError ("kind" or "label"), like the rest of app/domain, when no rule fits.
-/** The nominal current of a load by kind, rule of thumb: lamp wattage/12 V, coil primary ≈ 4 A each at 3 Ω …; exported for the service. */
-export function nominalLoadA(kind: string, label: string): { amps: number; basis: string } {
-  const k = String(kind ?? "").trim();
-  const l = String(label ?? "");
-  const text = `${k} ${l}`;
-  // An explicit current on the label beats every rule of thumb.
-  const amps = new RegExp(String.raw`${COUNT}${NUM}\s*(m?)A\b`).exec(l);
-  if (amps) {
-    const n = amps[1] ? Number(amps[1]) : 1;
-    const a = n * parseNum(amps[2]) * (amps[3] ? 0.001 : 1);
-    return { amps: a, basis: `${l.trim()}: ${fmt(a)} A as stated` };
-  }
-  const watts = new RegExp(String.raw`${COUNT}${NUM}((?:\s*/\s*\d+(?:[.,]\d+)?)*)\s*W\b`, "i").exec(l);
-  const ohms = new RegExp(String.raw`${COUNT}${NUM}\s*(?:Ω|ohms?\b)`, "i").exec(l);
-  const known = LOAD_KINDS.find((d) => d.match.test(k)) ?? LOAD_KINDS.find((d) => d.match.test(text));
-  const rule = "(rule of thumb)";
-  if (watts) {
-    // A twin-filament lamp (60/55 W) burns one filament per circuit: the larger is the worst case.
-    const each = Math.max(parseNum(watts[2]), ...(watts[3] ? watts[3].split("/").filter((s) => s.trim()).map(parseNum) : []));
-    const n = watts[1] ? Number(watts[1]) : 1;
-    const a = (n * each) / NOMINAL_V;
-    const what = known?.what ?? "load";
-    return { amps: a, basis: `${n > 1 ? `${n} × ` : ""}${fmt(each)} W ${what} at ${NOMINAL_V} V ≈ ${fmt(a)} A ${rule}` };
-  }
-  if (ohms) {
-    const n = ohms[1] ? Number(ohms[1]) : 1;
-    const r = parseNum(ohms[2]);
-    if (r <= 0) throw fail("label", `a resistance must be more than 0 Ω, got ${ohms[2]}`);
-    const a = (n * NOMINAL_V) / r;
-    return { amps: a, basis: `${n > 1 ? `${n} × ` : ""}${known?.what ?? "load"} of ${fmt(r)} Ω at ${NOMINAL_V} V ≈ ${fmt(a)} A ${rule}` };
-  }
-  if (!known) throw fail("kind", `no rule of thumb for "${k}": give its current (A), wattage (W) or resistance (Ω) in the label`);
-  const count = /(\d+)\s*(?:[×x*]|coils\b|lamps\b|bulbs\b|horns\b)/i.exec(l);
-  const n = count ? Number(count[1]) : 1;
-  const many = n > 1 ? `${n} × ` : "";
-  if (known.watts !== undefined) {
-    const a = (n * known.watts) / NOMINAL_V;
-    return { amps: a, basis: `${many}${known.what}, ${known.source}: ${many}${known.watts} W at ${NOMINAL_V} V ≈ ${fmt(a)} A ${rule}` };
-  }
-  if (known.ohms !== undefined) {
-    const a = (n * NOMINAL_V) / known.ohms;
-    return { amps: a, basis: `${many}${known.what}, ${known.source}: ${NOMINAL_V} V / ${known.ohms} Ω ≈ ${fmt(NOMINAL_V / known.ohms)} A each, ${fmt(a)} A ${rule}` };
-  }
-  if (known.amps !== undefined) {
-    const a = n * known.amps;
-    return { amps: a, basis: `${many}${known.what}: ${known.source}, ${fmt(a)} A ${rule}` };
-  }
-  throw fail("label", `a ${known.what} needs its wattage in the label, e.g. "21 W"`);
 }

@@ -1,3 +1,4 @@
+import { useEffect, useRef } from "react";
 import { data, Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/families.$family.circuits.$circuit";
 import { Cautions } from "~/components/cautions";
@@ -15,18 +16,28 @@ const SWITCH_NAMES: Record<SwitchId, string> = {
   horn: "Horn button", gear: "Gearbox", engine: "Engine", points: "Points",
 };
 
+/** Switches the rider sets on the page; the engine and the points have their own controls. */
+const PAGE_SWITCHES = (Object.keys(SWITCH_POSITIONS) as SwitchId[]).filter((id) => id !== "engine" && id !== "points");
+
 /** The switch positions chosen in the form or query; the rest take the circuit's working positions. */
 function switchesFrom(params: URLSearchParams | FormData) {
   const out: Record<string, string> = {};
-  for (const id of Object.keys(SWITCH_POSITIONS)) {
+  for (const id of PAGE_SWITCHES) {
     const v = params.get(id);
     if (typeof v === "string" && v) out[id] = v;
   }
   return out;
 }
 
+const stateFrom = (params: URLSearchParams | FormData) => {
+  const e = params.get("engine");
+  const p = params.get("points");
+  return { engine: typeof e === "string" ? e : null, points: typeof p === "string" ? p : null };
+};
+
 export async function loader({ params, request }: Route.LoaderArgs) {
-  const w = await walkFor(params.family, params.circuit, switchesFrom(new URL(request.url).searchParams), "working");
+  const q = new URL(request.url).searchParams;
+  const w = await walkFor(params.family, params.circuit, switchesFrom(q), "working", stateFrom(q));
   if (!w.ok) throw data(w.error.message, { status: w.error.status });
   const notation = w.family.colourSystem as ColourSystemId;
   const paint = w.walk.probePoints.map((p) => {
@@ -34,7 +45,10 @@ export async function loader({ params, request }: Route.LoaderArgs) {
     const cols = d?.ok ? d.value.colours : [];
     return { baseHex: cols[0] ? swatch(cols[0]).hex : null, tracerHex: cols[1] ? swatch(cols[1]).hex : null };
   });
-  return { walk: w.walk, circuit: w.circuit, family: { slug: w.family.slug, name: w.family.name }, paint };
+  return {
+    walk: w.walk, circuit: w.circuit, family: { slug: w.family.slug, name: w.family.name, earth: w.family.earth, systemVoltage: w.family.systemVoltage },
+    paint, state: w.state, hasPoints: w.hasPoints, hasStarter: w.hasStarter,
+  };
 }
 
 /** Diagnose from the readings typed into the form (fields r1, r2 …); bad numbers come back beside their field, nothing lost. */
@@ -50,24 +64,37 @@ export async function action({ params, request }: Route.ActionArgs) {
     const raw = entry.trim().replace(",", ".");
     values[step] = raw;
     if (!raw) continue;
-    const value = /^(ol|open)$/i.test(raw) ? Number.POSITIVE_INFINITY : Number(raw);
+    const value = /^(ol|open)$/i.test(raw) ? Number.POSITIVE_INFINITY : Number(raw.replace(/^−/, "-"));
     if (!Number.isFinite(value) && value !== Number.POSITIVE_INFINITY) errors[step] = "Enter a number (e.g. 12.4), or OL for an open circuit.";
     else readings.push({ step, value });
   }
   if (Object.keys(errors).length) return data({ values, errors, diagnosis: null }, { status: 400 });
-  const d = await diagnoseFor(params.family, params.circuit, switchesFrom(form), readings, "working");
+  const d = await diagnoseFor(params.family, params.circuit, switchesFrom(form), readings, "working", stateFrom(form));
   if (!d.ok) return data({ values, errors: { form: d.error.message } as Record<string, string>, diagnosis: null }, { status: d.error.status });
   return { values, errors, diagnosis: d.diagnosis };
 }
 
-const expectWords = (e: { quantity: string; min: number | null; max: number | null; unit: string }) =>
+const fmtV = (v: number) => String(v).replace(/^-/, "−");
+const expectWords = (e: { quantity: string; min: number | null; max: number | null; unit: string; steady?: boolean; nominal?: number | null }) =>
   e.quantity === "voltage"
-    ? e.min !== null && e.min >= 11 ? `battery voltage (${e.min}–${e.max} V)` : e.max !== null && e.max <= 0.5 ? `near 0 V (≤ ${e.max} V)` : `0–${e.max} V (depends on the load)`
+    ? e.steady === false ? "no steady reading (switching)"
+      : e.min !== null && e.max !== null && Math.max(Math.abs(e.min), Math.abs(e.max)) <= 0.6 ? `near 0 V (${fmtV(e.min)} to ${fmtV(e.max)} V)` : `${fmtV(e.min!)} to ${fmtV(e.max!)} V`
     : e.quantity === "continuity" ? e.max === 0 ? "reference (0 Ω)" : `continuity (≤ ${e.max ?? "a few"} Ω)` : `${e.min}–${e.max} ${e.unit}`;
 
+const KIND_WORDS = { open: "an open circuit", high_resistance: "a high resistance", short: "a short" } as const;
+const ENGINE_WORDS = { stopped: "stopped", cranking: "cranking (start button held)", running: "running (charging at rpm)" } as const;
+
 export default function CircuitWalkPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { walk, circuit, family, paint } = loaderData;
+  const { walk, circuit, family, paint, state, hasPoints, hasStarter } = loaderData;
   const nav = useNavigation();
+  // After "Where is the fault?" the answer is where the rider is looking: focus moves to it (and it is announced).
+  const verdictRef = useRef<HTMLElement>(null);
+  useEffect(() => {
+    if (actionData && verdictRef.current) {
+      verdictRef.current.focus({ preventScroll: true });
+      verdictRef.current.scrollIntoView({ block: "start", behavior: "smooth" });
+    }
+  }, [actionData]);
   const diagnosis = actionData?.diagnosis ?? null;
   const errors: Record<string, string> = actionData?.errors ?? {};
   const values: Record<string, string> = actionData?.values ?? {};
@@ -83,24 +110,55 @@ export default function CircuitWalkPage({ loaderData, actionData }: Route.Compon
         <h1 className="text-3xl font-bold">{circuit.name}</h1>
         <p className="mt-1 max-w-3xl text-muted">
           {powered
-            ? "Battery connected, meter on DC volts, black lead on the battery − post. Work along the probe points in order; the first one that reads wrong tells you where to look."
+            ? `Meter on DC volts, ${walk.reference?.words ?? "black lead on the battery's earth post"}. Connect it with the ignition off, then switch on. Work along the probe points in order; compare each with the one before: under load a good contact loses no more than about 0.2 V.`
             : "Ignition off, battery earth lead off, the loop's connectors unplugged. Ohmmeter: one lead stays on step 1, the other goes to each point in turn."}
         </p>
+        {powered ? (
+          <p className="mt-1 text-sm font-semibold" data-testid="state">
+            Engine {ENGINE_WORDS[state.engine as keyof typeof ENGINE_WORDS]}{hasPoints ? `, points ${state.points}` : ""}{family.earth === "positive" ? " · positive earth: live points read negative" : ""}{family.systemVoltage === 6 ? " · 6 V system" : ""}
+          </p>
+        ) : null}
       </header>
 
-      <Cautions kinds={["ignition", "battery"]} />
+      <Cautions kinds={powered ? (state.engine === "stopped" ? ["ignition", "battery"] : ["ignition", "battery", "fuel"]) : ["ignition", "battery"]} />
+      {powered && state.engine !== "stopped" ? (
+        <p className="-mt-3 max-w-3xl rounded-md border-l-4 border-caution-edge bg-caution px-4 py-2 text-sm">
+          {state.engine === "cranking"
+            ? "Cranking: gearbox in neutral, bike on its stand, hands, hair and leads clear of moving parts; a helper works the start button. Never probe the coil negative or the points while the engine turns: the primary spikes to a few hundred volts."
+            : "Running: on the stand in neutral, in a ventilated space, leads clear of the exhaust and the chain. Never disconnect the battery while the engine runs, and never probe the coil negative or the points."}
+        </p>
+      ) : null}
 
       {powered ? (
-        <Form method="get" className="no-print flex flex-wrap items-end gap-3 rounded-md border border-rule bg-white p-3" aria-label="Switch positions">
-          {(Object.keys(SWITCH_POSITIONS) as SwitchId[]).map((id) => (
+        <Form method="get" className="no-print flex flex-wrap items-end gap-3 rounded-md border border-rule bg-white p-3" aria-label="State of the bike">
+          <label className="flex flex-col text-sm font-semibold">Engine
+            <select name="engine" defaultValue={state.engine} className="mt-1 rounded border-2 border-ink bg-white px-2 py-1 text-base font-normal">
+              {(["stopped", ...(hasStarter ? ["cranking"] : []), "running"] as const).map((e) => <option key={e} value={e}>{e}</option>)}
+            </select>
+          </label>
+          {hasPoints ? (
+            <label className="flex flex-col text-sm font-semibold">Points (engine stopped)
+              <select name="points" defaultValue={state.points ?? "closed"} className="mt-1 rounded border-2 border-ink bg-white px-2 py-1 text-base font-normal">
+                <option value="closed">closed</option><option value="open">open</option>
+              </select>
+            </label>
+          ) : null}
+          {PAGE_SWITCHES.map((id) => (
             <label key={id} className="flex flex-col text-sm font-semibold">{SWITCH_NAMES[id]}
               <select name={id} defaultValue={walk.switches[id]} className="mt-1 rounded border-2 border-ink bg-white px-2 py-1 text-base font-normal">
                 {SWITCH_POSITIONS[id].map((pos) => <option key={pos} value={pos}>{pos}</option>)}
               </select>
             </label>
           ))}
-          <button type="submit" className="rounded bg-ink px-4 py-2 font-semibold text-paper">Show readings for these positions</button>
+          <button type="submit" className="rounded bg-ink px-4 py-2 font-semibold text-paper">Show readings for this state</button>
         </Form>
+      ) : null}
+
+      {walk.notes.length ? (
+        <section aria-labelledby="assume" className="max-w-3xl text-sm">
+          <h2 id="assume" className="font-bold">What this walk assumes</h2>
+          <ul className="list-disc pl-6">{walk.notes.map((n, i) => <li key={i}>{n}</li>)}</ul>
+        </section>
       ) : null}
 
       <section aria-labelledby="drawing" className="rounded-md border border-rule bg-white p-2">
@@ -112,10 +170,12 @@ export default function CircuitWalkPage({ loaderData, actionData }: Route.Compon
       </section>
 
       {diagnosis ? (
-        <section aria-live="polite" aria-labelledby="verdict" className={`rounded-md border-l-4 p-4 ${diagnosis.fault ? "border-signal bg-white" : "border-ink bg-white"}`} data-testid="diagnosis">
+        <section ref={verdictRef} tabIndex={-1} role="status" aria-live="polite" aria-labelledby="verdict" className={`scroll-mt-4 rounded-md border-l-4 p-4 outline-none focus:ring-2 focus:ring-ink ${diagnosis.fault ? "border-signal bg-white" : "border-ink bg-white"}`} data-testid="diagnosis">
           <h2 id="verdict" className="text-xl font-bold">
-            {diagnosis.fault ? `The fault lies between step ${diagnosis.fault.between[0]} and step ${diagnosis.fault.between[1]}` : "No fault located yet"}
+            {diagnosis.fault ? `${KIND_WORDS[diagnosis.fault.kind].replace(/^./, (c) => c.toUpperCase())} between step ${diagnosis.fault.between[0]} and step ${diagnosis.fault.between[1]}` : "No fault located yet"}
           </h2>
+          {diagnosis.battery && diagnosis.battery.verdict !== "ok" ? <p className="mt-1 font-semibold">{diagnosis.battery.message}</p> : null}
+          {diagnosis.notes.length ? <ul className="mt-1 text-sm text-muted">{diagnosis.notes.map((n, i) => <li key={i}>{n}</li>)}</ul> : null}
           {diagnosis.fault ? (
             <>
               <p className="mt-1">{diagnosis.fault.reason}</p>
@@ -161,14 +221,14 @@ export default function CircuitWalkPage({ loaderData, actionData }: Route.Compon
           {nav.state === "submitting" ? "Working it out…" : "Where is the fault?"}
         </button>
         <p className="text-sm text-muted">
-          How this works: with the meter drawing no current, every point joined to battery + by closed contacts reads battery voltage and every point joined to battery − reads 0 V.
-          An open switch, fuse, connector or wire shows as the first point on the supply side that loses its voltage — or, on the return side, a point that floats up to battery voltage.
-          When every point reads right yet nothing works, nothing is flowing to show a drop: measure the load itself.
+          How this works: the expected readings come from the loom itself — which contacts are closed in this state, which loads draw current, and how much each wire
+          and terminal drops. With current flowing, a poor contact shows as a drop between two points: more than about 0.2 V per contact, or 0.5 V over a whole supply
+          or earth side, is a high resistance there (common practice). An open takes the whole voltage: the points after it on the supply side read 0 V, or the return
+          side floats up to battery voltage. A point that reads battery voltage where nothing should feed it, or 0 V where only the load feeds it, points to a short.
         </p>
         <p className="text-sm text-muted">
-          Rule of thumb for the ranges: a healthy battery rests at about 12.6 V (flooded lead-acid, fully charged); 11.5–13.2 V allows for state of charge and the
-          current the ignition draws, and a point more than about 0.5 V below the battery reading has a poor contact before it. Resistances are the card&apos;s own spec values plus
-          up to 1 Ω for the loom&apos;s wires and terminals.
+          Battery windows: about 12.6 V at rest fully charged, at least 9.6 V while cranking, 13.5–14.5 V charging at rpm (common practice; a card&apos;s own
+          regulated-voltage spec takes precedence); a 6 V bike is half. Resistances are the card&apos;s own spec values plus up to 1 Ω for the loom&apos;s wires and terminals.
         </p>
       </Form>
     </div>

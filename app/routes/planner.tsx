@@ -1,5 +1,6 @@
 import { Form, Link } from "react-router";
 import type { Route } from "./+types/planner";
+import { Cautions } from "~/components/cautions";
 import { ColourChip } from "~/components/colour-chip";
 import { swatch } from "~/domain/colours";
 import { listFamilies } from "~/services/library.server";
@@ -18,6 +19,10 @@ export async function loader({ request }: Route.LoaderArgs) {
   return { families, query, errors, planned, search: url.search, unknownFamily: Boolean(query.family && !planned) };
 }
 
+const DECIDED: Record<string, string> = {
+  "voltage-drop": "its circuit's voltage drop", ampacity: "current (5 A/mm² rule of thumb)", minimum: "mechanical minimum", fuse: "the fuse ahead of it", factory: "the factory's size",
+};
+
 export default function PlannerPage({ loaderData }: Route.ComponentProps) {
   const { families, query, errors, planned, search, unknownFamily } = loaderData;
   const plan = planned?.result && planned.result.ok ? planned.result.plan : null;
@@ -27,9 +32,10 @@ export default function PlannerPage({ loaderData }: Route.ComponentProps) {
       <header className="max-w-3xl">
         <h1 className="text-3xl font-bold">Loom planner</h1>
         <p className="mt-1 text-muted">
-          Building a minimal loom? Keep the circuits you need, drop the rest, and get a cut list: every wire from → to, its colour, length, current, the smallest
-          size that keeps the voltage drop within 3 % (ignition and charging) or 10 % (everything else) — the marine/automotive rule for critical and non-critical loads —
-          and within the 5 A/mm² rule of thumb, plus the fuses.
+          Building a minimal loom? Keep the circuits you need, drop the rest, and get a cut list: every wire from → to, its colour, length, the current it carries
+          in the bike&apos;s worst real state (charging at rpm with the lights on, cranking, the horn pressed), the smallest size that keeps each circuit&apos;s whole
+          voltage drop within its target (3 % for ignition, charging and the headlamp, 10 % for the rest) and within the 5 A/mm² rule of thumb, the fuses — never
+          raised above the factory&apos;s without checking what stands behind them — and the parts to buy.
         </p>
       </header>
       <Form method="get" className="space-y-4 rounded-md border border-rule bg-white p-4 no-print" aria-label="What to keep">
@@ -60,7 +66,7 @@ export default function PlannerPage({ loaderData }: Route.ComponentProps) {
               {planned.circuits.map((c) => (
                 <label key={c.slug} className="flex items-start gap-2 text-sm">
                   <input type="checkbox" name="keep" value={c.slug} defaultChecked={planned.keep.includes(c.slug)} className="mt-1" />
-                  <span><span className="font-semibold">{c.name}</span><span className="block text-muted">{c.loadA > 0 ? `≈ ${c.loadA.toFixed(1)} A (${c.loadBasis})` : c.loadBasis}</span></span>
+                  <span className="font-semibold">{c.name}</span>
                 </label>
               ))}
             </div>
@@ -72,6 +78,10 @@ export default function PlannerPage({ loaderData }: Route.ComponentProps) {
       {unknownFamily ? <p role="alert" className="font-semibold text-signal-dark">There is no family “{query.family}” in the library.</p> : null}
       {planned && !planned.keep.length ? <p role="status" className="font-semibold">Tick at least one circuit to keep.</p> : null}
       {planError ? <p role="alert" className="font-semibold text-signal-dark">{planError}</p> : null}
+      {planned?.yearError ? <p role="alert" className="font-semibold text-signal-dark">{planned.yearError}</p> : null}
+      <Cautions kinds={["battery", "fuel"]} />
+      <p className="-mt-3 max-w-3xl text-sm">Fit the main fuse as close to the battery as you can; the starter cable is usually unfused, so route it clear of sharp edges and
+        the exhaust, in a sleeve, with an insulated boot on the relay terminal.</p>
 
       {plan && planned ? (
         <Form method="get" aria-label="Cut list">
@@ -102,10 +112,10 @@ export default function PlannerPage({ loaderData }: Route.ComponentProps) {
                         <span className="block text-xs text-muted">{r.lengthSource}</span>
                         {errors[`len_${r.wire}`] ? <span className="block text-xs font-semibold text-signal-dark">{errors[`len_${r.wire}`]}</span> : null}
                       </td>
-                      <td className="p-1.5 whitespace-nowrap">{r.currentA.toFixed(2)} A</td>
+                      <td className="p-1.5 whitespace-nowrap">{r.currentA.toFixed(2)} A<span className="block text-xs text-muted">{r.role === "signal" ? "signal" : r.role === "earth" ? "earth" : r.momentary ? "while held" : r.peakA > r.currentA + 0.05 ? `peak ${r.peakA.toFixed(1)} A` : ""}</span></td>
                       <td className="p-1.5 whitespace-nowrap font-semibold">{r.sizeMm2} mm²{r.awg !== null ? <span className="block text-xs font-normal text-muted">≈ {r.awg} AWG</span> : null}</td>
-                      <td className="p-1.5 whitespace-nowrap">{r.dropPct.toFixed(2)} % <span className="text-xs text-muted">(≤ {r.maxDropPct} %)</span></td>
-                      <td className="p-1.5 text-sm">{r.decidedBy === "ampacity" ? "current (5 A/mm² rule of thumb)" : r.decidedBy === "minimum" ? "mechanical minimum" : "voltage drop"}{r.notes.length ? <span className="block text-xs text-muted">{r.notes.join(" ")}</span> : null}</td>
+                      <td className="p-1.5 whitespace-nowrap">{r.dropV.toFixed(3)} V</td>
+                      <td className="p-1.5 text-sm">{DECIDED[r.decidedBy]}{r.notes.length ? <span className="block text-xs text-muted">{r.notes.join(" ")}</span> : null}</td>
                     </tr>
                   ))}
                 </tbody>
@@ -113,11 +123,42 @@ export default function PlannerPage({ loaderData }: Route.ComponentProps) {
             </div>
             <button type="submit" className="no-print rounded border-2 border-ink bg-white px-4 py-1.5 font-semibold">Recalculate with these lengths</button>
           </section>
+          {plan.warnings.length ? (
+            <section aria-labelledby="warn" className="mt-6 rounded-md border-l-4 border-signal bg-white p-3">
+              <h2 id="warn" className="text-xl font-bold">Check before you cut</h2>
+              <ul className="mt-1 list-disc pl-6">{plan.warnings.map((w, i) => <li key={i}>{w}</li>)}</ul>
+            </section>
+          ) : null}
+          <section aria-labelledby="drops" className="mt-6">
+            <h2 id="drops" className="text-xl font-bold">Each circuit&apos;s drop</h2>
+            <table className="mt-2 border-collapse bg-white text-left text-sm">
+              <thead className="border-b-2 border-ink"><tr><th className="p-1.5">Circuit</th><th className="p-1.5">Wires drop</th><th className="p-1.5">Target</th></tr></thead>
+              <tbody>{plan.circuitDrops.map((d) => (
+                <tr key={d.circuit} className="border-b border-rule"><td className="p-1.5">{d.name}</td><td className="p-1.5">{d.dropV.toFixed(3)} V</td><td className="p-1.5">≤ {d.budgetV} V ({d.budgetPct} %)</td></tr>
+              ))}</tbody>
+            </table>
+          </section>
           <section aria-labelledby="fuses" className="mt-6">
             <h2 id="fuses" className="text-xl font-bold">Fuses</h2>
             {plan.fuses.length ? (
-              <ul className="mt-2 space-y-1">{plan.fuses.map((f, i) => <li key={i}><strong>{f.ratingA} A</strong> for {f.circuits.join(", ")} — <span className="text-sm text-muted">{f.basis}</span></li>)}</ul>
+              <ul className="mt-2 space-y-2">{plan.fuses.map((f) => (
+                <li key={f.id}><strong>{f.ratingA} A</strong> {f.name} (factory {f.factoryA} A{f.raised ? ", raised" : ""}) for {f.circuits.join(", ")} — <span className="text-sm text-muted">{f.basis}</span>
+                  {f.warnings.length ? <ul className="list-disc pl-6 text-sm">{f.warnings.map((w, i) => <li key={i}>{w}</li>)}</ul> : null}</li>
+              ))}</ul>
             ) : <p className="mt-1">None of the kept circuits has a factory fuse.</p>}
+          </section>
+          <section aria-labelledby="legend" className="mt-6">
+            <h2 id="legend" className="text-xl font-bold">Colour legend</h2>
+            <ul className="mt-2 space-y-1 text-sm">{plan.legend.map((l) => (
+              <li key={l.colour} className="flex items-start gap-2"><ColourChip baseHex={l.colours[0] ? swatch(l.colours[0]).hex : null} tracerHexes={l.colours.slice(1).map((c) => swatch(c).hex)} code={l.colour} /> <span>{l.meaning}</span></li>
+            ))}</ul>
+          </section>
+          <section aria-labelledby="parts" className="mt-6">
+            <h2 id="parts" className="text-xl font-bold">Parts to buy</h2>
+            <table className="mt-2 border-collapse bg-white text-left text-sm">
+              <thead className="border-b-2 border-ink"><tr><th className="p-1.5">Item</th><th className="p-1.5">Quantity</th><th className="p-1.5">Note</th></tr></thead>
+              <tbody>{plan.parts.map((p, i) => <tr key={i} className="border-b border-rule"><td className="p-1.5">{p.item}</td><td className="p-1.5 whitespace-nowrap">{p.quantity} {p.unit}</td><td className="p-1.5 text-muted">{p.notes}</td></tr>)}</tbody>
+            </table>
           </section>
           <section aria-labelledby="assume" className="mt-6 text-sm">
             <h2 id="assume" className="text-lg font-bold">Assumptions and rules of thumb</h2>

@@ -1,10 +1,11 @@
 /** Circuits of a family: the walk (probe points and expectations) and the diagnosis, from the stored loom graph. */
-import { Circuit, Family, Make, SpecValue, System, Wire } from "~db/models/index.ts";
-import { loadFamilyGraph } from "~db/graph.ts";
-import { diagnose, potentials, walkCircuit, type Reading, type WalkNode } from "~/domain/circuit-walk";
+import { Circuit, Family, Make, SpecValue, System } from "~db/models/index.ts";
+import { familyNetwork, loadFamilyGraph } from "~db/graph.ts";
+import { diagnose, walkCircuit, type Reading, type WalkNode } from "~/domain/circuit-walk";
 import { decodeColour, type ColourSystemId } from "~/domain/colours";
-import { nominalLoadA } from "~/domain/loom-planner";
-import { resolveSwitches, type GraphEdge, type SwitchState } from "~/domain/loom-graph";
+import { ENGINE_STATES } from "~/domain/electrics";
+import type { PlannerInput } from "~/domain/loom-planner";
+import { resolveSwitches, type GraphEdge } from "~/domain/loom-graph";
 import { wastedSparkPairs } from "~/domain/wasted-spark";
 import { ensureDatabase } from "./database.server";
 import { isSlug } from "~/validation/library";
@@ -75,7 +76,7 @@ async function load(slug: string) {
   };
   const compByKey = new Map(g.components.map((c) => [c.key, c]));
   const battery = g.components.find((c) => c.kind === "battery");
-  const batteryPlus = battery && g.pins.find((p) => p.componentId === battery.id && p.cavity === "+");
+  const batteryPosts = new Set(battery ? g.pins.filter((p) => p.componentId === battery.id).map((p) => p.id) : []);
   const circuitDefs = circuits.map((c) => {
     const loads = c.via.map((v) => {
       const dot = v.indexOf(".");
@@ -85,14 +86,25 @@ async function load(slug: string) {
     });
     return {
       slug: c.slug, name: c.name, system: systems.find((s) => s.id === c.systemId)?.kind ?? "",
-      def: { slug: c.slug, name: c.name, from: String(c.fromPinId), to: String(c.toPinId), loads, powered: c.fromPinId === batteryPlus?.id },
+      def: { slug: c.slug, name: c.name, from: String(c.fromPinId), to: String(c.toPinId), loads, powered: batteryPosts.has(c.fromPinId) },
       switches: c.switches,
     };
   });
-  const loadKinds = new Map(g.links.map((l) => [`l${l.id}`, compById.get(l.componentId)?.kind ?? "load"]));
-  const loadNames = new Map(g.links.map((l) => [`l${l.id}`, compById.get(l.componentId)?.name ?? ""]));
-  const fuses = new Map(g.links.filter((l) => l.kind === "fuse").map((l) => [`l${l.id}`, { name: compById.get(l.componentId)?.name ?? "fuse", ratingA: l.ratingA ?? 0 }]));
-  return { family, graph: g.graph, nodes, nodeLabel, describe, loadSpec, loadKinds, loadNames, fuses, circuits: circuitDefs };
+  // The regulated-voltage spec of the family (the walk's window while charging), if a card gives one.
+  const reg = specs.find((x) => x.kind === "regulated-voltage" && x.max !== null);
+  const network = familyNetwork(g, family, reg ? { min: reg.min, max: reg.max! } : null);
+  const fittings = new Map<string, string | null>();
+  for (const p of g.pins) {
+    const conn = p.connectorId ? connById.get(p.connectorId) : undefined;
+    const comp = p.componentId ? compById.get(p.componentId) : undefined;
+    fittings.set(String(p.id), conn ? conn.housing.replace(/^\d+-way\s*/, "") : comp?.kind === "splice" ? "splice" : p.fitting ?? null);
+  }
+  const elementNames = new Map(g.links.map((l) => [`l${l.id}`, `${compById.get(l.componentId)?.name ?? "component"}: ${l.label}`]));
+  const frame = g.components.find((c) => c.kind === "frame-earth");
+  const frameEarth = frame ? String(g.pins.find((p) => p.componentId === frame.id)?.id ?? "") || null : null;
+  const hasPoints = g.links.some((l) => l.kind === "breaker");
+  const hasStarter = g.components.some((c) => c.kind === "starter-motor");
+  return { family, graph: g.graph, nodes, nodeLabel, describe, loadSpec, circuits: circuitDefs, network, fittings, elementNames, frameEarth, wires: g.wires, hasPoints, hasStarter };
 }
 
 function familyGraph(slug: string) {
@@ -111,7 +123,10 @@ export async function listCircuits(familySlug: string) {
   const fam = f.family;
   const layout = /flat twin|boxer|opposed/i.test(fam.engine) ? "flat-twin" : fam.cylinders === 2 ? "parallel-twin" : fam.cylinders === 1 ? "single" : "inline";
   return {
-    family: { slug: fam.slug, name: fam.name, make: { slug: fam.make!.slug, name: fam.make!.name }, firingOrder: fam.firingOrder, cylinders: fam.cylinders, crankDeg: fam.crankDeg, engine: fam.engine, ignition: fam.ignition },
+    family: {
+      slug: fam.slug, name: fam.name, make: { slug: fam.make!.slug, name: fam.make!.name }, firingOrder: fam.firingOrder, cylinders: fam.cylinders, crankDeg: fam.crankDeg,
+      engine: fam.engine, ignition: fam.ignition, systemVoltage: fam.systemVoltage, earth: fam.earth, points: f.hasPoints, electricStart: f.hasStarter,
+    },
     circuits: f.circuits.map((c) => ({ slug: c.slug, name: c.name, system: c.system, powered: c.def.powered, switches: c.switches })),
     wastedSpark: wastedSparkPairs(fam.firingOrder, { cylinders: fam.cylinders, layout, crankDeg: fam.crankDeg }),
   };
@@ -130,105 +145,76 @@ export function parseSwitches(raw: string | null | undefined): { ok: true; value
   return { ok: true, value: out };
 }
 
+/** The engine's state and the points for a walk: `engine` stopped|cranking|running, `points` open|closed (contact-breaker ignitions). */
+export interface WalkState { engine?: string | null; points?: string | null }
+
 /**
- * The probe points of one circuit in the given switch positions. An omitted switch takes its riding position (the
- * API's rule) or, with `fill: "working"`, the position the circuit works in (the page's starting point).
+ * The probe points of one circuit in the given state. An omitted switch takes its riding position and the engine is
+ * stopped (the API's rule) or, with `fill: "working"`, the position the circuit works in (the page's starting point).
  */
-export async function walkFor(familySlug: string, circuitSlug: string, given: Record<string, string>, fill: "riding" | "working" = "riding") {
+export async function walkFor(familySlug: string, circuitSlug: string, given: Record<string, string>, fill: "riding" | "working" = "riding", state: WalkState = {}) {
   const f = await familyGraph(familySlug);
   if (!f) return { ok: false as const, error: { status: 404, code: "not_found", message: `There is no family "${familySlug}" in the library.` } satisfies WalkError };
   const c = f.circuits.find((x) => x.slug === circuitSlug);
   if (!c) return { ok: false as const, error: { status: 404, code: "not_found", message: `The ${f.family.name} has no circuit "${circuitSlug}".` } satisfies WalkError };
-  const sw = resolveSwitches(fill === "working" ? { ...c.switches, ...given } : given);
+  const notes: string[] = [];
+  const wanted: Record<string, string> = { ...(fill === "working" ? c.switches : {}), ...given };
+  if (state.engine !== undefined && state.engine !== null && state.engine !== "") {
+    if (!(ENGINE_STATES as readonly string[]).includes(state.engine)) return { ok: false as const, error: { status: 400, code: "bad_request", message: `"${state.engine}" is not an engine state; use ${ENGINE_STATES.join(", ")}`, field: "engine" } satisfies WalkError };
+    wanted.engine = state.engine;
+  }
+  if (state.points !== undefined && state.points !== null && state.points !== "") {
+    if (state.points !== "open" && state.points !== "closed") return { ok: false as const, error: { status: 400, code: "bad_request", message: `"${state.points}" is not a position of the points; use open or closed`, field: "points" } satisfies WalkError };
+    if (f.hasPoints) wanted.points = state.points;
+    else notes.push(`The ${f.family.name} has no contact breakers: "points" was ignored.`);
+  }
+  // The start button and cranking go together on an electric-start bike: pressing it turns the engine.
+  if (f.hasStarter && wanted.engine === "cranking" && wanted.start === undefined) wanted.start = "pressed";
+  if (f.hasStarter && wanted.start === "pressed" && (wanted.engine ?? "stopped") === "stopped") { wanted.engine = "cranking"; notes.push("The start button turns the engine: taken as cranking."); }
+  if (!f.hasStarter && wanted.engine === "cranking") notes.push("Kick start: the battery sees no starter load while the engine is kicked over.");
+  const sw = resolveSwitches(wanted);
   if (!sw.ok) return { ok: false as const, error: { status: 400, code: "bad_request", message: sw.error, field: "switches" } satisfies WalkError };
-  const walk = walkCircuit(f.graph, f.nodes, c.def, sw.value, f.describe, f.loadSpec);
+  const walk = walkCircuit(f.graph, f.nodes, c.def, sw.value, c.def.powered ? f.network : null, f.describe, f.loadSpec);
   if (!walk) return { ok: false as const, error: { status: 404, code: "not_found", message: `The ${c.name} circuit does not close in the library's data.` } satisfies WalkError };
-  return { ok: true as const, walk, circuit: { slug: c.slug, name: c.name, system: c.system, workingSwitches: c.switches }, family: f.family };
+  walk.notes.unshift(...notes);
+  return {
+    ok: true as const, walk, circuit: { slug: c.slug, name: c.name, system: c.system, workingSwitches: c.switches },
+    family: f.family, state: { engine: sw.value.engine, points: f.hasPoints ? sw.value.points : null }, hasPoints: f.hasPoints, hasStarter: f.hasStarter,
+  };
 }
 
 /** Locate the fault from the rider's readings. */
-export async function diagnoseFor(familySlug: string, circuitSlug: string, switches: Record<string, string>, readings: Reading[], fill: "riding" | "working" = "riding") {
-  const w = await walkFor(familySlug, circuitSlug, switches, fill);
+export async function diagnoseFor(familySlug: string, circuitSlug: string, switches: Record<string, string>, readings: Reading[], fill: "riding" | "working" = "riding", state: WalkState = {}) {
+  const w = await walkFor(familySlug, circuitSlug, switches, fill, state);
   if (!w.ok) return w;
   const steps = new Set(w.walk.probePoints.map((p) => p.step));
   const unknown = readings.find((r) => !steps.has(r.step));
   if (unknown) return { ok: false as const, error: { status: 400, code: "bad_request", message: `There is no probe point ${unknown.step} on this circuit (steps 1–${steps.size}).`, field: "readings" } satisfies WalkError };
-  return { ok: true as const, walk: w.walk, diagnosis: diagnose(w.walk, readings) };
+  return { ok: true as const, walk: w.walk, state: w.state, diagnosis: diagnose(w.walk, readings) };
 }
 
-
-/** What the loom planner needs of a family: every circuit's wires and load current, and each wire's role. */
+/** What the loom planner needs of a family: its network, circuits, wires (with their end fittings) and element names. */
 export async function plannerData(familySlug: string) {
   const f = await familyGraph(familySlug);
   if (!f) return null;
-  const wires = await Wire.findAll({ where: { familyId: f.family.id } });
-  const linkComp = new Map<string, { kind: string; label: string }>();
-  for (const c of f.circuits) for (const l of c.def.loads) linkComp.set(l.id, { kind: f.loadKinds.get(l.id) ?? "load", label: `${f.loadNames.get(l.id) ?? ""} ${l.label ?? ""}`.trim() });
-  const loadCurrent = (kind: string, label: string) => {
-    try {
-      return nominalLoadA(kind, label);
-    } catch (e) {
-      // No rule of thumb for this part: say so rather than invent a figure silently.
-      if (e instanceof RangeError) return { amps: 1, basis: `${label}: no rule of thumb for a ${kind}, 1 A assumed — enter your own figure` };
-      throw e;
-    }
-  };
-  const riding = resolveSwitches({}).ok ? (resolveSwitches({}) as { value: SwitchState }).value : ({} as SwitchState);
-  const plus = f.circuits.find((c) => c.def.powered)?.def.from;
-  const minus = f.circuits.find((c) => c.def.powered)?.def.to;
-  const allOn: SwitchState = { ...riding, main: "on", kill: "run", lights: "on", brake: "pressed", start: "released" };
-  const off = plus && minus ? potentials(f.graph, plus, minus, { ...riding, main: "off" }) : null;
-  const on = plus && minus ? potentials(f.graph, plus, minus, allOn) : null;
-  const circuits = f.circuits.map((c) => {
-    const sw = resolveSwitches(c.switches);
-    const ids = new Set<string>();
-    // Every fuse on the supply path, battery first: the last one is nearest the load.
-    const fusesOnPath: { name: string; ratingA: number }[] = [];
-    for (const load of c.def.loads) {
-      const loop = f.graph.loop(c.def.from, load, c.def.to, sw.ok ? sw.value : riding);
-      for (const e of [...(loop?.supply.edges ?? []), ...(loop?.ret.edges ?? [])]) if (e.kind === "wire") ids.add(e.id);
-      for (const e of loop?.supply.edges ?? []) {
-        const fz = f.fuses.get(e.id);
-        if (fz && !fusesOnPath.some((x) => x.name === fz.name)) fusesOnPath.push(fz);
-      }
-    }
-    const fuse = fusesOnPath.at(-1) ?? null;
-    const loads = c.def.loads.map((l) => {
-      // A load whose card gives its resistance draws I = U / R (Ohm's law) at 12 V; otherwise a rule of thumb.
-      const spec = f.loadSpec(l);
-      if (spec && spec.unit === "Ω" && spec.min > 0) {
-        const r = (spec.min + spec.max) / 2;
-        return { amps: 12 / r, basis: `${linkComp.get(l.id)?.label}: 12 V / ${r} Ω (card spec ${spec.min}–${spec.max} Ω) ≈ ${(12 / r).toFixed(1)} A (Ohm's law)` };
-      }
-      return loadCurrent(linkComp.get(l.id)?.kind ?? "load", linkComp.get(l.id)?.label ?? "");
-    });
-    return {
-      slug: c.slug, name: c.name, system: c.system, wires: [...ids], fuse, fusesOnPath,
-      loadA: c.def.powered ? loads.reduce((s, l) => s + l.amps, 0) : 0,
-      loadBasis: c.def.powered ? loads.map((l) => l.basis).join("; ") : "signal loop: no load current",
-    };
-  });
-  const signal = new Set(circuits.filter((c) => c.loadA === 0).flatMap((c) => c.wires));
-  // "Connector: cavity n" so the planner can tell which wires share a housing.
   const label = (id: number) => {
     const n = f.nodes.get(String(id))!;
     if (n.kind === "splice") return "splice (in the loom)";
     return n.connector ? `${n.connectorName}: cavity ${n.cavity}` : `${n.componentName}: ${n.cavity}`;
   };
-  return {
-    family: { slug: f.family.slug, name: f.family.name, colourSystem: f.family.colourSystem },
-    circuits,
-    wires: wires.map((w) => {
-      const [a, b] = [String(w.fromPinId), String(w.toPinId)];
+  const fitting = (id: number) => f.fittings.get(String(id)) ?? null;
+  const input: Omit<PlannerInput, "keep" | "scheme" | "notation" | "lengthsM" | "tempC"> | null = f.network ? {
+    network: f.network,
+    circuits: f.circuits.map((c) => ({ slug: c.slug, name: c.name, system: c.system, from: c.def.from, to: c.def.to, loads: c.def.loads.map((l) => l.id), switches: c.switches })),
+    wires: f.wires.map((w) => {
       const d = decodeColour(w.colourCode, f.family.colourSystem as ColourSystemId);
-      const feed = on && on(a) === "low" && on(b) === "low" ? "earth" as const
-        : off && off(a) === "high" ? "battery" as const
-        : signal.has(`w${w.id}`) ? "signal" as const
-        : on && on(a) === "high" ? "switched" as const : "load" as const;
       return {
-        id: `w${w.id}`, from: label(w.fromPinId), to: label(w.toPinId), code: w.colourCode, colours: d.ok ? d.value.colours : [],
-        defaultLengthM: w.lengthMm ? w.lengthMm / 1000 : null, factorySizeMm2: w.sizeMm2, earth: feed === "earth", feed,
+        id: `w${w.id}`, from: label(w.fromPinId), to: label(w.toPinId), fromFitting: fitting(w.fromPinId), toFitting: fitting(w.toPinId), code: w.colourCode,
+        colours: d.ok ? d.value.colours : [], defaultLengthM: w.lengthMm ? w.lengthMm / 1000 : null, factorySizeMm2: w.sizeMm2,
       };
     }),
-  };
+    names: Object.fromEntries([...f.elementNames]),
+    frameEarth: f.frameEarth,
+  } : null;
+  return { family: { slug: f.family.slug, name: f.family.name, colourSystem: f.family.colourSystem, yearFrom: f.family.yearFrom, yearTo: f.family.yearTo, systemVoltage: f.family.systemVoltage }, circuits: f.circuits, input };
 }

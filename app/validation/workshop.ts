@@ -36,6 +36,9 @@ export const benchBody = z.object({
 
 export const diagnoseBody = z.object({
   switches: z.record(z.string(), z.string()).default({}),
+  // Checked against the family (which engine states, whether it has points) in the service, with the walk's own messages.
+  engine: z.string().max(20).optional(),
+  points: z.string().max(20).optional(),
   readings: z.array(z.object({
     step: z.number().int().min(1),
     // An ohmmeter's "OL" (over limit: open circuit) is accepted as a reading too.

@@ -23,7 +23,7 @@ export function demoNetwork(f: DemoFamily) {
   }]));
   const elements: Element[] = [
     ...rows.wires.map((w, i) => ({ id: `w${i}`, a: w.from, b: w.to, kind: "wire" as EdgeKind, ohms: strandedResistance(w.sizeMm2 ?? 0.75, (w.lengthMm ?? 1000) / 1000) })),
-    ...rows.links.map((l) => ({ id: `l:${l.component}.${l.label}`, a: l.from, b: l.to, kind: l.kind as EdgeKind, label: l.label, switchId: l.switchId, positions: l.positions, params: l.params })),
+    ...rows.links.map((l) => ({ id: `l:${l.component}.${l.label}`, a: l.from, b: l.to, kind: l.kind as EdgeKind, label: l.label, switchId: l.switchId, positions: l.positions, params: l.params, ratingA: l.ratingA })),
     ...rows.pins.filter((p) => p.ref.includes("~loom:")).map((p) => ({ id: `m:${p.ref}`, a: p.ref, b: p.ref.replace("~loom:", ":"), kind: "mate" as EdgeKind })),
   ];
   const regulated = rows.specs.find((s) => s.kind === "regulated-voltage");
@@ -34,4 +34,30 @@ export function demoNetwork(f: DemoFamily) {
     return { slug, name: c.name, from: c.from, to: c.to, powered: c.from.startsWith("battery."), loads: c.via.map((v) => elements.find((e) => e.id === `l:${v}`)!) };
   };
   return { rows, nodes, net, graph, circuit, elements };
+}
+
+/** The loom planner's input for a demo family, as the planner service builds it from the database. */
+export function demoPlannerInput(f: DemoFamily, keep?: string[], scheme: "factory" | "simple" = "factory"): import("~/domain/loom-planner").PlannerInput {
+  const d = demoNetwork(f);
+  const pinOf = new Map(d.rows.pins.map((p) => [p.ref, p]));
+  const housing = new Map(d.rows.connectors.map((c) => [c.slug, c.housing]));
+  const compKind = new Map(d.rows.components.map((c) => [c.key, c.kind]));
+  const fitting = (ref: string) => {
+    const p = pinOf.get(ref)!;
+    if (p.connector) return housing.get(p.connector)!.replace(/^\d+-way\s*/, "");
+    if (p.component && compKind.get(p.component) === "splice") return "splice";
+    return p.fitting ?? null;
+  };
+  const label = (ref: string) => { const n = d.nodes.get(ref)!; return n.connector ? `${n.connectorName}: cavity ${n.cavity}` : `${n.componentName}: ${n.cavity}`; };
+  const names: Record<string, string> = {};
+  for (const l of d.rows.links) names[`l:${l.component}.${l.label}`] = `${d.rows.components.find((c) => c.key === l.component)!.name}: ${l.label}`;
+  return {
+    network: d.net,
+    circuits: d.rows.circuits.map((c) => ({ slug: c.slug, name: c.name, system: c.system, from: c.from, to: c.to, loads: c.via.map((v) => `l:${v}`), switches: c.switches as Record<string, string> })),
+    wires: d.rows.wires.map((w, i) => ({
+      id: `w${i}`, from: label(w.from), to: label(w.to), fromFitting: fitting(w.from), toFitting: fitting(w.to), code: w.code,
+      colours: [], defaultLengthM: w.lengthMm ? w.lengthMm / 1000 : null, factorySizeMm2: w.sizeMm2,
+    })),
+    names, frameEarth: "frame-earth.E", keep: keep ?? d.rows.circuits.map((c) => c.slug), scheme, notation: f.make.colourSystem,
+  };
 }
