@@ -158,3 +158,48 @@ describe("the /colours page without JavaScript", () => {
     expect(await page("code=W&make=no-such-make")).toContain("There is no make");
   });
 });
+
+describe("the colour finder says which reading it used", () => {
+  const readAs = z.object({ system: z.enum(SYSTEM_IDS), houseStyle: z.enum(HOUSE_IDS).nullable(), colours: z.array(z.string()).min(1), words: z.string().min(1) });
+  // API.md colour finder shape, plus matches[].readAs (null where the wire has no cavity).
+  const finderBody = z.object({
+    candidates: z.array(z.object({
+      connector: z.object({ slug: z.string(), name: z.string(), family: z.string() }), score: z.number().min(0).max(1),
+      matches: z.array(z.object({ wire: z.string(), cavity: z.string().nullable(), pinColour: z.string().nullable(), quality: z.string(), readAs: readAs.nullable() })),
+    })),
+  });
+  const find = async (body: unknown) => {
+    const r = await call("/api/v1/colour-finder", { method: "POST", headers: { "Content-Type": "application/json" }, body: JSON.stringify(body) });
+    expect(r.status, r.body.slice(0, 300)).toBe(200);
+    return shape(finderBody, JSON.parse(r.body), "colour-finder");
+  };
+
+  it("with a family, every match is read in that family's house", async () => {
+    // rx750-four ignition unit plug (db/seeders/demo/makes.ts, invented): O/W, B, B/Y, B/L in jis-letters (REFERENCE-FACTS 1.3).
+    const { candidates } = await find({ wires: ["B/Y", "O/W", "B/L"], family: "rx750-four" });
+    expect(candidates[0].connector.slug).toMatch(/^rx750-four-ignition-unit-(plug|socket)$/);
+    for (const m of candidates[0].matches) {
+      expect(m.quality, m.wire).toBe("exact");
+      expect(m.readAs, m.wire).toMatchObject({ system: "jis", houseStyle: "jis-letters" });
+    }
+    expect(candidates[0].matches.find((m) => m.wire === "B/L")!.readAs!.words).toBe("black with blue tracer");
+  });
+
+  it("with no family, each connector reads the codes in its own maker's house", async () => {
+    // Ashcombe writes the older British code (REFERENCE-FACTS 1.5 [from memory]): NW brown with white, WU white with blue.
+    const { candidates } = await find({ wires: ["NW", "WU", "B"] });
+    const british = candidates.filter((c) => c.connector.family === "sovereign-650");
+    expect(british.length).toBeGreaterThan(0);
+    expect(british[0].matches.filter((m) => m.cavity).every((m) => m.readAs?.houseStyle === "bs")).toBe(true);
+    for (const c of candidates) for (const m of c.matches) if (m.cavity === null) expect(m.readAs).toBeNull();
+  });
+
+  it("the finder page shows the reading beside each wire and the battery caution, without JavaScript", async () => {
+    const r = await call("/finder?wires=B%2FY%0AO%2FW&family=rx750-four");
+    expect(r.status).toBe(200);
+    expect(r.body).toMatch(/data-read-as="jis-letters"[^>]*>jis-letters: black with yellow tracer/);
+    // REFERENCE-FACTS 6: disconnect the battery earth lead first (the existing caution text).
+    expect(r.body).toMatch(/aria-label="Safety cautions"/);
+    expect(r.body).toMatch(/Disconnect the battery earth lead first/);
+  });
+});
