@@ -1,8 +1,8 @@
-import { decodeColour, type ColourSystemId } from "../app/domain/colours/index.ts";
+import { decodeColour, houseFor, type ColourSystemId } from "../app/domain/colours/index.ts";
 import { layoutProblems } from "../app/domain/connector-face.ts";
 import { resolveSwitches } from "../app/domain/loom-graph.ts";
 import type { Transaction } from "sequelize";
-import { Circuit, Family, type Pin } from "./models/index.ts";
+import { Circuit, Family, Make, type Pin } from "./models/index.ts";
 import { loadFamilyGraph } from "./graph.ts";
 
 /**
@@ -12,7 +12,7 @@ import { loadFamilyGraph } from "./graph.ts";
 export async function checkLibrary(opts: { familyId?: number; transaction?: Transaction } = {}): Promise<string[]> {
   const { transaction } = opts;
   const problems: string[] = [];
-  const families = await Family.findAll({ where: opts.familyId ? { id: opts.familyId } : {}, order: [["id", "ASC"]], transaction });
+  const families = await Family.findAll({ where: opts.familyId ? { id: opts.familyId } : {}, include: [{ model: Make, as: "make" }], order: [["id", "ASC"]], transaction });
   for (const family of families) {
     const say = (s: string) => problems.push(`${family.slug}: ${s}`);
     const { graph, pins, wires, connectors, components, links } = await loadFamilyGraph(family.id, transaction);
@@ -20,6 +20,8 @@ export async function checkLibrary(opts: { familyId?: number; transaction?: Tran
     const connById = new Map(connectors.map((c) => [c.id, c]));
     const where = (p: Pin) => (p.connectorId ? `${connById.get(p.connectorId)?.slug} cavity ${p.cavity}` : `terminal ${p.cavity} of component #${p.componentId}`);
     const system = family.colourSystem as ColourSystemId;
+    // Codes are checked in the make's house: without it a jis family would accept every Japanese-style house's codes.
+    const houseStyle = houseFor(family.colourSystem, family.make?.houseStyle);
 
     for (const c of connectors) {
       for (const problem of layoutProblems({ rows: c.rows, cols: c.cols, cavities: c.cavities, pin1: c.pin1, latch: c.latch })) say(`${c.slug}: ${problem}`);
@@ -61,7 +63,7 @@ export async function checkLibrary(opts: { familyId?: number; transaction?: Tran
 
     const codes = new Set([...pins.map((p) => p.colourCode), ...wires.map((w) => w.colourCode)].filter((c): c is string => !!c));
     for (const code of codes) {
-      const r = decodeColour(code, system);
+      const r = decodeColour(code, system, { houseStyle });
       if (!r.ok) say(`colour "${code}" does not parse in the family's notation (${system}): ${r.error.message}`);
     }
 

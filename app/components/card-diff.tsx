@@ -3,7 +3,7 @@ import { ColourChip } from "~/components/colour-chip";
 import { FaceView } from "~/components/face-view";
 import { faceGeometry, type FaceGeometry, type HousingLayout } from "~/domain/connector-face";
 import { facePaint } from "~/domain/face-paint";
-import { SYSTEM_NAMES, decodeColour, describeColour, swatch, type ColourSystemId } from "~/domain/colours";
+import { SYSTEM_NAMES, decodeColour, describeColour, swatch, type ColourSystemId, type HouseStyleId } from "~/domain/colours";
 import type { CardDiff, PinDiffRow, ProposedPhoto, ProposedPin, ProposedSpec, RowChange } from "~/domain/submissions";
 
 /**
@@ -69,9 +69,12 @@ interface ColourView {
   words: string;
 }
 
-function colourOf(code: string | null, system: ColourSystemId): ColourView {
+/** How the family writes colours: its notation and its make's house within it. */
+type Notation = { system: ColourSystemId; houseStyle: HouseStyleId | null };
+
+function colourOf(code: string | null, notation: Notation): ColourView {
   if (!code) return { code: null, baseHex: null, tracerHexes: [], words: "empty cavity" };
-  const d = decodeColour(code, system);
+  const d = decodeColour(code, notation.system, { houseStyle: notation.houseStyle });
   if (!d.ok) return { code, baseHex: null, tracerHexes: [], words: "not understood in this notation" };
   const [base, ...tracers] = d.value.colours;
   return {
@@ -121,13 +124,13 @@ function WasProposed({ proposed, was }: { proposed: ReactNode; was: ReactNode })
 type PinField = "code" | "colour" | "circuit" | "terminal" | "goesTo";
 
 /** One pin-map cell for a row of the comparison. */
-function pinCell(row: PinDiffRow, field: PinField, system: ColourSystemId): { node: ReactNode; changed: boolean } {
+function pinCell(row: PinDiffRow, field: PinField, notation: Notation): { node: ReactNode; changed: boolean } {
   const render = (p: ProposedPin): ReactNode => {
     switch (field) {
       case "code":
         return <code className="font-semibold">{orDash(p.code)}</code>;
       case "colour": {
-        const c = colourOf(p.code, system);
+        const c = colourOf(p.code, notation);
         return <ColourChip baseHex={c.baseHex} tracerHexes={c.tracerHexes} words={c.words} />;
       }
       case "circuit":
@@ -146,7 +149,7 @@ function pinCell(row: PinDiffRow, field: PinField, system: ColourSystemId): { no
   return { node: render(row.after), changed: false };
 }
 
-function PinTable({ rows, system, caption, idFor }: { rows: PinDiffRow[]; system: ColourSystemId; caption: string; idFor: (cavity: string) => string }) {
+function PinTable({ rows, notation, caption, idFor }: { rows: PinDiffRow[]; notation: Notation; caption: string; idFor: (cavity: string) => string }) {
   const cols: { field: PinField; label: string; title?: string }[] = [
     { field: "code", label: "Code as written" },
     { field: "colour", label: "Colour" },
@@ -174,7 +177,7 @@ function PinTable({ rows, system, caption, idFor }: { rows: PinDiffRow[]; system
               </th>
               <td className={CELL}><Mark change={row.change} /></td>
               {cols.map((c) => {
-                const cell = pinCell(row, c.field, system);
+                const cell = pinCell(row, c.field, notation);
                 return (
                   <td key={c.field} className={cx(CELL, cell.changed && CHANGED_CELL)} data-field={c.field} data-changed={cell.changed ? "true" : undefined}>
                     {cell.node}
@@ -223,12 +226,12 @@ function FaceMarks({ geometry: g, marks }: { geometry: FaceGeometry; marks: Read
   );
 }
 
-function FacePanel(props: { label: string; cardName: string; layout: HousingLayout; pins: readonly ProposedPin[]; system: ColourSystemId; marks: Map<string, Exclude<RowChange, "same">>; idFor: (cavity: string) => string }) {
-  const { label, cardName, layout, pins, system, marks, idFor } = props;
+function FacePanel(props: { label: string; cardName: string; layout: HousingLayout; pins: readonly ProposedPin[]; notation: Notation; marks: Map<string, Exclude<RowChange, "same">>; idFor: (cavity: string) => string }) {
+  const { label, cardName, layout, pins, notation, marks, idFor } = props;
   const geometry = faceGeometry(layout);
   const inLayout = new Set(layout.cavities.map((c) => c.cavity));
   const listed = [...marks].filter(([cavity]) => inLayout.has(cavity));
-  const paint = facePaint(pins, system).map((pc) => ({ ...pc, href: `#${encodeURIComponent(idFor(pc.cavity))}` }));
+  const paint = facePaint(pins, notation.system, notation.houseStyle).map((pc) => ({ ...pc, href: `#${encodeURIComponent(idFor(pc.cavity))}` }));
   return (
     <figure className="print-avoid-break min-w-0 rounded-md border border-rule bg-white p-2" data-face={label.toLowerCase()}>
       <figcaption className="mb-1 font-bold">{label}</figcaption>
@@ -347,10 +350,13 @@ function NotesBox({ label, html }: { label: string; html: string }) {
 export function CardDiffView(props: {
   diff: CardDiff;
   colourSystem: ColourSystemId;
+  /** The make's house style within that notation (null: the notation's usual reading). */
+  houseStyle?: HouseStyleId | null;
   photoUrl: (id: string, thumb: boolean) => string;
   notesHtml: { before: string; after: string };
 }): JSX.Element {
-  const { diff, colourSystem, photoUrl, notesHtml } = props;
+  const { diff, colourSystem, houseStyle = null, photoUrl, notesHtml } = props;
+  const notation: Notation = { system: colourSystem, houseStyle };
   const uid = "cd" + useId().replace(/[^A-Za-z0-9_-]/g, "");
   const idFor = (cavity: string) => `${uid}-pin-${cavity}`;
   const isNew = diff.layout.before === null;
@@ -452,16 +458,16 @@ export function CardDiffView(props: {
         </p>
         <div className={cx("mt-2 grid gap-4", isNew ? "max-w-md" : "sm:grid-cols-2 print:grid-cols-2")}>
           {!isNew && diff.layout.before ? (
-            <FacePanel label="Published" cardName={(nameBefore ?? cardName) || ""} layout={diff.layout.before} pins={beforePins} system={colourSystem} marks={beforeMarks} idFor={idFor} />
+            <FacePanel label="Published" cardName={(nameBefore ?? cardName) || ""} layout={diff.layout.before} pins={beforePins} notation={notation} marks={beforeMarks} idFor={idFor} />
           ) : null}
-          <FacePanel label="Proposed" cardName={cardName} layout={diff.layout.after} pins={afterPins} system={colourSystem} marks={afterMarks} idFor={idFor} />
+          <FacePanel label="Proposed" cardName={cardName} layout={diff.layout.after} pins={afterPins} notation={notation} marks={afterMarks} idFor={idFor} />
         </div>
       </section>
 
       <section aria-labelledby={`${uid}-pins`} className="min-w-0">
         <h3 id={`${uid}-pins`} className="text-lg font-bold print:text-sm">Pin map</h3>
         {moved.length > 0 ? (
-          <PinTable rows={moved} system={colourSystem} idFor={idFor}
+          <PinTable rows={moved} notation={notation} idFor={idFor}
             caption={isNew ? "Pin map rows of the new card" : "Pin map rows this proposal changes, with the published value after “was”"} />
         ) : (
           <p className="mt-1" data-pins-unchanged="true">No pin-map row changes.</p>
@@ -469,7 +475,7 @@ export function CardDiffView(props: {
         {same.length > 0 ? (
           <details className="mt-2" data-unchanged-rows={same.length}>
             <summary className="cursor-pointer font-semibold underline">{plural(same.length, "unchanged row", "unchanged rows")}: show</summary>
-            <PinTable rows={same} system={colourSystem} idFor={idFor} caption="Pin map rows this proposal leaves as they are" />
+            <PinTable rows={same} notation={notation} idFor={idFor} caption="Pin map rows this proposal leaves as they are" />
           </details>
         ) : null}
         <p className="mt-1 text-xs text-muted">Codes in {SYSTEM_NAMES[colourSystem]}, base colour first.</p>

@@ -1,7 +1,7 @@
 import { useEffect, useRef, useState, type ChangeEvent, type KeyboardEvent, type MouseEvent } from "react";
 import { ColourChip } from "./colour-chip";
 import { FaceView, type FaceCavityPaint } from "./face-view";
-import { decodeColour, describeColour, swatch, type ColourSystemId } from "~/domain/colours";
+import { decodeColour, describeColour, swatch, type ColourSystemId, type HouseStyleId } from "~/domain/colours";
 import { faceGeometry, type FaceSide, type HousingLayout, type Latch } from "~/domain/connector-face";
 import { applyEditorIntent } from "~/domain/proposal-edits";
 import {
@@ -53,10 +53,10 @@ const LATCH_WORDS: Record<Latch, string> = { top: "at the top", bottom: "at the 
 
 type Decoded = { ok: true; words: string; baseHex: string; ink: string; tracerHexes: string[]; iec: string | null } | { ok: false; message: string };
 
-/** The code read in the family's notation, or the parser's message; null for an empty code. */
-function decodeFor(code: string | null, system: ColourSystemId): Decoded | null {
+/** The code read in the family's notation and its make's house, or the parser's message; null for an empty code. */
+function decodeFor(code: string | null, system: ColourSystemId, houseStyle: HouseStyleId | null): Decoded | null {
   if (!code || !code.trim()) return null;
-  const d = decodeColour(code, system);
+  const d = decodeColour(code, system, { houseStyle });
   if (!d.ok) return { ok: false, message: d.error.message };
   const [base, ...rest] = d.value.colours;
   return { ok: true, words: describeColour(d.value), baseHex: swatch(base).hex, ink: swatch(base).ink, tracerHexes: rest.map((c) => swatch(c).hex), iec: d.value.iec };
@@ -116,11 +116,13 @@ const BUTTON = "rounded border-2 border-ink bg-white px-3 py-1.5 font-semibold h
 export function ProposalEditor(props: {
   proposal: CardProposal;
   colourSystem: ColourSystemId;
+  /** The make's house style within that notation (null: the notation's usual reading). */
+  houseStyle?: HouseStyleId | null;
   familyCards: FamilyCardOption[];
   problems: Problem[];
   disabled?: boolean;
 }) {
-  const { proposal, colourSystem, familyCards, problems, disabled = false } = props;
+  const { proposal, colourSystem, houseStyle = null, familyCards, problems, disabled = false } = props;
 
   // The draft follows the page's proposal whenever the page hands over a different one (after a save or a server-side
   // edit); compared by content, so a page that builds the object afresh on each render does not wipe the edits.
@@ -160,12 +162,12 @@ export function ProposalEditor(props: {
 
   const cards = new Map(familyCards.map((c) => [c.slug, c.cavities] as const));
   const layoutLabels = [...new Set(readingOrder(draft.layout.cavities).map((c) => c.cavity))];
-  const decoded = draft.pins.map((p) => decodeFor(p.code, colourSystem));
+  const decoded = draft.pins.map((p) => decodeFor(p.code, colourSystem, houseStyle));
 
   // Problems from the server stay next to their field until that field is changed; the domain's own checks of the
   // layout, cavities, terminals, "goes to" and spec pins run live on the draft as well.
   const fromServer = problems.filter((p) => sameValue(valueAt(draft, p.field), valueAt(proposal, p.field)));
-  const live = proposalProblems(draft, colourSystem, cards).filter((p) => {
+  const live = proposalProblems(draft, colourSystem, cards, { houseStyle }).filter((p) => {
     const m = /^(?:layout|pins|pins\.(\d+)\.(cavity|terminal|goesTo)|specs\.(\d+)\.(between|min))$/.exec(p.field);
     if (!m) return false;
     if (m[3] !== undefined) {

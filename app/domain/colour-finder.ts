@@ -6,6 +6,11 @@
  * Pure TypeScript, no I/O: POST /api/v1/colour-finder builds the index once from the library and
  * calls findConnectors per request; the { ok, error } results carry the API's error shape.
  *
+ * Which reading of a typed code: each connector is compared using the code read in its own family's notation and
+ * its make's house style (a rider who copied the codes off that family's diagram wrote them that way), when every
+ * typed code reads there; otherwise, and for connectors with no notation, every plausible reading is tried. English
+ * words are English everywhere. Each match says which reading it used (`readAs`).
+ *
  * Speed (10 000+ connectors per query): every distinct pin colour in the library is interned once
  * at build time, so a query first fills a small wires × distinct-colours cost table; each connector
  * then gets a cheap lower bound (each wire's cheapest pin, ignoring that two wires cannot share a
@@ -15,7 +20,18 @@
  */
 
 import { munkres } from "munkres";
-import { COLOUR_NAMES, COLOUR_SYSTEM_IDS, decodeColour, type ColourName, type ColourSystemId } from "./colours";
+import {
+  COLOUR_NAMES,
+  COLOUR_SYSTEM_IDS,
+  JIS_HOUSE_ORDER,
+  decodeColour,
+  describeColour,
+  houseStyleOf,
+  isEnglishColourWords,
+  type ColourName,
+  type ColourSystemId,
+  type HouseStyleId,
+} from "./colours";
 
 // ---- Public types ---------------------------------------------------------------------------
 
@@ -37,6 +53,10 @@ export interface FinderConnector {
   system: string;
   gender: "plug" | "socket";
   pins: FinderPin[];
+  /** The family's notation; typed codes are read in it (and in houseStyle) for this connector. Absent: every reading. */
+  notation?: ColourSystemId;
+  /** The make's house style within that notation; null or absent: the notation's usual reading (every house for jis). */
+  houseStyle?: HouseStyleId | null;
 }
 
 export interface FinderQuery {
@@ -57,6 +77,18 @@ export interface FinderQuery {
 
 export type WireQuality = "exact" | "tracer-missing" | "faded" | "none";
 
+/** Where a reading of a typed code comes from: a notation and, where it has several, the house table. */
+export interface ReadingOrigin {
+  system: ColourSystemId;
+  houseStyle: HouseStyleId | null;
+}
+
+/** The reading of a typed code that a match used: its origin, the colours base first, and in words. */
+export interface WireReading extends ReadingOrigin {
+  colours: ColourName[];
+  words: string;
+}
+
 export interface FinderMatch {
   /** The wire as typed. */
   wire: string;
@@ -69,6 +101,8 @@ export interface FinderMatch {
   cost: number;
   /** The reading of the typed code that explains the pin best (base first); [] with cavity null. */
   reading: ColourName[];
+  /** That reading with where it comes from (notation, house); null with cavity null. */
+  readAs: WireReading | null;
 }
 
 export interface FinderCandidate {
@@ -326,11 +360,28 @@ function iecShades(colours: ColourName[], system: ColourSystemId): ColourName[][
   return out;
 }
 
-/** Read each typed wire in every plausible notation (decodeColour per system; "auto" first); unknown codes → error naming the wire. */
+type ReadError = { code: "unknown_colour"; message: string; field: string };
+
+/** One way of decoding a typed code: a notation, and for jis a house (every jis house is one way). */
+type Reader = { system: ColourSystemId | "auto"; houseStyle: HouseStyleId | null };
+
+function readersFor(notation: ColourSystemId | "auto", houseStyle: HouseStyleId | null): Reader[] {
+  if (houseStyle) return [{ system: houseStyleOf(houseStyle)!.notation, houseStyle }];
+  const bySystem = (system: ColourSystemId): Reader[] =>
+    system === "jis" ? JIS_HOUSE_ORDER.map((h) => ({ system, houseStyle: h })) : [{ system, houseStyle: null }];
+  return notation === "auto" ? [{ system: "auto", houseStyle: null }, ...COLOUR_SYSTEM_IDS.flatMap(bySystem)] : bySystem(notation);
+}
+
+/**
+ * Read each typed wire in every plausible notation ("auto" first, each Japanese-style house on its own), or in one
+ * notation, or in one house style; a wire of English colour words is read as English only. Unknown codes → error naming
+ * the wire. `origins[w][r]` says where `readings[w][r]` comes from.
+ */
 export function readWires(
   wires: string[],
   notation: ColourSystemId | "auto" = "auto",
-): { ok: true; readings: ColourName[][][] } | { ok: false; error: { code: "unknown_colour"; message: string; field: string } } {
+  options: { houseStyle?: HouseStyleId | null } = {},
+): { ok: true; readings: ColourName[][][]; origins: ReadingOrigin[][] } | { ok: false; error: ReadError } {
   if (notation !== "auto" && !(COLOUR_SYSTEM_IDS as readonly string[]).includes(notation)) {
     return {
       ok: false,
@@ -341,8 +392,10 @@ export function readWires(
       },
     };
   }
-  const systems: (ColourSystemId | "auto")[] = notation === "auto" ? ["auto", ...COLOUR_SYSTEM_IDS] : [notation];
+  const house = houseStyleOf(options.houseStyle);
+  const readers = readersFor(house ? house.notation : notation, house?.id ?? null);
   const readings: ColourName[][][] = [];
+  const origins: ReadingOrigin[][] = [];
   for (let w = 0; w < wires.length; w++) {
     const wire = wires[w];
     const label = `Wire ${w + 1} (${JSON.stringify(typeof wire === "string" ? wire : String(wire))})`;
@@ -350,27 +403,32 @@ export function readWires(
       return { ok: false, error: { code: "unknown_colour", message: `${label} is not a colour code; send each wire as text such as "W/R"`, field: `wires.${w}` } };
     }
     const mine: ColourName[][] = [];
+    const from: ReadingOrigin[] = [];
     const keys = new Set<string>();
     let firstError: string | null = null;
-    for (const system of systems) {
-      const r = decodeColour(wire, system);
+    // "brown" is the colour brown in every family's notation: a rider describing the wire, not copying a code.
+    for (const reader of isEnglishColourWords(wire) ? [{ system: "en" as const, houseStyle: null }] : readers) {
+      const r = decodeColour(wire, reader.system, { houseStyle: reader.houseStyle });
       if (!r.ok) {
         firstError ??= r.error.message;
         continue;
       }
+      const origin = { system: r.value.system, houseStyle: r.value.houseStyle };
       for (const reading of iecShades(r.value.colours, r.value.system).flatMap((cs) => readingsOf(cs, r.value.base !== null))) {
         const key = reading.join("/");
         if (keys.has(key)) continue;
         keys.add(key);
         mine.push(reading);
+        from.push(origin);
       }
     }
     if (mine.length === 0) {
       return { ok: false, error: { code: "unknown_colour", message: `${label}: ${firstError ?? "not a colour code"}`, field: `wires.${w}` } };
     }
     readings.push(mine);
+    origins.push(from);
   }
-  return { ok: true, readings };
+  return { ok: true, readings, origins };
 }
 
 // ---- The index ------------------------------------------------------------------------------
@@ -393,11 +451,23 @@ export interface FinderIndex {
   readonly genderOf: Uint8Array;
   readonly familyIds: ReadonlyMap<string, number>;
   readonly systemIds: ReadonlyMap<string, number>;
+  /** @internal The ways connectors read typed codes (notation + house); 0 is "every reading". */
+  readonly contexts: readonly ({ notation: ColourSystemId; houseStyle: HouseStyleId | null } | null)[];
+  /** @internal Context per connector. */
+  readonly contextOf: Uint16Array;
   /** @internal Per-query scratch, reused (findConnectors is synchronous). */
   readonly scratch: { cand: Int32Array; bound: Float64Array; order: Int32Array };
 }
 
 const keyOf = (s: string) => s.trim().toLowerCase();
+
+// A house of another notation than the connector's is ignored, as for a make (houseFor in the colours module).
+function contextKey(con: FinderConnector): { notation: ColourSystemId; houseStyle: HouseStyleId | null } | null {
+  const house = houseStyleOf(con.houseStyle);
+  const notation = con.notation && (COLOUR_SYSTEM_IDS as readonly string[]).includes(con.notation) ? con.notation : house?.notation;
+  if (!notation) return null;
+  return { notation, houseStyle: house && house.notation === notation ? house.id : null };
+}
 
 /** Build a reusable index (precompute per-connector data) so repeated queries over 10k connectors are fast. */
 export function buildFinderIndex(connectors: FinderConnector[]): FinderIndex {
@@ -414,6 +484,9 @@ export function buildFinderIndex(connectors: FinderConnector[]): FinderIndex {
   const genderOf = new Uint8Array(n);
   const familyIds = new Map<string, number>();
   const systemIds = new Map<string, number>();
+  const contextOf = new Uint16Array(n);
+  const contextIds = new Map<string, number>([["", 0]]);
+  const contexts: FinderIndex["contexts"][number][] = [null];
   const intern = (map: Map<string, number>, s: string) => {
     const k = keyOf(s);
     let id = map.get(k);
@@ -439,6 +512,16 @@ export function buildFinderIndex(connectors: FinderConnector[]): FinderIndex {
     familyOf[c] = intern(familyIds, con.family);
     systemOf[c] = intern(systemIds, con.system);
     genderOf[c] = con.gender === "socket" ? 1 : 0;
+    const ctx = contextKey(con);
+    if (ctx) {
+      const key = `${ctx.notation}/${ctx.houseStyle ?? ""}`;
+      let id = contextIds.get(key);
+      if (id === undefined) {
+        contextIds.set(key, (id = contexts.length));
+        contexts.push(ctx);
+      }
+      contextOf[c] = id;
+    }
   }
   pinStart[n] = p;
   return {
@@ -453,6 +536,8 @@ export function buildFinderIndex(connectors: FinderConnector[]): FinderIndex {
     genderOf,
     familyIds,
     systemIds,
+    contexts,
+    contextOf,
     scratch: { cand: new Int32Array(n), bound: new Float64Array(n), order: new Int32Array(n) },
   };
 }
@@ -497,36 +582,55 @@ export function findConnectors(index: FinderIndex, query: FinderQuery): FinderRe
     return bad(`notation must be auto or one of ${COLOUR_SYSTEM_IDS.join(", ")}`, "notation");
   }
   const limit = Math.min(query.limit ?? DEFAULT_LIMIT, MAX_LIMIT);
-  const read = readWires(wires, query.notation ?? "auto");
-  if (!read.ok) return read;
-
-  const W = wires.length;
-  const readings = read.readings.map((rs) => rs.map(toIndices));
-  const nC = index.combos.length;
-
-  // Cost of each wire against each distinct pin colour of the library, cheapest reading; laid out
-  // colour-major (cell k * W + w) so a pin's W costs sit side by side for the bound loop.
-  const cost = new Int32Array(W * nC);
-  const quality = new Uint8Array(W * nC);
-  const readingOf = new Uint16Array(W * nC);
-  for (let w = 0; w < W; w++) {
-    cost[w] = NO_CAVITY;
-    quality[w] = Q_NONE;
-    for (let k = 1; k < nC; k++) {
-      const pin = index.combos[k];
-      const cell = k * W + w;
-      let best = Infinity;
-      for (let r = 0; r < readings[w].length; r++) {
-        const c = costIndices(readings[w][r], pin);
-        if (c < best) {
-          best = c;
-          quality[cell] = lastQuality;
-          readingOf[cell] = r;
-        }
-      }
-      cost[cell] = best;
+  const explicit = query.notation !== undefined && query.notation !== "auto";
+  const every = readWires(wires, query.notation ?? "auto");
+  if (!every.ok) return every;
+  // One set of readings per way of reading; a connector whose notation (and house) does not read every typed code
+  // keeps to every reading (set 0): the rider did not copy its diagram. A notation named in the query reads for all.
+  const sets = [every];
+  const setOf = new Int32Array(index.contexts.length);
+  if (!explicit) {
+    for (let x = 1; x < index.contexts.length; x++) {
+      const ctx = index.contexts[x]!;
+      const own = readWires(wires, ctx.notation, { houseStyle: ctx.houseStyle });
+      if (!own.ok) continue;
+      setOf[x] = sets.length;
+      sets.push(own);
     }
   }
+
+  const W = wires.length;
+  const nC = index.combos.length;
+  const TABLE = W * nC;
+
+  // Cost of each wire against each distinct pin colour of the library, cheapest reading, one table per set of
+  // readings; laid out colour-major (cell k * W + w) so a pin's W costs sit side by side for the bound loop.
+  const cost = new Int32Array(sets.length * TABLE);
+  const quality = new Uint8Array(sets.length * TABLE);
+  const readingOf = new Uint16Array(sets.length * TABLE);
+  for (let t = 0; t < sets.length; t++) {
+    const readings = sets[t].readings.map((rs) => rs.map(toIndices));
+    const off = t * TABLE;
+    for (let w = 0; w < W; w++) {
+      cost[off + w] = NO_CAVITY;
+      quality[off + w] = Q_NONE;
+      for (let k = 1; k < nC; k++) {
+        const pin = index.combos[k];
+        const cell = off + k * W + w;
+        let best = Infinity;
+        for (let r = 0; r < readings[w].length; r++) {
+          const c = costIndices(readings[w][r], pin);
+          if (c < best) {
+            best = c;
+            quality[cell] = lastQuality;
+            readingOf[cell] = r;
+          }
+        }
+        cost[cell] = best;
+      }
+    }
+  }
+  const { contextOf } = index;
 
   // Filters.
   const familyKey = query.family ? keyOf(query.family) : "";
@@ -551,8 +655,9 @@ export function findConnectors(index: FinderIndex, query: FinderQuery): FinderRe
     if (systemId !== -1 && index.systemOf[c] !== systemId) continue;
     if (familyId !== -1 && !boostMode && index.familyOf[c] !== familyId) continue;
     mins.fill(NO_CAVITY);
+    const off = setOf[contextOf[c]] * TABLE;
     for (let p = start; p < start + P; p++) {
-      const cell = pinCombo[p] * W;
+      const cell = off + pinCombo[p] * W;
       for (let w = 0; w < W; w++) {
         const v = cost[cell + w];
         if (v < mins[w]) mins[w] = v;
@@ -597,7 +702,7 @@ export function findConnectors(index: FinderIndex, query: FinderQuery): FinderRe
       const t = top.length < limit ? -Infinity : top[top.length - 1].key;
       if (bound[i] < t) continue;
       const c = cand[i];
-      const ranked = assign(index, c, W, cost, matrices);
+      const ranked = assign(index, c, W, cost, setOf[contextOf[c]] * TABLE, matrices);
       assigned++;
       ranked.key += boostMode && index.familyOf[c] === familyId ? FAMILY_BOOST : 0;
       if (top.length === limit && !better(ranked, top[top.length - 1])) continue;
@@ -613,19 +718,22 @@ export function findConnectors(index: FinderIndex, query: FinderQuery): FinderRe
   const candidates = top.map((r): FinderCandidate => {
     const con = index.connectors[r.c];
     const start = pinStart[r.c];
+    const t = setOf[contextOf[r.c]];
     const matches = wires.map((wire, w): FinderMatch => {
       const p = r.assign[w];
       const k = p < 0 ? 0 : pinCombo[start + p];
-      if (k === 0) return { wire, cavity: null, pinColour: null, quality: "none", cost: FINDER_COSTS.noCavity, reading: [] };
+      if (k === 0) return { wire, cavity: null, pinColour: null, quality: "none", cost: FINDER_COSTS.noCavity, reading: [], readAs: null };
       const pin = con.pins[p];
-      const cell = k * W + w;
+      const cell = t * TABLE + k * W + w;
+      const colours = sets[t].readings[w][readingOf[cell]];
       return {
         wire,
         cavity: pin.cavity,
         pinColour: pin.code ?? pin.colours.join("/"),
         quality: QUALITIES[quality[cell]],
         cost: cost[cell] / SCALE,
-        reading: [...read.readings[w][readingOf[cell]]],
+        reading: [...colours],
+        readAs: { ...sets[t].origins[w][readingOf[cell]], colours: [...colours], words: wordsOf(colours) },
       };
     });
     const connector: FinderCandidate["connector"] = { slug: con.slug, name: con.name, family: con.family };
@@ -654,8 +762,14 @@ function boundWithTooFewPins(mins: Int32Array, W: number, P: number): number {
   return lb;
 }
 
-/** Optimal assignment of the W wires to connector c's cavities (munkres on the W × P matrix). */
-function assign(index: FinderIndex, c: number, W: number, cost: Int32Array, matrices: Map<number, number[][]>): Ranked {
+// A reading is base first even where it came from IEC (readingsOf chose the base), so it is worded as base and tracers.
+function wordsOf(colours: readonly ColourName[]): string {
+  const [base, ...tracers] = colours;
+  return describeColour({ base: { name: base, iec: null }, tracers: tracers.map((name) => ({ name, iec: null })), colours: [...colours] });
+}
+
+/** Optimal assignment of the W wires to connector c's cavities (munkres on the W × P matrix of cost table `off`). */
+function assign(index: FinderIndex, c: number, W: number, cost: Int32Array, off: number, matrices: Map<number, number[][]>): Ranked {
   const start = index.pinStart[c];
   const P = index.pinStart[c + 1] - start;
   const out = new Int32Array(W).fill(-1);
@@ -669,7 +783,7 @@ function assign(index: FinderIndex, c: number, W: number, cost: Int32Array, matr
     }
     for (let w = 0; w < W; w++) {
       const row = matrix[w];
-      for (let p = 0; p < P; p++) row[p] = cost[index.pinCombo[start + p] * W + w];
+      for (let p = 0; p < P; p++) row[p] = cost[off + index.pinCombo[start + p] * W + w];
     }
     for (const [w, p] of munkres(matrix)) out[w] = p;
   }
@@ -679,7 +793,7 @@ function assign(index: FinderIndex, c: number, W: number, cost: Int32Array, matr
       out[w] = -1;
       total += NO_CAVITY;
     } else {
-      total += cost[index.pinCombo[start + p] * W + w];
+      total += cost[off + index.pinCombo[start + p] * W + w];
       explained++;
     }
   }

@@ -2,7 +2,7 @@
  * Submissions: the states a proposed card passes through, what a proposal must hold before it can be reviewed, and what
  * it changes against the published card. Pure: no framework, no database.
  */
-import { decodeColour, type ColourSystemId } from "./colours";
+import { decodeColour, type ColourSystemId, type HouseStyleId } from "./colours";
 import { layoutProblems, type HousingLayout } from "./connector-face";
 
 /** Our words for the states (PRODUCT.md): draft, in review, published, returned, declined. */
@@ -139,7 +139,7 @@ export function proposalProblems(
   p: CardProposal,
   colourSystem: ColourSystemId,
   cards: ReadonlyMap<string, readonly string[]> = new Map(),
-  opts: { requireSource?: { kind: string; detail: string } } = {},
+  opts: { requireSource?: { kind: string; detail: string }; houseStyle?: HouseStyleId | null } = {},
 ): Problem[] {
   const out: Problem[] = [];
   if (!p.name.trim()) out.push({ field: "name", message: "Give the card a name, e.g. “Pickup coil plug”." });
@@ -154,7 +154,7 @@ export function proposalProblems(
     else if (seen.has(pin.cavity)) out.push({ field: `${at}.cavity`, message: `Row ${i + 1}: cavity “${pin.cavity}” is listed twice.` });
     seen.add(pin.cavity);
     if (pin.code) {
-      const d = decodeColour(pin.code, colourSystem);
+      const d = decodeColour(pin.code, colourSystem, { houseStyle: opts.houseStyle });
       if (!d.ok) out.push({ field: `${at}.code`, message: `Row ${i + 1}: “${pin.code}” is not a colour in this family's notation (${d.error.message}).` });
     }
     if (pin.terminal && !isTerminalDesignation(pin.terminal)) {

@@ -1,6 +1,7 @@
 import { useEffect, useRef, useState } from "react";
 import { Form, Link, useFetcher } from "react-router";
 import type { Route } from "./+types/finder";
+import { Cautions } from "~/components/cautions";
 import { ColourChip } from "~/components/colour-chip";
 import { COLOUR_NAMES, swatch } from "~/domain/colours";
 import { FADING_PAIRS } from "~/domain/colour-finder";
@@ -12,7 +13,14 @@ export const meta: Route.MetaFunction = () => [
   { name: "description", content: "Enter the wire colours left on a cut-off plug and see which connectors in the library they most likely came from." },
 ];
 
-type Candidate = { connector: { slug: string; name: string; family: string; familyName?: string }; score: number; matches: { wire: string; cavity: string | null; pinColour: string | null; quality: string }[] };
+type ReadAs = { system: string; houseStyle: string | null; words: string };
+type Candidate = {
+  connector: { slug: string; name: string; family: string; familyName?: string }; score: number;
+  matches: { wire: string; cavity: string | null; pinColour: string | null; quality: string; readAs?: ReadAs | null }[];
+};
+
+// The house where a notation has several (jis), else the notation: what the rider needs to see which reading was used.
+const readAsLabel = (r: ReadAs) => `${r.houseStyle && r.system === "jis" ? r.houseStyle : r.system.toUpperCase()}: ${r.words}`;
 
 const splitWires = (raw: string) => raw.split(/[\n,;]+/).map((w) => w.trim()).filter(Boolean);
 const PICKABLE = COLOUR_NAMES.filter((c) => c !== "gold" && c !== "silver");
@@ -72,8 +80,10 @@ export default function FinderPage({ loaderData }: Route.ComponentProps) {
     <div className="space-y-6">
       <header className="max-w-3xl">
         <h1 className="text-3xl font-bold">Colour finder</h1>
-        <p className="mt-1 text-muted">The plug is gone and some wires are left? Enter the colours you can see — any notation, any order (<code>W/R</code>, <code>ws/rt</code>, <code>red/white</code>) — and the library&apos;s connectors are ranked by how well they explain them.</p>
+        <p className="mt-1 text-muted">The plug is gone and some wires are left? Enter the colours you can see — any notation, any order (<code>W/R</code>, <code>ws/rt</code>, <code>red/white</code>) — and the library&apos;s connectors are ranked by how well they explain them. Each connector reads your codes the way its own maker writes them where it can, and says beside each wire which reading it used.</p>
       </header>
+      {/* Identifying a plug usually ends in cutting into the loom or probing it. */}
+      <Cautions kinds={["battery"]} className="max-w-3xl" />
       <div className="grid gap-6 lg:grid-cols-[380px_1fr]">
         <Form method="get" className="space-y-4 rounded-md border border-rule bg-white p-4" aria-label="Wires you can see">
           <label className="block text-sm font-semibold">Wire colours, one per line
@@ -141,11 +151,12 @@ export default function FinderPage({ loaderData }: Route.ComponentProps) {
                   <span className="font-semibold" title="1 − mean cost of the wire matches">{Math.round(c.score * 100)} % match</span>
                 </p>
                 <table className="mt-2 w-full text-left text-sm">
-                  <thead><tr className="border-b border-rule"><th className="py-1">Your wire</th><th>Cavity</th><th>Card says</th><th>Match</th></tr></thead>
+                  <thead><tr className="border-b border-rule"><th className="py-1">Your wire</th><th>Read as</th><th>Cavity</th><th>Card says</th><th>Match</th></tr></thead>
                   <tbody>
                     {c.matches.map((m, j) => (
                       <tr key={j} className="border-b border-rule/60">
                         <td className="py-1"><code className="font-semibold">{m.wire}</code></td>
+                        <td className="text-xs text-muted">{m.readAs ? <span data-read-as={m.readAs.houseStyle ?? m.readAs.system}>{readAsLabel(m.readAs)}</span> : "—"}</td>
                         <td>{m.cavity ? <Link to={`/connectors/${c.connector.slug}?cavity=${encodeURIComponent(m.cavity)}#pin-${m.cavity}`} className="underline">cavity {m.cavity}</Link> : "—"}</td>
                         <td><code>{m.pinColour ?? "—"}</code></td>
                         <td><span aria-hidden="true">{QUALITY[m.quality]?.mark} </span>{QUALITY[m.quality]?.words ?? m.quality}</td>

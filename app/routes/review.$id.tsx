@@ -131,7 +131,7 @@ export default function ReviewItem({ loaderData, actionData }: Route.ComponentPr
       ) : null}
       <section aria-label="What the submission changes" className="space-y-3">
         <p className="rounded border-l-4 border-ink bg-white px-3 py-2 text-sm">Check each photo for people, number plates, addresses or anything else personal in frame; location and camera data were removed on upload.</p>
-        <CardDiffView diff={s.diff} colourSystem={s.colourSystem} photoUrl={(id, thumb) => (thumb ? photoUrls(id).thumbUrl : photoUrls(id).url)} notesHtml={notesHtml} />
+        <CardDiffView diff={s.diff} colourSystem={s.colourSystem} houseStyle={s.houseStyle} photoUrl={(id, thumb) => (thumb ? photoUrls(id).thumbUrl : photoUrls(id).url)} notesHtml={notesHtml} />
       </section>
       {s.canReview ? (
         <Form method="post" className="space-y-3 rounded-md border-2 border-ink bg-white p-4" aria-labelledby="decide">

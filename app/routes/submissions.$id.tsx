@@ -142,7 +142,7 @@ export default function SubmissionPage({ loaderData, actionData }: Route.Compone
                 <p className="text-sm text-muted">Change the card below if the question calls for it, then send it back.</p>
               </section>
             ) : null}
-            <ProposalEditor proposal={proposal} colourSystem={s.colourSystem} familyCards={s.familyCards} problems={problems} />
+            <ProposalEditor proposal={proposal} colourSystem={s.colourSystem} houseStyle={s.houseStyle} familyCards={s.familyCards} problems={problems} />
             <fieldset className="rounded-md border border-rule bg-white p-4">
               <legend className="px-1 text-xl font-bold">Photos on this card</legend>
               {photos.length ? (
@@ -186,7 +186,7 @@ export default function SubmissionPage({ loaderData, actionData }: Route.Compone
         </>
       ) : (
         <section aria-label="What the submission changes" className="space-y-3">
-          <CardDiffView diff={s.diff} colourSystem={s.colourSystem} photoUrl={(id, thumb) => (thumb ? photoUrls(id).thumbUrl : photoUrls(id).url)} notesHtml={notesHtml} />
+          <CardDiffView diff={s.diff} colourSystem={s.colourSystem} houseStyle={s.houseStyle} photoUrl={(id, thumb) => (thumb ? photoUrls(id).thumbUrl : photoUrls(id).url)} notesHtml={notesHtml} />
         </section>
       )}
     </div>

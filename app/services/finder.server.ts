@@ -1,9 +1,8 @@
 /** The colour finder over the whole library: one index, rebuilt when the library changes. */
-import { Connector, Family, Pin, System } from "~db/models/index.ts";
-import { buildFinderIndex, findConnectors, readWires, type FinderConnector, type FinderIndex, type FinderQuery } from "~/domain/colour-finder";
-import { decodeColour, type ColourSystemId } from "~/domain/colours";
+import { Connector, Family, Make, Pin, System } from "~db/models/index.ts";
+import { buildFinderIndex, findConnectors, type FinderConnector, type FinderIndex, type FinderQuery } from "~/domain/colour-finder";
+import { decodeColour, houseFor, type ColourSystemId } from "~/domain/colours";
 import { ensureDatabase } from "./database.server";
-import { isSlug } from "~/validation/library";
 
 let index: Promise<FinderIndex> | null = null;
 
@@ -14,17 +13,22 @@ export function forgetFinderIndex() {
 
 async function build(): Promise<FinderIndex> {
   await ensureDatabase();
-  const [families, systems, connectors, pins] = await Promise.all([Family.findAll(), System.findAll(), Connector.findAll(), Pin.findAll()]);
+  const [families, systems, connectors, pins] = await Promise.all([
+    Family.findAll({ include: [{ model: Make, as: "make" }] }), System.findAll(), Connector.findAll(), Pin.findAll(),
+  ]);
   const fam = new Map(families.map((f) => [f.id, f]));
   const sys = new Map(systems.map((s) => [s.id, s.kind]));
   const byConnector = new Map<number, Pin[]>();
   for (const p of pins) if (p.connectorId) (byConnector.get(p.connectorId) ?? byConnector.set(p.connectorId, []).get(p.connectorId)!).push(p);
   const list: FinderConnector[] = connectors.map((c) => {
     const f = fam.get(c.familyId)!;
+    const notation = f.colourSystem as ColourSystemId;
+    // The card's codes and the rider's typed ones are both read the way the family's make writes them.
+    const houseStyle = houseFor(f.colourSystem, f.make?.houseStyle);
     return {
-      slug: c.slug, name: c.name, family: f.slug, familyName: f.name, system: sys.get(c.systemId) ?? "", gender: c.gender,
+      slug: c.slug, name: c.name, family: f.slug, familyName: f.name, system: sys.get(c.systemId) ?? "", gender: c.gender, notation, houseStyle,
       pins: (byConnector.get(c.id) ?? []).map((p) => {
-        const d = p.colourCode ? decodeColour(p.colourCode, f.colourSystem as ColourSystemId) : null;
+        const d = p.colourCode ? decodeColour(p.colourCode, notation, { houseStyle }) : null;
         return { cavity: p.cavity, code: p.colourCode, colours: d?.ok ? d.value.colours : [] };
       }),
     };
@@ -33,18 +37,13 @@ async function build(): Promise<FinderIndex> {
 }
 
 /**
- * Rank the library's connectors for the colours a rider sees on a cut-off plug. A rider who names their family
- * most likely reads the codes off its own diagram: that family's notation is used when every code parses in it.
+ * Rank the library's connectors for the colours a rider sees on a cut-off plug. Each connector reads the typed codes
+ * in its own family's notation and make's house when they all read there (the finder domain decides), so naming a
+ * family needs no notation of its own here.
  */
 export async function findByColours(query: FinderQuery) {
   index ??= build().catch((e) => { index = null; throw e; });
-  let notation = query.notation;
-  if (!notation && query.family && isSlug(query.family)) {
-    const fam = await Family.findOne({ where: { slug: query.family } });
-    const own = fam?.colourSystem as FinderQuery["notation"] | undefined;
-    if (own && own !== "auto" && readWires(query.wires, own).ok) notation = own;
-  }
   const started = performance.now();
-  const result = findConnectors(await index, { ...query, notation: notation ?? "auto" });
+  const result = findConnectors(await index, query);
   return { result, tookMs: Math.round((performance.now() - started) * 100) / 100 };
 }

@@ -1,7 +1,7 @@
 /** Reads of the published library: makes, families, connector cards, face geometry, CSV. */
 import { Op } from "sequelize";
 import { Component, Connector, Family, Make, Photo, Pin, Revision, SpecValue, System, Wire } from "~db/models/index.ts";
-import { decodeColour, describeColour, type ColourSystemId } from "~/domain/colours";
+import { decodeColour, describeColour, houseFor, type ColourSystemId, type HouseStyleId } from "~/domain/colours";
 import { facePaint, type CavityPaint } from "~/domain/face-paint";
 import { faceGeometry, type FaceHalf, type FaceSide, type HousingLayout } from "~/domain/connector-face";
 import { ensureDatabase } from "./database.server";
@@ -14,6 +14,8 @@ export interface FamilySummary {
   slug: string; name: string; make: { slug: string; name: string }; yearFrom: number; yearTo: number; engine: string;
   cylinders: number; firingOrder: string; ignition: string; displacementCc: number; modelRange: string; colourSystem: string; crankDeg: number | null;
   systemVoltage: number; earth: "negative" | "positive";
+  /** The make's house style, when it belongs to the family's notation (API.md additions); null for the notation's usual reading. */
+  houseStyle: HouseStyleId | null;
 }
 
 function familySummary(f: Family & { make?: Make }): FamilySummary {
@@ -21,6 +23,7 @@ function familySummary(f: Family & { make?: Make }): FamilySummary {
     slug: f.slug, name: f.name, make: { slug: f.make!.slug, name: f.make!.name }, yearFrom: f.yearFrom, yearTo: f.yearTo, engine: f.engine,
     cylinders: f.cylinders, firingOrder: f.firingOrder, ignition: f.ignition, displacementCc: f.displacementCc, modelRange: f.modelRange,
     colourSystem: f.colourSystem, crankDeg: f.crankDeg, systemVoltage: f.systemVoltage, earth: f.earth,
+    houseStyle: houseFor(f.colourSystem, f.make!.houseStyle),
   };
 }
 
@@ -64,7 +67,8 @@ function layoutOf(c: Connector): HousingLayout {
 }
 
 /** The card's face paint (one rule for every face view: app/domain/face-paint.ts). */
-const paintFor = (pins: Pin[], system: ColourSystemId): FacePaint[] => facePaint(pins.map((p) => ({ cavity: p.cavity, code: p.colourCode })), system);
+const paintFor = (pins: Pin[], system: ColourSystemId, houseStyle: HouseStyleId | null): FacePaint[] =>
+  facePaint(pins.map((p) => ({ cavity: p.cavity, code: p.colourCode })), system, houseStyle);
 
 /** A family with its systems and their connectors (thumbnails included), or null. */
 export async function getFamily(slug: string) {
@@ -76,11 +80,12 @@ export async function getFamily(slug: string) {
   const connectors = await Connector.findAll({ where: { familyId: family.id }, order: [["id", "ASC"]] });
   const pins = await Pin.findAll({ where: { connectorId: connectors.map((c) => c.id) }, order: [["position", "ASC"]] });
   const system = family.colourSystem as ColourSystemId;
+  const house = houseFor(family.colourSystem, family.make!.houseStyle);
   const summary = (c: Connector): ConnectorSummary => {
     const own = pins.filter((p) => p.connectorId === c.id);
     return {
       slug: c.slug, name: c.name, pinCount: own.length, location: c.location, gender: c.gender, housing: c.housing,
-      side: c.componentId ? "component" : "loom", layout: layoutOf(c), paint: paintFor(own, system),
+      side: c.componentId ? "component" : "loom", layout: layoutOf(c), paint: paintFor(own, system, house),
     };
   };
   return {
@@ -117,9 +122,10 @@ export async function getConnectorCard(slug: string) {
     Revision.findAll({ where: { connectorId: c.id }, attributes: ["number", "summary", "publishedAt"], order: [["number", "DESC"]] }),
   ]);
   const colourSystem = family.colourSystem as ColourSystemId;
+  const houseStyle = houseFor(family.colourSystem, family.make!.houseStyle);
   const [destinations, checks] = await Promise.all([wireDestinations(pins), bikeChecks(c.id)]);
   const pinRows: PinRow[] = pins.map((p) => {
-    const d = p.colourCode ? decodeColour(p.colourCode, colourSystem) : null;
+    const d = p.colourCode ? decodeColour(p.colourCode, colourSystem, { houseStyle }) : null;
     const dest = owner ? [{ label: `into the ${owner.name.replace(/^./, (ch) => ch.toLowerCase())}`, connector: null, cavity: null }] : destinations.get(p.id) ?? [];
     const first = dest.find((x) => x.connector);
     return {
@@ -139,7 +145,7 @@ export async function getConnectorCard(slug: string) {
       family: { slug: family.slug, name: family.name, make: { slug: family.make!.slug, name: family.make!.name }, yearFrom: family.yearFrom, yearTo: family.yearTo },
       system: system.kind, systemName: system.name, location: c.location, gender: c.gender, housing: c.housing,
       matesWith: mate?.slug ?? null, mateName: mate?.name ?? null, component: owner ? { name: owner.name, kind: owner.kind } : null,
-      colourSystem, layout: layoutOf(c), pins: pinRows,
+      colourSystem, houseStyle, layout: layoutOf(c), pins: pinRows,
       specs: specs.map((s) => ({
         name: s.name, min: s.min, max: s.max, unit: s.unit, between: [s.betweenA, s.betweenB] as [string, string], atC: s.atC, source: s.source,
         conditions: s.conditions, kind: s.kind, material: s.material,
@@ -151,7 +157,7 @@ export async function getConnectorCard(slug: string) {
       bikeChecked: checks.count,
       bikeCheckedYears: checks.years,
       id: c.id,
-      paint: paintFor(pins, colourSystem),
+      paint: paintFor(pins, colourSystem, houseStyle),
     },
   };
 }

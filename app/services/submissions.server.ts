@@ -13,7 +13,7 @@ import {
 } from "~db/models/index.ts";
 import { libraryDocs, writeFallbackDocs } from "~db/search-index.ts";
 import { connectorSnapshot, type ConnectorSnapshot } from "~db/snapshot.ts";
-import type { ColourSystemId } from "~/domain/colours";
+import { houseFor, type ColourSystemId } from "~/domain/colours";
 import { reviewOutcomeMessage } from "~/domain/mail-templates";
 import { can, type Role } from "~/domain/roles";
 import {
@@ -68,7 +68,7 @@ const wrote = (point: FaultPoint) => faultHook?.(point);
 // ---------------------------------------------------------------------------------------------------------------------
 // Families and their cards
 
-/** A family's notation and the cards a wire can go to (slug, name, cavities). */
+/** A family's notation (with its make's house style) and the cards a wire can go to (slug, name, cavities). */
 async function familyContext(familyId: number | null, familyRequest: FamilyRequest | null, transaction?: Transaction) {
   if (familyId) {
     const family = await Family.findByPk(familyId, { include: [{ model: Make, as: "make" }], transaction, rejectOnEmpty: true });
@@ -76,6 +76,7 @@ async function familyContext(familyId: number | null, familyRequest: FamilyReque
     return {
       family: { slug: family.slug, name: family.name, make: { slug: family.make!.slug, name: family.make!.name } },
       colourSystem: family.colourSystem as ColourSystemId,
+      houseStyle: houseFor(family.colourSystem, family.make!.houseStyle),
       cards: connectors.map((c) => ({ slug: c.slug, name: c.name, cavities: c.cavities.map((x) => x.cavity) })),
     };
   }
@@ -83,6 +84,7 @@ async function familyContext(familyId: number | null, familyRequest: FamilyReque
   return {
     family: null,
     colourSystem: (make?.colourSystem ?? "en") as ColourSystemId,
+    houseStyle: make ? houseFor(make.colourSystem, make.houseStyle) : null,
     cards: [] as { slug: string; name: string; cavities: string[] }[],
   };
 }
@@ -103,7 +105,7 @@ async function submissionProblems(s: Submission, transaction?: Transaction, know
   const parsed = proposalSchema.safeParse(s.content);
   if (!parsed.success) return parsed.error.issues.map((i) => ({ field: i.path.map(String).join("."), message: i.message }));
   const cards = new Map(ctx.cards.map((c) => [c.slug, c.cavities]));
-  return proposalProblems(parsed.data, ctx.colourSystem, cards, { requireSource: { kind: s.sourceKind, detail: s.sourceDetail } });
+  return proposalProblems(parsed.data, ctx.colourSystem, cards, { requireSource: { kind: s.sourceKind, detail: s.sourceDetail }, houseStyle: ctx.houseStyle });
 }
 
 // ---------------------------------------------------------------------------------------------------------------------
@@ -277,7 +279,7 @@ export async function viewSubmission(viewer: Actor | null, id: number) {
   const state = s.state as SubmissionState;
   return {
     id: s.id, kind: s.kind, state, stateLabel: STATE_LABELS[state], version: s.version,
-    family: ctx.family, familyRequest, colourSystem: ctx.colourSystem, familyCards: ctx.cards,
+    family: ctx.family, familyRequest, colourSystem: ctx.colourSystem, houseStyle: ctx.houseStyle, familyCards: ctx.cards,
     connector: connector ? { slug: connector.slug, name: connector.name, revision: connector.revision } : null,
     baseRevision: s.baseRevision,
     // The card was published again after this edit began: approving would overwrite that revision.
@@ -471,7 +473,7 @@ async function publish(s: Submission, transaction: Transaction): Promise<{ conne
     newFamily = true;
   }
   const ctx = await familyContext(family.id, null, transaction);
-  const problems = proposalProblems(p, ctx.colourSystem, new Map(ctx.cards.map((c) => [c.slug, c.cavities])));
+  const problems = proposalProblems(p, ctx.colourSystem, new Map(ctx.cards.map((c) => [c.slug, c.cavities])), { houseStyle: ctx.houseStyle });
   if (problems.length) throw new SubmissionError(409, "conflict", `The proposal no longer fits the library: ${problems[0].message}`, problems[0].field, problems);
   const before = new Set(await checkLibrary({ familyId: family.id, transaction }));
 

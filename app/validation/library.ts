@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { COLOUR_SYSTEM_IDS } from "~/domain/colours";
+import { COLOUR_SYSTEM_IDS, type ColourSystemId } from "~/domain/colours";
 
 const SLUG = /^[a-z0-9]+(?:-[a-z0-9]+)*$/;
 const slug = z.string().max(120, "is too long for a slug").regex(SLUG, "must be a lowercase kebab-case slug");
@@ -27,9 +27,11 @@ export const faceQuery = z.object({
 
 export const connectorQuery = z.object({ format: z.enum(["json", "csv"]).default("json") });
 
+// system is left undefined when not given, so that with a make the make's notation can stand in for it.
 export const decodeQuery = z.object({
   code: z.string().trim().min(1, "give a colour code, e.g. W/R").max(60, "is too long for a colour code"),
-  system: z.enum(["auto", ...COLOUR_SYSTEM_IDS] as [string, ...string[]]).default("auto"),
+  system: z.enum(["auto", ...COLOUR_SYSTEM_IDS] as ["auto", ...ColourSystemId[]]).optional(),
+  make: slug.optional(),
 });
 
 /** Query-string parameters as a plain object, empty values dropped (a blank form field means "not given"). */

@@ -38,4 +38,25 @@ describe.skipIf(skipBrowser)("colour codes page in Chromium", () => {
     expect(new URL(page.url()).search).toBe("");
     await page.screenshot({ path: artifact("colours.png"), fullPage: true });
   });
+  it("decodes live in the chosen make's house and shows the green-and-yellow caution", async () => {
+    const page = await open();
+    await page.goto("/colours");
+    await waitForHydration(page, "input[name=code]");
+    // db/seeders/demo/makes.ts: brennwald writes DIN, where bl is blue (REFERENCE-FACTS 1.2, DIN 47002 [published]).
+    await page.getByRole("combobox", { name: "Make" }).selectOption("brennwald");
+    const call = page.waitForResponse((r) => {
+      const u = new URL(r.url());
+      return u.pathname.startsWith("/api/v1/colours/decode") && u.searchParams.get("make") === "brennwald" && u.searchParams.get("code") === "Bl";
+    }, { timeout: 3_000 });
+    await page.getByRole("textbox", { name: "Code" }).pressSequentially("Bl", { delay: 20 });
+    expect((await call).status()).toBe(200);
+    await page.waitForFunction(() => /house style din/.test(document.querySelector("[data-testid=decode-result]")?.textContent ?? ""), null, { timeout: 2_000 });
+    expect(await page.getByTestId("decode-result").innerText()).toMatch(/\bblue\b/);
+    // IEC 60445 (REFERENCE-FACTS 5 [published]): green with yellow is kept for the protective conductor.
+    await page.getByRole("combobox", { name: "Make" }).selectOption("asagiri");
+    await page.getByRole("textbox", { name: "Code" }).fill("G/Y");
+    await page.waitForSelector("[data-testid=decode-result] [data-warning=green_yellow_reserved]", { timeout: 2_000 });
+    expect(await page.locator("[data-warning=green_yellow_reserved]").innerText()).toMatch(/IEC 60445/);
+    expect(new URL(page.url()).search).toBe("");
+  });
 });

@@ -154,6 +154,20 @@ describe("faults the check must report (each injected, checked, undone)", () => 
     expect(problems.some((p) => p.startsWith(`${slug}: colour "Zz" does not parse in the family's notation (${f.colourSystem})`)), problems.join("\n")).toBe(true);
   });
 
+  it("(c) rx750-four: a code of another Japanese-style house (Bl) does not parse in its make's house, jis-letters", async () => {
+    // REFERENCE-FACTS 1.3 [from memory]: jis-letters writes B black, L blue; Bl is another house's (REFERENCE-FACTS 5).
+    const f = fam("rx750-four");
+    const conn = (await loomConnectors(f))[0];
+    const pin = (await pinsOf(conn)).find((p) => p.colourCode)!;
+    const was = pin.colourCode;
+    const problems = await withFault(async () => {
+      await pin.update({ colourCode: "Bl" });
+      return () => pin.update({ colourCode: was });
+    });
+    expectOnly(problems, f);
+    expect(problems.some((p) => p.startsWith(`rx750-four: colour "Bl" does not parse in the family's notation (jis)`) && p.includes("jis-letters")), problems.join("\n")).toBe(true);
+  });
+
   each("(d) %s: deleting any one wire of the kill-run net breaks the ignition circuit → does not close", async (slug) => {
     const f = fam(slug);
     // The kill-run net: "ignition feed after the kill switch" (or "… kill button" on the British twins), db/seeders/demo/templates.ts.

@@ -1,12 +1,14 @@
 // Colour finder speed: npx tsx tests/perf/colour-finder.bench.ts
 // Invented, seeded libraries of 10 000 and 100 000 connectors (the 100k library starts with the
 // 10k one), one index each, and the same 200 fixed queries (2–6 wires, dropped, faded, tracers
-// worn off, re-written in another notation) against both. Prints figures; asserts nothing.
+// worn off, re-written in another notation) against both. Each library runs twice: connectors with no notation (every
+// reading of a typed code for every connector), then with each family in a notation and house style, so that a
+// connector reads the codes as its maker writes them (one cost table per house). Prints figures; asserts nothing.
 
 import { loadavg } from "node:os";
 import { mulberry32, pick } from "../fixtures/random.ts";
 import { performance } from "node:perf_hooks";
-import { encodeColour, type ColourName, type ColourSystemId } from "../../app/domain/colours/index.ts";
+import { encodeColour, type ColourName, type ColourSystemId, type HouseStyleId } from "../../app/domain/colours/index.ts";
 import {
   FADING_PAIRS,
   buildFinderIndex,
@@ -83,6 +85,17 @@ function queries(lib: FinderConnector[], count: number, seed: number): { wires: 
   return out;
 }
 
+// Invented families spread over the house styles Loomlore knows, and one jis family with no house.
+const HOUSES: [ColourSystemId, HouseStyleId | null][] = [
+  ["jis", "jis-letters"], ["jis", "jis-bl-black"], ["jis", "jis-bl-blue"], ["jis", "jis-caps"], ["din", "din"], ["bs", "bs"], ["en", "en"], ["jis", null],
+];
+/** The same connectors with each family (bench-family-<n>) in one notation and house. */
+const housed = (lib: FinderConnector[]): FinderConnector[] =>
+  lib.map((c) => {
+    const [notation, houseStyle] = HOUSES[Number(c.family.slice("bench-family-".length)) % HOUSES.length];
+    return { ...c, notation, houseStyle };
+  });
+
 const pct = (xs: number[], p: number) => xs[Math.min(xs.length - 1, Math.ceil((p / 100) * xs.length) - 1)];
 const ms = (x: number) => `${x.toFixed(2)} ms`;
 
@@ -126,5 +139,8 @@ const qs = queries(small, 200, 60757);
 // so the process CPU time per query is printed too.
 console.log(`node ${process.version}, ${qs.length} queries of 2–6 wires, load average ${loadavg()[0].toFixed(1)}`);
 const p95small = run("10k", small, qs);
-const p95big = run("100k", small.concat(library(90_000, rnd, 10_000)), qs);
-console.log(`colour-finder 100k/10k p95 ratio: ${(p95big / p95small).toFixed(1)}`);
+const p95smallHoused = run("10k, house styles", housed(small), qs);
+const big = small.concat(library(90_000, rnd, 10_000));
+const p95big = run("100k", big, qs);
+const p95bigHoused = run("100k, house styles", housed(big), qs);
+console.log(`colour-finder 100k/10k p95 ratio: ${(p95big / p95small).toFixed(1)}; with house styles ${(p95bigHoused / p95smallHoused).toFixed(1)}`);

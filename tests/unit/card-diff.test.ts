@@ -43,8 +43,9 @@ const clone = (c: CardProposal): CardProposal => structuredClone(c);
 const url = (id: string, thumb: boolean) => `/photos/${id}${thumb ? "?size=thumb" : ""}`;
 const notesHtml = { before: "<p>Old notes.</p>", after: "<p>New <strong>notes</strong>.</p>" };
 
+// jis-letters is the demo's Japanese-style house (REFERENCE-FACTS 1.3): there "Bl" is not understood.
 function render(before: CardProposal | null, after: CardProposal, notes = notesHtml) {
-  const html = renderToStaticMarkup(createElement(CardDiffView, { diff: diffCards(before, after), colourSystem: "jis", photoUrl: url, notesHtml: notes }));
+  const html = renderToStaticMarkup(createElement(CardDiffView, { diff: diffCards(before, after), colourSystem: "jis", houseStyle: "jis-letters", photoUrl: url, notesHtml: notes }));
   const nodes = parseDocument(html).children;
   const all = (pred: (e: El) => boolean) => DomUtils.findAll(pred, nodes);
   const text = (e: El) => DomUtils.textContent(e).replace(/\s+/g, " ").trim();

@@ -506,3 +506,106 @@ describe("errors", () => {
     expect(findConnectors(INDEX, { wires: Array.from({ length: MAX_WIRES }, () => "B") }).ok).toBe(true);
   });
 });
+
+// ---- House styles: each connector reads the typed codes as its own maker writes them ---------
+
+describe("reading the typed codes per connector (notation and house style)", () => {
+  // Invented cards. Two Japanese-style houses that both write "Bl/W": black with white in one, blue with white in the
+  // other (REFERENCE-FACTS 5 [from memory]); a DIN card (REFERENCE-FACTS 1.2); a British card (REFERENCE-FACTS 1.5).
+  const housed = (slug: string, family: string, notation: ColourSystemId, houseStyle: FinderConnector["houseStyle"], pins: [string, ColourName[]][]): FinderConnector => ({
+    slug, name: `Connector ${slug}`, family, system: "lighting", gender: "plug", notation, houseStyle,
+    pins: pins.map(([code, colours], i) => ({ cavity: String(i + 1), code, colours })),
+  });
+  const BLACK_HOUSE = housed("bl-black-2", "fam-bl-black", "jis", "jis-bl-black", [["Bl/W", ["black", "white"]], ["R", ["red"]]]);
+  const BLUE_HOUSE = housed("bl-blue-2", "fam-bl-blue", "jis", "jis-bl-blue", [["Bl/W", ["blue", "white"]], ["R", ["red"]]]);
+  const LETTERS = housed("letters-2", "fam-letters", "jis", "jis-letters", [["B/W", ["black", "white"]], ["Gr", ["grey"]]]);
+  const GERMAN = housed("din-2", "fam-din", "din", "din", [["bl/ws", ["blue", "white"]], ["gr", ["grey"]]]);
+  const BRITISH = housed("bs-2", "fam-bs", "bs", "bs", [["N", ["brown"]], ["UW", ["blue", "white"]]]);
+  const HOUSED = buildFinderIndex([BLACK_HOUSE, BLUE_HOUSE, LETTERS, GERMAN, BRITISH]);
+  const bySlug = (cs: FinderCandidate[], slug: string) => cs.find((c) => c.connector.slug === slug)!;
+
+  it("readWires lists each Japanese-style house's reading with where it comes from", () => {
+    // REFERENCE-FACTS 5 [from memory]: Bl black (one house), Bl blue (another).
+    const r = readWires(["Bl/W"]);
+    if (!r.ok) throw new Error(r.error.message);
+    const of = (colours: ColourName[]) => r.origins[0][r.readings[0].findIndex((x) => x.join("/") === colours.join("/"))];
+    expect(of(["black", "white"])).toEqual({ system: "jis", houseStyle: "jis-bl-black" });
+    expect(of(["blue", "white"])).toEqual({ system: "jis", houseStyle: "jis-bl-blue" });
+    const one = readWires(["Bl"], "jis", { houseStyle: "jis-bl-blue" });
+    expect(one.ok && [one.readings, one.origins]).toEqual([[[["blue"]]], [[{ system: "jis", houseStyle: "jis-bl-blue" }]]]);
+  });
+
+  it("English words are English in every notation: brown is never B+R+O+W+N", () => {
+    // Common practice; the British letters B R O W N (REFERENCE-FACTS 1.5) would otherwise spell it out.
+    for (const notation of ["auto", "bs", "jis", "din"] as const) {
+      const r = readWires(["BROWN"], notation);
+      expect(r.ok && [r.readings, r.origins], notation).toEqual([[[["brown"]]], [[{ system: "en", houseStyle: "en" }]]]);
+    }
+    const [best] = find({ wires: ["brown", "blue/white"] }, HOUSED);
+    expect(best.connector.slug).toBe("bs-2");
+    expect(best.matches.map((m) => [m.cavity, m.quality, m.readAs?.system])).toEqual([["1", "exact", "en"], ["2", "exact", "en"]]);
+  });
+
+  it("with no family, each connector is compared in its own house, and each match says which reading it used", () => {
+    // REFERENCE-FACTS 5 [from memory]: the same Bl/W is each house's own wire.
+    const cs = find({ wires: ["Bl/W", "R"] }, HOUSED);
+    const black = bySlug(cs, "bl-black-2");
+    const blue = bySlug(cs, "bl-blue-2");
+    expect([black.score, blue.score]).toEqual([1, 1]);
+    expect(black.matches[0].readAs).toEqual({ system: "jis", houseStyle: "jis-bl-black", colours: ["black", "white"], words: "black with white tracer" });
+    expect(blue.matches[0].readAs).toEqual({ system: "jis", houseStyle: "jis-bl-blue", colours: ["blue", "white"], words: "blue with white tracer" });
+    // The DIN card reads the typed codes as DIN only if they all read there: "R" does not, so it keeps every reading.
+    const din = bySlug(find({ wires: ["Bl/W", "R"], limit: 50 }, HOUSED), "din-2");
+    expect(din.matches[0].readAs?.houseStyle).not.toBe("din");
+  });
+
+  it("with a family, reads every wire in that family's notation and house", () => {
+    // REFERENCE-FACTS 1.2: DIN 47002 bl = blau, gr = grau [published]; jis-letters Gr grey (REFERENCE-FACTS 1.3).
+    const [din] = find({ wires: ["Bl", "Gr"], family: "fam-din" }, HOUSED);
+    expect(din.connector.slug).toBe("din-2");
+    expect(din.matches.map((m) => [m.wire, m.cavity, m.quality, m.readAs?.houseStyle])).toEqual([["Bl", "1", "tracer-missing", "din"], ["Gr", "2", "exact", "din"]]);
+    const [blue] = find({ wires: ["Bl/W", "R"], family: "fam-bl-blue" }, HOUSED);
+    expect(blue.matches.every((m) => m.quality === "exact" && m.readAs?.houseStyle === "jis-bl-blue")).toBe(true);
+    // Boosted, the other families still read in their own houses.
+    const boosted = find({ wires: ["Bl/W", "R"], family: "fam-bl-blue", familyMode: "boost" }, HOUSED);
+    expect(bySlug(boosted, "bl-black-2").matches[0].readAs?.houseStyle).toBe("jis-bl-black");
+  });
+
+  it("falls back to every reading when the typed codes are not in the connector's notation", () => {
+    // Common practice: blk/wht is English shorthand, not a jis-letters code.
+    const [best] = find({ wires: ["blk/wht", "gry"], family: "fam-letters" }, HOUSED);
+    expect(best.connector.slug).toBe("letters-2");
+    expect(best.matches.map((m) => [m.quality, m.readAs?.system])).toEqual([["exact", "en"], ["exact", "en"]]);
+  });
+
+  it("a notation named in the query reads for every connector", () => {
+    // REFERENCE-FACTS 1.2: bl/ws is DIN blue with white, which only the bl-blue house's Bl/W card holds.
+    const cs = find({ wires: ["bl/ws"], notation: "din" }, HOUSED);
+    expect(bySlug(cs, "bl-blue-2").matches[0].quality).toBe("exact");
+    expect(bySlug(cs, "bl-black-2").matches[0].quality).toBe("none");
+  });
+
+  it("a match with no cavity has no reading", () => {
+    const [best] = find({ wires: ["Bl/W", "R", "Y"], family: "fam-bl-black" }, HOUSED);
+    expect(best.matches[2]).toMatchObject({ cavity: null, readAs: null, reading: [] });
+  });
+
+  it("pruning does not change the ranking when connectors read in different houses", () => {
+    // Same check as above (every connector scored on its own index), over a library whose families have notations.
+    const HOUSES = [["jis", "jis-letters"], ["jis", "jis-bl-black"], ["jis", "jis-bl-blue"], ["jis", "jis-caps"], ["din", "din"], ["bs", "bs"], ["jis", null]] as const;
+    const lib = LIBRARY.map((c, i) => ({ ...c, notation: HOUSES[i % HOUSES.length][0], houseStyle: HOUSES[i % HOUSES.length][1] }));
+    const index = buildFinderIndex(lib);
+    const rnd = mulberry32(60445);
+    for (let trial = 0; trial < 20; trial++) {
+      const system = pick(rnd, ["jis", "din", "bs", "en"] as const);
+      const wires = Array.from({ length: 2 + Math.floor(rnd() * 4) }, () => {
+        const c = randomColours(rnd);
+        return encodeColour(c[0], c.slice(1), system) ?? encodeColour(c[0], c.slice(1), "en")!;
+      });
+      const r = findConnectors(index, { wires });
+      if (!r.ok) throw new Error(r.error.message);
+      const alone = lib.map((c) => find({ wires, limit: 1 }, buildFinderIndex([c]))[0]).sort((a, b) => b.score - a.score);
+      expect(r.candidates.map((c) => c.score), JSON.stringify(wires)).toEqual(alone.slice(0, DEFAULT_LIMIT).map((c) => c.score));
+    }
+  });
+});

@@ -4,26 +4,33 @@ import {
   COLOUR_SYSTEM_IDS,
   colourSystems,
   contrastRatio,
+  EN_COLOUR_WORDS,
+  HOUSE_STYLES,
+  JIS_HOUSE_ORDER,
   decodeColour,
   describeColour,
   encodeColour,
+  houseStyles,
+  isEnglishColourWords,
   iecCode,
   iecCombination,
   swatch,
   type ColourName,
   type ColourSystemId,
+  type DecodeOptions,
   type DecodedColour,
 } from "~/domain/colours";
+import { EN_CODES } from "~/domain/colours/systems";
 
 // Unwraps a decode that must succeed, with the error in the failure message if it did not.
-function ok(input: string, system: ColourSystemId | "auto"): DecodedColour {
-  const r = decodeColour(input, system);
+function ok(input: string, system: ColourSystemId | "auto", options?: DecodeOptions): DecodedColour {
+  const r = decodeColour(input, system, options);
   if (!r.ok) throw new Error(`decode(${JSON.stringify(input)}, ${system}) failed: ${r.error.message}`);
   return r.value;
 }
 
-function bad(input: string, system: ColourSystemId | "auto") {
-  const r = decodeColour(input, system);
+function bad(input: string, system: ColourSystemId | "auto", options?: DecodeOptions) {
+  const r = decodeColour(input, system, options);
   if (r.ok) throw new Error(`decode(${JSON.stringify(input)}, ${system}) should fail, got ${JSON.stringify(r.value)}`);
   expect(r.error.code).toBe("unknown_colour");
   return r.error;
@@ -133,8 +140,13 @@ describe("IEC 60757 code table", () => {
     expect(e.message).toContain("GNYE");
     expect(bad("YE/GN", "iec").part).toBe("YE/GN");
     expect(bad("GNRDYE", "iec").message).toContain("GNYE");
-    // In auto mode the broken rule is still the explanation given.
-    expect(bad("YEGN", "auto").message).toContain("GNYE");
+    // In auto mode the broken rule is still the explanation given where nothing else reads the code.
+    expect(bad("BK+BU", "auto").message).toMatch(/one wire/);
+    // YEGN is the upper-case pairs house's yellow with a green tracer (REFERENCE-FACTS 5 [from memory]), so auto reads it
+    // that way instead of refusing it, and flags it: IEC 60445 keeps green-and-yellow for the protective conductor.
+    const caps = ok("YEGN", "auto");
+    expect([caps.system, caps.houseStyle, wire(caps)]).toEqual(["jis", "jis-caps", ["yellow", "green"]]);
+    expect(caps.warnings.map((w) => w.code)).toEqual(["green_yellow_reserved"]);
   });
 
   it("combines any green + yellow into GNYE, since IEC has no other way to write them", () => {
@@ -375,14 +387,18 @@ describe("auto-detection and ambiguities", () => {
     expect(d.ambiguities).toEqual([{ system: "bs", reading: "white with red tracer" }]);
   });
 
-  it("Bl: blue in DIN, black in English shorthand, not Japanese", () => {
+  it("Bl: blue in DIN, black in English shorthand, black or blue in the Japanese-style houses that write it", () => {
     // REFERENCE-FACTS 1.5: DIN 47002 bl = blau [published] H; English BL = black [common practice] M.
     const d = ok("Bl", "auto");
     expect(d.system).toBe("din");
     expect(d.colours).toEqual(["blue"]);
     expect(readingIn(d, "en")).toEqual(["black"]);
-    // Japanese uses L for blue and B for black, so Bl is no Japanese code.
-    expect(readingIn(d, "jis")).toEqual([]);
+    // jis-letters uses L for blue and B for black (REFERENCE-FACTS 1.3), but one house writes Bl black and another
+    // Bl blue (REFERENCE-FACTS 5 [from memory]): both are listed, each naming its house. DIN still wins, being published.
+    expect(d.ambiguities.filter((a) => a.system === "jis")).toEqual([
+      { system: "jis", houseStyle: "jis-bl-black", reading: "black" },
+      { system: "jis", houseStyle: "jis-bl-blue", reading: "blue" },
+    ]);
     expect(ok("BL", "auto").colours).toEqual(["blue"]);
     expect(readingIn(ok("BL", "auto"), "en")).toEqual(["black"]);
   });
@@ -437,7 +453,11 @@ describe("auto-detection and ambiguities", () => {
     const d = ok("LG", "auto");
     expect(d.system).toBe("bs");
     expect(d.colours).toEqual(["light green"]);
-    expect(readingIn(d, "jis")).toEqual(["blue with green tracer"]);
+    // The upper-case pairs house writes LG for light green (REFERENCE-FACTS 5 [from memory], our pair); jis-letters L + G differs.
+    expect(d.ambiguities.filter((a) => a.system === "jis")).toEqual([
+      { system: "jis", houseStyle: "jis-caps", reading: "light green" },
+      { system: "jis", houseStyle: "jis-letters", reading: "blue with green tracer" },
+    ]);
   });
 
   it("B and G: black and green in both Japanese and British codes", () => {
@@ -463,7 +483,8 @@ describe("auto-detection and ambiguities", () => {
     expect(readingIn(br, "din")).toEqual(["brown"]);
     const caps = ok("BR", "auto");
     expect([caps.system, caps.colours]).toEqual(["din", ["brown"]]);
-    expect(readingIn(caps, "jis")).toEqual(["black with red tracer"]);
+    // BR is brown in the upper-case pairs house (REFERENCE-FACTS 5 [from memory], our pair), black with red in jis-letters.
+    expect(readingIn(caps, "jis")).toEqual(["brown", "black with red tracer"]);
     expect(readingIn(caps, "bs")).toEqual(["black with red tracer"]);
     expect(readingIn(caps, "iec")).toEqual([]);
     expect(ok("BN", "auto").system).toBe("iec");
@@ -517,14 +538,21 @@ describe("auto-detection and ambiguities", () => {
     expect(ok("w/r", "auto").system).toBe("jis");
   });
 
-  it("lists each other system at most once, never the chosen one, and none for an explicit system", () => {
-    // Module contract (ambiguities only with system "auto").
-    for (const s of ["W/R", "Bl", "Gr", "GR", "P", "B", "G", "BR", "LG", "RDBN", "BU"]) {
+  it("lists each other reading at most once, never the chosen one, and none with a house style", () => {
+    // Module contract: a system (for jis, a system and house) appears once; with a house nothing is ambiguous.
+    for (const s of ["W/R", "Bl", "Gr", "GR", "P", "B", "G", "BR", "LG", "RDBN", "BU", "Bl/W"]) {
       const d = ok(s, "auto");
-      const systems = d.ambiguities.map((a) => a.system);
-      expect(new Set(systems).size).toBe(systems.length);
-      expect(systems).not.toContain(d.system);
-      expect(ok(s, d.system).ambiguities).toEqual([]);
+      const keys = d.ambiguities.map((a) => `${a.system}/${a.houseStyle ?? ""}`);
+      expect(new Set(keys).size, s).toBe(keys.length);
+      expect(keys, s).not.toContain(`${d.system}/${d.system === "jis" ? d.houseStyle : ""}`);
+      // jis houses are listed only where they read the code otherwise than the jis reading before them.
+      const jisReadings = d.ambiguities.filter((a) => a.system === "jis").map((a) => a.reading);
+      expect(new Set(jisReadings).size, s).toBe(jisReadings.length);
+      expect(ok(s, d.system, { houseStyle: d.houseStyle }).ambiguities, s).toEqual([]);
+    }
+    // Explicit non-jis systems have one reading, so no ambiguities either (module contract).
+    for (const [s, system] of [["Bl", "din"], ["GR", "din"], ["LG", "bs"], ["RDBN", "din"], ["BU", "iec"]] as const) {
+      expect(ok(s, system).ambiguities).toEqual([]);
     }
   });
 });
@@ -540,7 +568,8 @@ describe("errors", () => {
     });
     expect(bad("WXq", "jis").part).toBe("Xq");
     expect(bad("W/Xq", "jis").part).toBe("Xq");
-    expect(bad("Bl", "jis").part).toBe("Bl");
+    // In the usual house Bl is no code: L is blue and B black there (REFERENCE-FACTS 1.3 [from memory]).
+    expect(bad("Bl", "jis", { houseStyle: "jis-letters" }).part).toBe("Bl");
     expect(bad("swxq", "din").part).toBe("xq");
     expect(bad("BQ", "bs").part).toBe("Q");
     const auto = bad("W/Xq", "auto");
@@ -671,5 +700,234 @@ describe("swatch", () => {
     // WCAG 2.x contrast formula check values: black on white is 21:1, a colour on itself 1:1.
     expect(contrastRatio("#000000", "#ffffff")).toBeCloseTo(21, 5);
     expect(contrastRatio("#777777", "#777777")).toBeCloseTo(1, 5);
+  });
+});
+
+describe("house styles", () => {
+  const house = (id: string) => HOUSE_STYLES.find((h) => h.id === id)!;
+  const table = (id: string) => new Map(house(id).codes.map((c) => [c.code, c.colour]));
+
+  it("defines exactly the seven house styles, each naming its notation", () => {
+    // Our ids: the demo makes' houses (jis-letters, din, bs), the other Japanese-style houses of REFERENCE-FACTS 5 [from memory], and en.
+    expect(HOUSE_STYLES.map((h) => [h.id, h.notation])).toEqual([
+      ["jis-letters", "jis"], ["jis-bl-black", "jis"], ["jis-bl-blue", "jis"], ["jis-caps", "jis"], ["din", "din"], ["bs", "bs"], ["en", "en"],
+    ]);
+    expect(JIS_HOUSE_ORDER).toEqual(["jis-letters", "jis-bl-black", "jis-bl-blue", "jis-caps"]);
+    for (const h of HOUSE_STYLES) expect(h.source.length, h.id).toBeGreaterThan(5);
+    expect(houseStyles("jis").map((h) => h.id)).toEqual(JIS_HOUSE_ORDER);
+  });
+
+  it("jis-letters is the usual Japanese-style table", () => {
+    // REFERENCE-FACTS 1.3 [from memory]: B black, L blue, Lb light blue, Lg light green, Gr/Gy grey, Sb sky blue.
+    const t = table("jis-letters");
+    expect([t.get("B"), t.get("L"), t.get("Lb"), t.get("Lg"), t.get("Gr"), t.get("Gy"), t.get("Sb")]).toEqual([
+      "black", "blue", "light blue", "light green", "grey", "grey", "sky blue",
+    ]);
+    expect(colourSystems().find((s) => s.id === "jis")!.codes).toEqual(houseStyles("jis")[0].codes);
+  });
+
+  it("jis-bl-black: Bl black, Bu blue, Lb light blue; B and L are not its codes", () => {
+    // REFERENCE-FACTS 5 [from memory] ("one writes Bl black, Bu blue"); Lb kept from 1.3 and B/L dropped: our decision.
+    const h = { houseStyle: "jis-bl-black" };
+    expect(ok("Bl", "jis", h).colours).toEqual(["black"]);
+    expect(ok("Bu", "jis", h).colours).toEqual(["blue"]);
+    expect(ok("Lb", "jis", h).colours).toEqual(["light blue"]);
+    expect(wire(ok("Bl/W", "jis", h))).toEqual(["black", "white"]);
+    expect(wire(ok("BuY", "jis", h))).toEqual(["blue", "yellow"]);
+    expect(wire(ok("Br/Bl", "jis", h))).toEqual(["brown", "black"]);
+    expect(bad("B", "jis", h).part).toBe("B");
+    expect(bad("L/W", "jis", h).part).toBe("L");
+    // Typed in lower case it is still meant (the jis leniency): bl/w.
+    expect(wire(ok("bl/w", "jis", h))).toEqual(["black", "white"]);
+  });
+
+  it("jis-bl-blue: Bl blue, Lbl light blue, B black; L and Lb are not its codes", () => {
+    // REFERENCE-FACTS 5 [from memory] ("another Bl blue, Lbl light blue"); B black as in 1.3 (our decision).
+    const h = { houseStyle: "jis-bl-blue" };
+    expect(ok("Bl", "jis", h).colours).toEqual(["blue"]);
+    expect(ok("Lbl", "jis", h).colours).toEqual(["light blue"]);
+    expect(ok("B", "jis", h).colours).toEqual(["black"]);
+    expect(wire(ok("Bl/W", "jis", h))).toEqual(["blue", "white"]);
+    expect(wire(ok("LblR", "jis", h))).toEqual(["light blue", "red"]);
+    expect(wire(ok("lbl/b", "jis", h))).toEqual(["light blue", "black"]);
+    expect(bad("L", "jis", h).part).toBe("L");
+    expect(bad("Lb", "jis", h).part).toBe("Lb");
+  });
+
+  it("jis-caps: upper-case pairs BK, BL, LB, PU, GY, OR and the rest as pairs", () => {
+    // REFERENCE-FACTS 5 [from memory] for BK BL LB PU GY OR; PU is purple, our word violet (names.ts, IEC 60757 VT).
+    const h = { houseStyle: "jis-caps" };
+    const six: [string, ColourName][] = [["BK", "black"], ["BL", "blue"], ["LB", "light blue"], ["PU", "violet"], ["GY", "grey"], ["OR", "orange"]];
+    for (const [code, colour] of six) expect(ok(code, "jis", h).colours, code).toEqual([colour]);
+    // The other pairs are our judgement [from memory]: BR brown, RD red, YE yellow, GN green, WH white, PK pink, LG light green.
+    const rest: [string, ColourName][] = [["BR", "brown"], ["RD", "red"], ["YE", "yellow"], ["GN", "green"], ["WH", "white"], ["PK", "pink"], ["LG", "light green"]];
+    for (const [code, colour] of rest) expect(ok(code, "jis", h).colours, code).toEqual([colour]);
+    // Runs split into pairs: BKWH is black with white; GY is grey, never green with yellow.
+    expect(wire(ok("BKWH", "jis", h))).toEqual(["black", "white"]);
+    expect(wire(ok("BK/WH", "jis", h))).toEqual(["black", "white"]);
+    expect(wire(ok("GY", "jis", h))).toEqual(["grey"]);
+    expect(wire(ok("bk/wh", "jis", h))).toEqual(["black", "white"]);
+    // Mixed case is the other houses' spelling, and single letters are not this house's.
+    expect(bad("Bl", "jis", h).part).toBe("Bl");
+    expect(bad("B/W", "jis", h).part).toBe("B");
+  });
+
+  it("din, bs and en read as their notations do", () => {
+    // REFERENCE-FACTS 1.2 (DIN 47002 ws/rt), 1.5 (British U blue), common practice (blk/wht).
+    expect(ok("ws/rt", "din", { houseStyle: "din" })).toMatchObject({ system: "din", houseStyle: "din", colours: ["white", "red"], ambiguities: [] });
+    expect(ok("U", "auto", { houseStyle: "bs" })).toMatchObject({ system: "bs", houseStyle: "bs", colours: ["blue"] });
+    expect(ok("blk/wht", "auto", { houseStyle: "en" })).toMatchObject({ system: "en", houseStyle: "en", colours: ["black", "white"] });
+    // Bl in a DIN house is blue and nothing else: the house answers the question auto leaves open (REFERENCE-FACTS 1.2).
+    expect(ok("Bl", "auto", { houseStyle: "din" })).toMatchObject({ system: "din", colours: ["blue"], ambiguities: [] });
+  });
+
+  it("every code of every house decodes in that house to its colour, with no ambiguity", () => {
+    // Module contract over the tables above (REFERENCE-FACTS 1.2, 1.3, 1.5, 5).
+    for (const h of houseStyles()) {
+      for (const { code, colour } of h.codes) {
+        const d = ok(code, h.notation, { houseStyle: h.id });
+        expect(d.colours, `${h.id} ${code}`).toEqual([colour]);
+        expect(d.houseStyle).toBe(h.id);
+        expect(d.ambiguities).toEqual([]);
+      }
+    }
+  });
+
+  it("refuses an unknown house style and a system that contradicts the house; '' means none", () => {
+    // Our error contract: bad_request naming the option (API.md error shape).
+    const unknown = decodeColour("W/R", "jis", { houseStyle: "jis-morse" });
+    expect(!unknown.ok && unknown.error).toMatchObject({ code: "bad_request", field: "houseStyle" });
+    const clash = decodeColour("W/R", "din", { houseStyle: "jis-letters" });
+    expect(!clash.ok && clash.error).toMatchObject({ code: "bad_request", field: "system" });
+    expect(!clash.ok && clash.error.message).toContain("jis-letters");
+    expect(ok("Bl/W", "jis", { houseStyle: "" })).toEqual(ok("Bl/W", "jis"));
+    expect(ok("Bl/W", "jis", { houseStyle: null })).toEqual(ok("Bl/W", "jis"));
+  });
+});
+
+describe("jis without a house style", () => {
+  it("reads Bl/W as black with white (jis-bl-black first) and lists the jis-bl-blue reading, instead of refusing it", () => {
+    // REFERENCE-FACTS 5 [from memory]: Bl is black in one house, blue in another; the order is JIS_HOUSE_ORDER (our decision).
+    const d = ok("Bl/W", "jis");
+    expect([d.houseStyle, wire(d)]).toEqual(["jis-bl-black", ["black", "white"]]);
+    expect(d.ambiguities).toEqual([{ system: "jis", houseStyle: "jis-bl-blue", reading: "blue with white tracer" }]);
+    // auto picks the same reading: nothing else reads Bl/W (DIN has no w, English no lone W).
+    const auto = ok("Bl/W", "auto");
+    expect([auto.system, auto.houseStyle, wire(auto)]).toEqual(["jis", "jis-bl-black", ["black", "white"]]);
+    expect(readingIn(auto, "jis")).toEqual(["blue with white tracer"]);
+  });
+
+  it("reads in jis-letters first, and lists another house only where it reads the code otherwise", () => {
+    // REFERENCE-FACTS 1.3 (W/R, B, L) and 5 [from memory] (BR, BL as upper-case pairs).
+    expect(ok("W/R", "jis")).toMatchObject({ houseStyle: "jis-letters", ambiguities: [] });
+    expect(ok("L/W", "jis")).toMatchObject({ houseStyle: "jis-letters", colours: ["blue", "white"], ambiguities: [] });
+    const br = ok("BR", "jis");
+    expect([br.houseStyle, wire(br)]).toEqual(["jis-letters", ["black", "red"]]);
+    expect(br.ambiguities).toEqual([{ system: "jis", houseStyle: "jis-caps", reading: "brown" }]);
+    const bl = ok("BL", "jis");
+    expect(wire(bl)).toEqual(["black", "blue"]);
+    expect(bl.ambiguities).toEqual([{ system: "jis", houseStyle: "jis-caps", reading: "blue" }]);
+    // A code only one house writes has one reading: Lbl is jis-bl-blue's light blue.
+    expect(ok("Lbl", "jis")).toMatchObject({ houseStyle: "jis-bl-blue", colours: ["light blue"], ambiguities: [] });
+    expect(ok("Bu", "jis")).toMatchObject({ houseStyle: "jis-bl-black", colours: ["blue"], ambiguities: [] });
+  });
+
+  it("with a house style there is nothing ambiguous", () => {
+    // Module contract (API.md additions: decode in the make's house style).
+    expect(ok("Bl/W", "jis", { houseStyle: "jis-bl-blue" })).toMatchObject({ colours: ["blue", "white"], ambiguities: [] });
+    expect(ok("BR", "jis", { houseStyle: "jis-caps" })).toMatchObject({ colours: ["brown"], ambiguities: [] });
+    expect(ok("BR", "jis", { houseStyle: "jis-letters" })).toMatchObject({ colours: ["black", "red"], ambiguities: [] });
+  });
+});
+
+describe("English words are English", () => {
+  // Every whole-word code of EN_CODES (common practice names; "purple" ≡ violet, "slate" ≡ grey, see names.ts).
+  const WORDS = EN_CODES.filter(({ code }) => EN_COLOUR_WORDS.includes(code));
+
+  it("EN_COLOUR_WORDS are exactly the whole words of EN_CODES; the rest are abbreviations", () => {
+    // Our partition of the common-practice English table.
+    for (const w of EN_COLOUR_WORDS) expect(EN_CODES.some((c) => c.code === w), w).toBe(true);
+    const abbreviations = EN_CODES.map((c) => c.code).filter((c) => !EN_COLOUR_WORDS.includes(c));
+    expect(abbreviations).toEqual([
+      "blk", "bk", "bl", "brn", "rd", "org", "yel", "ylw", "grn", "gr", "blu", "vio", "pur", "gry", "wht", "wh", "pnk", "turq",
+      "lt grn", "dk grn", "lt blu", "choc",
+    ]);
+  });
+
+  it("reads every English colour word of EN_CODES as en, in any case, with no letter-by-letter reading offered", () => {
+    // Common practice: a word is the colour it names. BROWN would otherwise be the British B+R+O+W+N (REFERENCE-FACTS 1.5).
+    expect(WORDS.length).toBe(EN_COLOUR_WORDS.length);
+    for (const { code, colour } of WORDS) {
+      for (const typed of [code, code[0].toUpperCase() + code.slice(1), code.toUpperCase()]) {
+        const d = ok(typed, "auto");
+        expect([d.system, d.colours], typed).toEqual(["en", [colour]]);
+        expect(d.ambiguities, typed).toEqual([]);
+        expect(isEnglishColourWords(typed), typed).toBe(true);
+      }
+    }
+  });
+
+  it("reads whole-word combinations as en only", () => {
+    // API.md example "Red w/ White stripe"; common practice.
+    for (const [typed, colours] of [
+      ["brown", ["brown"]], ["BROWN", ["brown"]], ["blue", ["blue"]], ["Red w/ White stripe", ["red", "white"]], ["black/white", ["black", "white"]],
+      ["BROWN/WHITE", ["brown", "white"]], ["light blue/red", ["light blue", "red"]],
+    ] as const) {
+      const d = ok(typed, "auto");
+      expect([d.system, wire(d)], typed).toEqual(["en", colours]);
+      expect(d.ambiguities, typed).toEqual([]);
+    }
+  });
+
+  it("never reads a whole English word letter by letter in another notation", () => {
+    // REFERENCE-FACTS 1.5: the British code's B, R, O, W, N would spell BROWN; our rule refuses that reading.
+    const e = bad("brown", "bs");
+    expect(e.part).toBe("brown");
+    expect(e.message).toMatch(/English/);
+    expect(bad("BROWN", "bs").message).toMatch(/letter by letter/);
+    expect(bad("BROWN", "auto", { houseStyle: "bs" }).message).toMatch(/English/);
+    expect(ok("brown", "en").colours).toEqual(["brown"]);
+  });
+
+  it("abbreviations and letter codes are not English words", () => {
+    // Common practice: blk/wht is shorthand; Bl, BR, W/R are letter codes (REFERENCE-FACTS 1.5).
+    for (const s of ["blk/wht", "Bl", "BR", "W/R", "GN", "ws/rt", "lt grn"]) expect(isEnglishColourWords(s), s).toBe(false);
+    // BRN is an abbreviation, so the British reading stays listed beside it.
+    expect(readingIn(ok("BRN", "auto"), "bs")).toEqual(["black with red and brown tracers"]);
+  });
+});
+
+describe("green and yellow (IEC 60445)", () => {
+  const flagged = (d: DecodedColour) => d.warnings.map((w) => w.code);
+
+  it("flags every reading that is green with yellow, either way round, or green-yellow", () => {
+    // IEC 60445 keeps green-and-yellow for the protective conductor (REFERENCE-FACTS 5 [published]); IEC 60757 clause 5.1.
+    for (const [code, system] of [
+      ["G/Y", "jis"], ["Y/G", "jis"], ["GY", "bs"], ["YG", "bs"], ["gn/ge", "din"], ["ge/gn", "din"], ["gnge", "din"], ["GNYE", "iec"],
+      ["green and yellow", "en"], ["grn/yel", "en"], ["G/Y/R", "jis"],
+    ] as const) {
+      const d = ok(code, system);
+      expect(flagged(d), `${code} (${system})`).toEqual(["green_yellow_reserved"]);
+      expect(d.warnings[0].message).toMatch(/IEC 60445/);
+      expect(d.warnings[0].message).toMatch(/earth/);
+      expect(d.warnings[0].message).toMatch(/re-identify/);
+    }
+    expect(flagged(ok("G/Y", "jis", { houseStyle: "jis-letters" }))).toEqual(["green_yellow_reserved"]);
+  });
+
+  it("does not flag other wires", () => {
+    // IEC 60757 clause 5.1 speaks of green and yellow combined; a red wire with both as tracers is not that colour (our reading).
+    for (const [code, system] of [["G/W", "jis"], ["Y/R", "jis"], ["R/G/Y", "jis"], ["Lg/Y", "jis"], ["GN", "iec"], ["ws/rt", "din"]] as const) {
+      expect(flagged(ok(code, system)), code).toEqual([]);
+    }
+  });
+
+  it("flags a code whose likelier reading is not green-and-yellow when another reading is", () => {
+    // GY is IEC 60757 grey, but Japanese-style G/Y (REFERENCE-FACTS 1.3) is green with a yellow tracer.
+    const d = ok("GY", "auto");
+    expect([d.system, d.colours]).toEqual(["iec", ["grey"]]);
+    expect(flagged(d)).toEqual(["green_yellow_reserved"]);
+    expect(d.warnings[0].message).toMatch(/^Read as (jis|bs)/);
+    expect(d.warnings[0].message).toContain("green with yellow tracer");
   });
 });

@@ -45,8 +45,10 @@ const familyCards: ProposalEditorProps["familyCards"] = [
   { slug: "demo-igniter-plug", name: "Demo igniter plug", cavities: ["1", "2", "3"] },
 ];
 
+// The demo's Japanese-style maker writes jis-letters (REFERENCE-FACTS 1.3): in that house "Bl" is no code. Without a
+// house every Japanese-style house is tried and Bl reads as black (REFERENCE-FACTS 5 [from memory]).
 const render = (props: Partial<ProposalEditorProps> = {}) =>
-  renderToStaticMarkup(createElement(ProposalEditor, { proposal: demo(), colourSystem: "jis", familyCards, problems: [], ...props }));
+  renderToStaticMarkup(createElement(ProposalEditor, { proposal: demo(), colourSystem: "jis", houseStyle: "jis-letters", familyCards, problems: [], ...props }));
 
 type El = ReturnType<typeof DomUtils.findAll>[number];
 const dom = (html: string) => parseDocument(html).children;
@@ -206,6 +208,13 @@ describe("ProposalEditor: colours and the face view", () => {
     expect(text(byId(html, "ed-pins-2-code-status"))).toMatch(/"Bl" is not a colour code/);
     expect(byId(html, "ed-pins-2-code")!.attribs["aria-invalid"]).toBe("true");
     expect(text(byId(html, "ed-pins-4-code-status"))).toBe("");
+  });
+
+  it("reads the codes in the make's house style", () => {
+    // REFERENCE-FACTS 5 [from memory]: a house that writes Bl for black; B is then no code of that house.
+    const html = render({ houseStyle: "jis-bl-black" });
+    expect(text(byId(html, "ed-pins-2-code-status"))).toBe("black");
+    expect(text(byId(html, "ed-pins-0-code-status"))).toMatch(/"B" is not a colour code in .*jis-bl-black/);
   });
 
   it("draws the face view from the layout with each cavity in its wire's colours", () => {

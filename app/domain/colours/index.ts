@@ -12,6 +12,26 @@ export {
   type ColourName,
   type ColourSystemId,
 } from "./names";
-export { SYSTEM_NAMES, colourSystems, encodeColour } from "./systems";
-export { decodeColour, type Ambiguity, type ColourPart, type DecodeResult, type DecodedColour } from "./decode";
+export { EN_COLOUR_WORDS, SYSTEM_NAMES, colourSystems, encodeColour } from "./systems";
+export {
+  HOUSE_STYLES,
+  HOUSE_STYLE_IDS,
+  JIS_HOUSE_ORDER,
+  houseFor,
+  houseStyleOf,
+  houseStyles,
+  isHouseStyleId,
+  type HouseStyle,
+  type HouseStyleId,
+} from "./house-styles";
+export {
+  decodeColour,
+  isEnglishColourWords,
+  type Ambiguity,
+  type ColourPart,
+  type DecodeOptions,
+  type DecodeResult,
+  type DecodeWarning,
+  type DecodedColour,
+} from "./decode";
 export { describeColour } from "./describe";

@@ -127,6 +127,16 @@ export const EN_CODES = entries([
   ["green-and-yellow", "green-yellow"],
 ]);
 
+/**
+ * The whole English colour words of EN_CODES; the other rows are workshop abbreviations (blk, lt grn …). A code made
+ * of these words is English whatever else its letters could spell: "brown" is never B+R+O+W+N in the British code.
+ */
+export const EN_COLOUR_WORDS: readonly string[] = Object.freeze([
+  "black", "brown", "red", "orange", "yellow", "green", "blue", "violet", "purple", "grey", "gray", "slate", "white",
+  "pink", "turquoise", "gold", "silver", "light green", "dark green", "light blue", "sky blue", "chocolate", "tan",
+  "green-and-yellow",
+]);
+
 /** Every system's codes; the first row for a colour is the code encodeColour writes. */
 export const CODE_TABLES: Record<ColourSystemId, readonly CodeEntry[]> = {
   jis: JIS_CODES,
