@@ -44,6 +44,9 @@ export const SEARCH_SETTINGS = Object.freeze({
   searchableAttributes: ["title", "codes", "terminals", "circuits", "family", "colours", "make", "subtitle", "text", "years"],
   filterableAttributes: ["type", "slug", "makeSlug", "familySlug", "system", "pinCount", "years"],
   sortableAttributes: ["title", "pinCount"],
+  // The service counts hits exactly only up to maxTotalHits (1000 by default); the library has more documents than that,
+  // and the database fallback counts them all, so both must say the same total.
+  pagination: { maxTotalHits: 100_000 },
 });
 
 /** A code as written plus the same colours in every notation, and its IEC 60757 designation; [] when it does not parse. */

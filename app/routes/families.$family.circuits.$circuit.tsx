@@ -3,7 +3,7 @@ import { data, Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/families.$family.circuits.$circuit";
 import { Cautions } from "~/components/cautions";
 import { CircuitDrawing } from "~/components/circuit-drawing";
-import { decodeColour, swatch, type ColourSystemId } from "~/domain/colours";
+import { decodeColour, houseFor, swatch, type ColourSystemId } from "~/domain/colours";
 import { SWITCH_POSITIONS, type SwitchId } from "~/domain/loom-graph";
 import { diagnoseFor, walkFor } from "~/services/circuits.server";
 
@@ -41,7 +41,7 @@ export async function loader({ params, request }: Route.LoaderArgs) {
   if (!w.ok) throw data(w.error.message, { status: w.error.status });
   const notation = w.family.colourSystem as ColourSystemId;
   const paint = w.walk.probePoints.map((p) => {
-    const d = p.colour ? decodeColour(p.colour, notation) : null;
+    const d = p.colour ? decodeColour(p.colour, notation, { houseStyle: houseFor(notation, w.family.make?.houseStyle) }) : null;
     const cols = d?.ok ? d.value.colours : [];
     return { baseHex: cols[0] ? swatch(cols[0]).hex : null, tracerHex: cols[1] ? swatch(cols[1]).hex : null };
   });

@@ -2,7 +2,7 @@
 import { Circuit, Family, Make, SpecValue, System } from "~db/models/index.ts";
 import { familyNetwork, loadFamilyGraph } from "~db/graph.ts";
 import { diagnose, walkCircuit, type Reading, type WalkNode } from "~/domain/circuit-walk";
-import { decodeColour, type ColourSystemId } from "~/domain/colours";
+import { decodeColour, houseFor, type ColourSystemId } from "~/domain/colours";
 import { ENGINE_STATES } from "~/domain/electrics";
 import type { PlannerInput } from "~/domain/loom-planner";
 import { resolveSwitches, type GraphEdge } from "~/domain/loom-graph";
@@ -207,7 +207,7 @@ export async function plannerData(familySlug: string) {
     network: f.network,
     circuits: f.circuits.map((c) => ({ slug: c.slug, name: c.name, system: c.system, from: c.def.from, to: c.def.to, loads: c.def.loads.map((l) => l.id), switches: c.switches })),
     wires: f.wires.map((w) => {
-      const d = decodeColour(w.colourCode, f.family.colourSystem as ColourSystemId);
+      const d = decodeColour(w.colourCode, f.family.colourSystem as ColourSystemId, { houseStyle: houseFor(f.family.colourSystem, f.family.make?.houseStyle) });
       return {
         id: `w${w.id}`, from: label(w.fromPinId), to: label(w.toPinId), fromFitting: fitting(w.fromPinId), toFitting: fitting(w.toPinId), code: w.colourCode,
         colours: d.ok ? d.value.colours : [], defaultLengthM: w.lengthMm ? w.lengthMm / 1000 : null, factorySizeMm2: w.sizeMm2,

@@ -45,7 +45,8 @@ export const proposalSchema = z.object({
     unit: line(12),
     between: z.tuple([line(12), line(12)]),
     atC: num.default(20),
-    source: line(120).default(""),
+    // A source names the standard or handbook and says how it applies: a sentence, not a word.
+    source: line(300).default(""),
   })).max(LIMITS.specs).default([]),
   notes: prose(LIMITS.notes).default(""),
   photos: z.array(z.object({ id: uuid, caption: line(200).default(""), credit: line(120).default("") })).max(LIMITS.photos, `may have at most ${LIMITS.photos} photos`).default([]),

@@ -5,7 +5,7 @@ import type { QueryInterface } from "sequelize";
  * colour house style, each spec value's measuring conditions and kind (and "no upper limit" for an insulation test),
  * each component link's electrical model, and the fitting of each bare terminal (ring, spade, bullet).
  *
- * SQLite cannot drop NOT NULL from a column, so spec_values is rebuilt (nothing references it).
+ * SQLite cannot drop NOT NULL from a column, so spec_values is rebuilt under its own name (nothing references it).
  */
 export async function up({ context: q }: { context: QueryInterface }) {
   const run = (sql: string) => q.sequelize.query(sql);
@@ -14,7 +14,8 @@ export async function up({ context: q }: { context: QueryInterface }) {
   await run("ALTER TABLE families ADD COLUMN earth TEXT NOT NULL DEFAULT 'negative'");
   await run("ALTER TABLE component_links ADD COLUMN params TEXT");
   await run("ALTER TABLE pins ADD COLUMN fitting TEXT");
-  await run(`CREATE TABLE spec_values_new (
+  await run("ALTER TABLE spec_values RENAME TO spec_values_old");
+  await run(`CREATE TABLE spec_values (
     id INTEGER PRIMARY KEY AUTOINCREMENT,
     connector_id INTEGER NOT NULL REFERENCES connectors (id) ON DELETE CASCADE,
     name VARCHAR(255) NOT NULL,
@@ -29,10 +30,9 @@ export async function up({ context: q }: { context: QueryInterface }) {
     kind TEXT NOT NULL DEFAULT 'resistance',
     material TEXT
   )`);
-  await run(`INSERT INTO spec_values_new (id, connector_id, name, min, max, unit, between_a, between_b, at_c, source)
-    SELECT id, connector_id, name, min, max, unit, between_a, between_b, at_c, source FROM spec_values`);
-  await run("DROP TABLE spec_values");
-  await run("ALTER TABLE spec_values_new RENAME TO spec_values");
+  await run(`INSERT INTO spec_values (id, connector_id, name, min, max, unit, between_a, between_b, at_c, source)
+    SELECT id, connector_id, name, min, max, unit, between_a, between_b, at_c, source FROM spec_values_old`);
+  await run("DROP TABLE spec_values_old");
   await run("CREATE INDEX spec_values_connector_id ON spec_values (connector_id)");
 }
 

@@ -180,8 +180,8 @@ describe("search quality on the (invented) demo library", () => {
     { system: "jis", code: "O/B", others: ["BKOG", "or/sw", "OB", "org/blk"] },
     // black with violet tracer on a Brennwald card: Japanese-style B/V, IEC BKVT, British BP (P = purple), English blk/vio
     { system: "din", code: "sw/vi", others: ["B/V", "BKVT", "BP", "blk/vio"] },
-    // white with pink tracer on an Ashcombe card: Japanese-style W/P, IEC WHPK, DIN ws/rs, English wht/pnk
-    { system: "bs", code: "WK", others: ["W/P", "WHPK", "ws/rs", "wht/pnk"] },
+    // brown with green tracer on an Ashcombe card (the rectifier's output): Japanese-style Br/G, IEC BNGN, DIN br/gn, English brn/grn
+    { system: "bs", code: "NG", others: ["Br/G", "BNGN", "br/gn", "brn/grn"] },
   ];
   for (const c of COLOUR_CASES) {
     it(`${c.system} ${c.code}, and the same wire as ${c.others.join(", ")}, finds its card first`, async () => {

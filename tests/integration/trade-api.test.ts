@@ -81,7 +81,9 @@ describe("the walk in the engine's states", () => {
     const open = (await walk("marquis-500", "ignition", "?points=open")).probePoints.find(isNeg)!;
     const closed = (await walk("marquis-500", "ignition", "?points=closed")).probePoints.find(isNeg)!;
     expect(open.expect.min!).toBeGreaterThan(11.5);
-    expect(closed.expect.max!).toBeLessThan(0.6);
+    // Near 0 V: the healthy drop across the points and their lead, plus ≈ 0.2 V per contact allowed under load (common practice).
+    expect(closed.expect.nominal!).toBeLessThan(0.3);
+    expect(closed.expect.max!).toBeLessThan(0.8);
   });
 
   it("a transistor unit that switches its coils off at rest: coil negative at battery voltage with the engine stopped (RF 5.1, from memory), no test point running", async () => {
