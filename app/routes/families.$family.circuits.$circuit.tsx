@@ -75,11 +75,14 @@ export async function action({ params, request }: Route.ActionArgs) {
 }
 
 const fmtV = (v: number) => String(v).replace(/^-/, "−");
-const expectWords = (e: { quantity: string; min: number | null; max: number | null; unit: string; steady?: boolean; nominal?: number | null }) =>
-  e.quantity === "voltage"
-    ? e.steady === false ? "no steady reading (switching)"
-      : e.min !== null && e.max !== null && Math.max(Math.abs(e.min), Math.abs(e.max)) <= 0.6 ? `near 0 V (${fmtV(e.min)} to ${fmtV(e.max)} V)` : `${fmtV(e.min!)} to ${fmtV(e.max!)} V`
-    : e.quantity === "continuity" ? e.max === 0 ? "reference (0 Ω)" : `continuity (≤ ${e.max ?? "a few"} Ω)` : `${e.min}–${e.max} ${e.unit}`;
+const expectWords = (e: { quantity: string; min: number | null; max: number | null; unit: string; steady?: boolean; nominal?: number | null }, systemV: number) => {
+  if (e.quantity !== "voltage") return e.quantity === "continuity" ? e.max === 0 ? "reference (0 Ω)" : `continuity (≤ ${e.max ?? "a few"} Ω)` : `${e.min}–${e.max} ${e.unit}`;
+  if (e.steady === false || e.min === null || e.max === null) return "no steady reading (switching)";
+  const range = `${fmtV(e.min)} to ${fmtV(e.max)} V`;
+  if (Math.max(Math.abs(e.min), Math.abs(e.max)) <= 0.8) return `near 0 V (${range})`;
+  if (Math.abs(e.nominal ?? 0) >= 0.8 * systemV) return `battery voltage (${range})`;
+  return range;
+};
 
 const KIND_WORDS = { open: "an open circuit", high_resistance: "a high resistance", short: "a short" } as const;
 const ENGINE_WORDS = { stopped: "stopped", cranking: "cranking (start button held)", running: "running (charging at rpm)" } as const;
@@ -130,7 +133,7 @@ export default function CircuitWalkPage({ loaderData, actionData }: Route.Compon
       ) : null}
 
       {powered ? (
-        <Form method="get" className="no-print flex flex-wrap items-end gap-3 rounded-md border border-rule bg-white p-3" aria-label="State of the bike">
+        <Form method="get" className="no-print flex flex-wrap items-end gap-3 rounded-md border border-rule bg-white p-3" aria-label="Switch positions">
           <label className="flex flex-col text-sm font-semibold">Engine
             <select name="engine" defaultValue={state.engine} className="mt-1 rounded border-2 border-ink bg-white px-2 py-1 text-base font-normal">
               {(["stopped", ...(hasStarter ? ["cranking"] : []), "running"] as const).map((e) => <option key={e} value={e}>{e}</option>)}
@@ -150,7 +153,7 @@ export default function CircuitWalkPage({ loaderData, actionData }: Route.Compon
               </select>
             </label>
           ))}
-          <button type="submit" className="rounded bg-ink px-4 py-2 font-semibold text-paper">Show readings for this state</button>
+          <button type="submit" className="rounded bg-ink px-4 py-2 font-semibold text-paper">Show readings for these positions</button>
         </Form>
       ) : null}
 
@@ -164,7 +167,7 @@ export default function CircuitWalkPage({ loaderData, actionData }: Route.Compon
       <section aria-labelledby="drawing" className="rounded-md border border-rule bg-white p-2">
         <h2 id="drawing" className="sr-only">Drawing</h2>
         <CircuitDrawing powered={powered} loads={walk.loadNames} highlight={highlight}
-          points={walk.probePoints.map((p, i) => ({ step: p.step, label: p.label, side: p.side, code: p.colour, ...paint[i], expectWords: expectWords(p.expect), after: p.after, before: p.before }))} />
+          points={walk.probePoints.map((p, i) => ({ step: p.step, label: p.label, side: p.side, code: p.colour, ...paint[i], expectWords: expectWords(p.expect, family.systemVoltage), after: p.after, before: p.before }))} />
         <p className="px-2 text-sm text-muted">{powered ? "Top: the supply side, battery + outwards (points fed in parallel sit side by side). Bottom: the return, back to the battery − post on the left." : "Top: from step 1 to the load. Bottom: from the load back."}</p>
         <p className="px-2 pb-1 text-sm"><span className="font-semibold">{walk.loadNames.length > 1 ? "Loads" : "Load"}:</span> {walk.loadNames.join(" · ")}</p>
       </section>
@@ -201,7 +204,7 @@ export default function CircuitWalkPage({ loaderData, actionData }: Route.Compon
                   <th scope="row" className="p-2 text-lg">{p.step}</th>
                   <td className="p-2">{p.connector ? <Link to={`/connectors/${p.connector}?cavity=${encodeURIComponent(p.cavity)}#pin-${p.cavity}`} className="text-signal-dark underline">{p.label}</Link> : p.label}</td>
                   <td className="p-2"><code className="font-semibold">{p.colour ?? "—"}</code></td>
-                  <td className="p-2 whitespace-nowrap">{expectWords(p.expect)}</td>
+                  <td className="p-2 whitespace-nowrap">{expectWords(p.expect, family.systemVoltage)}</td>
                   <td className="p-2 text-sm">{p.how}</td>
                   <td className="p-2 no-print">
                     <label className="sr-only" htmlFor={`r${p.step}`}>Reading at step {p.step} ({p.expect.unit})</label>

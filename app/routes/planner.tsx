@@ -142,7 +142,7 @@ export default function PlannerPage({ loaderData }: Route.ComponentProps) {
             <h2 id="fuses" className="text-xl font-bold">Fuses</h2>
             {plan.fuses.length ? (
               <ul className="mt-2 space-y-2">{plan.fuses.map((f) => (
-                <li key={f.id}><strong>{f.ratingA} A</strong> {f.name} (factory {f.factoryA} A{f.raised ? ", raised" : ""}) for {f.circuits.join(", ")} — <span className="text-sm text-muted">{f.basis}</span>
+                <li key={f.id}><strong>{f.ratingA} A</strong> &quot;{f.name}&quot; (factory {f.factoryA} A{f.raised ? ", raised" : ""}) for {f.circuits.join(", ")} — <span className="text-sm text-muted">{f.basis}</span>
                   {f.warnings.length ? <ul className="list-disc pl-6 text-sm">{f.warnings.map((w, i) => <li key={i}>{w}</li>)}</ul> : null}</li>
               ))}</ul>
             ) : <p className="mt-1">None of the kept circuits has a factory fuse.</p>}

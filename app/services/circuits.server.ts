@@ -99,7 +99,8 @@ async function load(slug: string) {
     const comp = p.componentId ? compById.get(p.componentId) : undefined;
     fittings.set(String(p.id), conn ? conn.housing.replace(/^\d+-way\s*/, "") : comp?.kind === "splice" ? "splice" : p.fitting ?? null);
   }
-  const elementNames = new Map(g.links.map((l) => [`l${l.id}`, `${compById.get(l.componentId)?.name ?? "component"}: ${l.label}`]));
+  // A fuse is named by its holder (the cut list names its ends "<holder>: in"); other links by component and contact.
+  const elementNames = new Map(g.links.map((l) => [`l${l.id}`, l.kind === "fuse" ? compById.get(l.componentId)?.name ?? "fuse" : `${compById.get(l.componentId)?.name ?? "component"}: ${l.label}`]));
   const frame = g.components.find((c) => c.kind === "frame-earth");
   const frameEarth = frame ? String(g.pins.find((p) => p.componentId === frame.id)?.id ?? "") || null : null;
   const hasPoints = g.links.some((l) => l.kind === "breaker");

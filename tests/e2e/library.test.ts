@@ -45,7 +45,7 @@ describe.skipIf(skipBrowser)("library journeys in Chromium", () => {
     await gotoHydrated(page, "/");
     await expect(page.title()).resolves.toMatch(/Loomlore/);
     const makes = page.locator("section[aria-labelledby=makes-heading] article");
-    expect(await makes.count()).toBe(3);
+    expect(await makes.count()).toBe(4);
     for (const m of await makes.all()) {
       expect((await m.locator("h3").innerText()).trim()).not.toBe("");
       expect(await m.locator("a[href^='/families/']").count()).toBeGreaterThan(0);

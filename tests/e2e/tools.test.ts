@@ -315,7 +315,7 @@ describe.skipIf(skipBrowser)("workshop tools in Chromium", () => {
       const boxes = keepForm.locator("input[type=checkbox][name=keep]");
       await boxes.first().waitFor();
       const all = await boxes.evaluateAll((els) => els.map((e) => (e as HTMLInputElement).value));
-      for (const slug of [...STATORS, ...PICKUP_LOOPS, "ignition", "charging", "headlamp"]) expect(all).toContain(slug);
+      for (const slug of [...STATORS, ...PICKUP_LOOPS, "ignition", "charging", "headlamp-dip"]) expect(all).toContain(slug);
 
       // Keep everything but the two stator loops and both pickup loops (see the known-bug test
       // below for why each box is set rather than only the four unticked).
@@ -338,7 +338,8 @@ describe.skipIf(skipBrowser)("workshop tools in Chromium", () => {
       const fuses = page.locator("section[aria-labelledby=fuses]");
       await expect(text(fuses.locator("h2"))).resolves.toBe("Fuses");
       expect(await fuses.locator("li").count()).toBeGreaterThan(0);
-      await expect(text(fuses.locator("li").first())).resolves.toMatch(/^\d+ A for /);
+      // "<rating> A \"<fuse holder>\" (factory <rating> A) for <circuits> — <why>"
+      await expect(text(fuses.locator("li").first())).resolves.toMatch(/^\d+(?:\.\d+)? A "[^"]+" \(factory \d+(?:\.\d+)? A(?:, raised)?\) for /);
       // The dropped circuits are the four unticked.
       const dropped = await text(page.locator("section[aria-labelledby=assume]"));
       expect(dropped).toMatch(/Dropped: .*stator/i);
@@ -401,7 +402,7 @@ describe.skipIf(skipBrowser)("workshop tools in Chromium", () => {
     });
 
     const planUrl = (extra = "") =>
-      `/planner?planned=${FAMILY}&family=${FAMILY}&scheme=simple&tempC=20&${["ignition", "charging", "starter-control", "starter-motor", "headlamp", "tail-lamp", "brake-lamp"].map((k) => `keep=${k}`).join("&")}${extra}`;
+      `/planner?planned=${FAMILY}&family=${FAMILY}&scheme=simple&tempC=20&${["ignition", "charging", "starter-control", "starter-motor", "headlamp-dip", "tail-lamp", "brake-lamp"].map((k) => `keep=${k}`).join("&")}${extra}`;
 
     // Only the lengths the builder typed count as theirs; untouched rows keep the family default.
     it("recalculating after editing one length marks only that row \"builder\"", async () => {

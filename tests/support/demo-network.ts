@@ -50,7 +50,10 @@ export function demoPlannerInput(f: DemoFamily, keep?: string[], scheme: "factor
   };
   const label = (ref: string) => { const n = d.nodes.get(ref)!; return n.connector ? `${n.connectorName}: cavity ${n.cavity}` : `${n.componentName}: ${n.cavity}`; };
   const names: Record<string, string> = {};
-  for (const l of d.rows.links) names[`l:${l.component}.${l.label}`] = `${d.rows.components.find((c) => c.key === l.component)!.name}: ${l.label}`;
+  for (const l of d.rows.links) {
+    const comp = d.rows.components.find((c) => c.key === l.component)!.name;
+    names[`l:${l.component}.${l.label}`] = l.kind === "fuse" ? comp : `${comp}: ${l.label}`;
+  }
   return {
     network: d.net,
     circuits: d.rows.circuits.map((c) => ({ slug: c.slug, name: c.name, system: c.system, from: c.from, to: c.to, loads: c.via.map((v) => `l:${v}`), switches: c.switches as Record<string, string> })),
