@@ -186,6 +186,29 @@ describe.skipIf(skipBrowser)("workshop tools in Chromium", () => {
       await page.screenshot({ path: artifact("walk-diagnosis.png"), fullPage: true });
     });
 
+    // After "Where is the fault?" the answer is where the rider is looking: focused, scrolled into view and announced,
+    // on a desktop window and on a 360 px phone.
+    for (const [name, size] of [["desktop", { width: 1280, height: 800 }], ["phone", { width: 360, height: 740 }]] as const) {
+      it(`the verdict takes the focus and is in view (${name})`, async () => {
+        const page = await open();
+        await page.setViewportSize(size);
+        await gotoHydrated(page, IGNITION);
+        const readings = page.locator("form[aria-label='Your readings']");
+        const first = readings.locator("input[id^=r]").first();
+        await first.fill("12.6");
+        await readings.getByRole("button", { name: "Where is the fault?" }).click();
+        const diagnosis = page.getByTestId("diagnosis");
+        await diagnosis.waitFor({ timeout: 5_000 });
+        await page.waitForFunction(() => document.activeElement?.getAttribute("data-testid") === "diagnosis", null, { timeout: 5_000 });
+        await expect(diagnosis.getAttribute("aria-live")).resolves.toBe("polite");
+        await page.waitForFunction(() => {
+          const r = document.querySelector("[data-testid=diagnosis]")!.getBoundingClientRect();
+          return r.top >= 0 && r.top < window.innerHeight;
+        }, null, { timeout: 5_000 });
+        await page.screenshot({ path: artifact(`walk-verdict-${name}.png`) });
+      });
+    }
+
     it("a reading that is not a number is reported beside its field and the other values are kept", async () => {
       const page = await open(suite.context, { allow400: (u) => new URL(u).pathname.startsWith(IGNITION) });
       await gotoHydrated(page, IGNITION);
