@@ -27,7 +27,15 @@ const wireSizeBody = z.object({
 type WireSize = z.infer<typeof wireSizeBody>;
 
 const VERDICTS = ["in_range", "low", "high"] as const;
-const benchBody = z.object({ results: z.array(z.object({ name: text, measured: num, at20C: num, verdict: z.enum(VERDICTS) })) });
+const MATERIALS = ["copper", "carbon", "other"] as const;
+// measured and at20C are numbers, or "OL" for an open circuit (JSON has no Infinity); max null is "no upper limit".
+const reading = num.or(z.literal("OL"));
+const benchBody = z.object({
+  results: z.array(z.object({
+    name: text, measured: reading, at20C: reading, verdict: z.enum(VERDICTS), unit: text, max: num.nullable(), material: z.enum(MATERIALS), steps: z.array(text),
+  })),
+  cautions: z.array(z.object({ kind: text, title: text, text })).min(1),
+});
 
 const QUALITIES = ["exact", "tracer-missing", "faded", "none"] as const;
 const finderBody = z.object({
@@ -375,7 +383,7 @@ describe("POST /api/v1/bench", () => {
     expect(r.measured).toBe(500);
     expect(r.verdict).toBe("in_range");
     // Not IEC 60228's simplified α ≈ 0.004 (RF §3.2 Kt table: 0.806 at 80 °C → 403 Ω): the app uses IEC 60028's 0.00393.
-    expect(Math.abs(r.at20C - 500 * 0.806)).toBeGreaterThan(1);
+    expect(Math.abs(Number(r.at20C) - 500 * 0.806)).toBeGreaterThan(1);
     // copper defaults to true for a resistance in ohms (API.md).
     const byDefault = await one({ name: "coil secondary", min: 380, max: 420, unit: "Ω", measured: 500, tempC: 80 });
     expect(byDefault.at20C).toBeCloseTo(500 / 1.2358, 6);
@@ -435,6 +443,61 @@ describe("POST /api/v1/bench", () => {
     expect(asCopper.at20C).toBeCloseTo(5.5 / 1.2358, 9);
   });
 
+  it("a 6.3 kΩ resistor cap at 40 °C against 4–6 kΩ is high: carbon, not corrected (the default for a cap)", async () => {
+    // RF §4: resistor caps ≈ 5 kΩ (from memory / common practice); RF 5.1: copper's correction applies to copper windings
+    // only, carbon caps and suppressors are not corrected (common practice). IEC 60028 α = 0.00393 (RF §3.3) would have
+    // brought it to 6.3 / 1.0786 = 5.84 kΩ and called it in range.
+    const r = await one({ name: "Resistor plug cap", min: 4, max: 6, unit: "kΩ", measured: 6.3, tempC: 40 });
+    expect(r).toMatchObject({ at20C: 6.3, verdict: "high", material: "carbon", unit: "kΩ" });
+    expect(r.steps.join(" ")).toMatch(/Material not given: carbon, from the name/);
+    const forced = await one({ name: "Resistor plug cap", min: 4, max: 6, unit: "kΩ", measured: 6.3, tempC: 40, material: "copper" });
+    expect(Number(forced.at20C)).toBeCloseTo(6.3 / (1 + 0.00393 * 20), 9);
+    expect(Number(forced.at20C)).toBeCloseTo(5.84, 2);
+    expect(forced.verdict).toBe("in_range");
+  });
+
+  it("material: copper corrects, carbon and other do not; the name decides when none is given, and the steps say so", async () => {
+    // RF §3.3: at 80 °C R80/R20 = 1.2358 (IEC 60028 α = 0.00393).
+    const spec = { min: 400, max: 600, unit: "ohm", measured: 600, tempC: 80 };
+    const r = await bench([
+      { name: "Pickup coil", ...spec },
+      { name: "Pickup coil", ...spec, material: "carbon" },
+      { name: "Pickup coil", ...spec, material: "other" },
+      { name: "Pickup coil", ...spec, material: "copper" },
+      { name: "Tail lamp filament", ...spec }, // tungsten: never copper's α (RF 5.1, common practice)
+      { name: "Suppressor", ...spec },
+      { name: "Unlabelled reading", ...spec }, // unrecognised in ohms → copper, said so
+    ]);
+    expect(r.results.map((x) => x.material)).toEqual(["copper", "carbon", "other", "copper", "other", "carbon", "copper"]);
+    expect(r.results.map((x) => x.unit)).toEqual(Array(7).fill("Ω")); // "ohm" is answered as Ω
+    for (const i of [0, 3, 6]) expect(Number(r.results[i].at20C)).toBeCloseTo(600 / 1.2358, 9);
+    for (const i of [1, 2, 4, 5]) expect(r.results[i].at20C).toBe(600);
+    expect(r.results[6].steps.join(" ")).toMatch(/not recognised from the name: taken as copper/);
+    expect(r.results[4].steps.join(" ")).toMatch(/tungsten/);
+  });
+
+  it("a spec with no upper limit (max null): in range at or above min, OL counts as open; OL against a bounded spec is high", async () => {
+    // Insulation of a stator phase to earth must read open, e.g. at least 1 MΩ (common practice).
+    const r = await bench([
+      { name: "Stator phase to earth", min: 1, max: null, unit: "MΩ", measured: "OL" },
+      { name: "Stator phase to earth", min: 1, max: null, unit: "MΩ", measured: 5 },
+      { name: "Stator phase to earth", min: 1, max: null, unit: "MΩ", measured: 0.05 },
+      { name: "Pickup coil", min: 400, max: 600, unit: "Ω", measured: "OL", tempC: 30 },
+      { name: "Pickup coil", min: 400, max: 600, unit: "Ω", measured: "ol" },
+    ]);
+    expect(r.results.map((x) => x.verdict)).toEqual(["in_range", "in_range", "low", "high", "high"]);
+    expect(r.results[0]).toMatchObject({ measured: "OL", at20C: "OL", max: null });
+    expect(r.results[3]).toMatchObject({ measured: "OL", at20C: "OL", max: 600 });
+  });
+
+  it("the answer carries the bench's cautions, the meter one first", async () => {
+    const r = await one({ name: "Pickup coil", min: 400, max: 600, unit: "Ω", measured: 500 });
+    expect(r.verdict).toBe("in_range");
+    const { cautions } = await bench([{ name: "Pickup coil", min: 400, max: 600, unit: "Ω", measured: 500 }]);
+    expect(cautions.map((c) => c.kind)).toEqual(["meter", "battery", "ignition"]);
+    expect(cautions[0].text).toMatch(/ignition off, then switch on/);
+  });
+
   it("a reading that is not a resistance is not corrected (copper defaults to false outside ohms)", async () => {
     const r = await one({ name: "pickup peak", min: 0.2, max: 2, unit: "V", measured: 1.5, tempC: 80 });
     expect(r.at20C).toBe(1.5);
@@ -467,6 +530,9 @@ describe("POST /api/v1/bench", () => {
     ["measured as a string", { readings: [{ name: "a", min: 1, max: 2, unit: "Ω", measured: "1.5" }] }, "readings.0.measured"],
     ["empty name", { readings: [{ name: " ", min: 1, max: 2, unit: "Ω", measured: 1.5 }] }, "readings.0.name"],
     ["copper as a string", { readings: [{ name: "a", min: 1, max: 2, unit: "Ω", measured: 1.5, copper: "yes" }] }, "readings.0.copper"],
+    ["max omitted (null is the way to say no upper limit)", { readings: [{ name: "a", min: 1, unit: "MΩ", measured: 5 }] }, "readings.0.max"],
+    ["measured as a word other than OL", { readings: [{ name: "a", min: 1, max: 2, unit: "Ω", measured: "open" }] }, "readings.0.measured"],
+    ["an unknown material", { readings: [{ name: "a", min: 1, max: 2, unit: "Ω", measured: 1.5, material: "brass" }] }, "readings.0.material"],
   ])("%s → 400 naming the field", async (_, body, field) => {
     const err = await expectError("/api/v1/bench", 400, jsonInit(body));
     expect(err.code).toBe("bad_request");
@@ -478,6 +544,8 @@ describe("POST /api/v1/bench", () => {
     ["negative resistance", { name: "a", min: 1, max: 2, unit: "Ω", measured: -1 }],
     ["tempC out of range", { name: "a", min: 1, max: 2, unit: "Ω", measured: 1.5, tempC: 900 }],
     ["copper correction on volts", { name: "a", min: 1, max: 2, unit: "V", measured: 1.5, copper: true }],
+    ["material copper on volts", { name: "a", min: 1, max: 2, unit: "V", measured: 1.5, material: "copper" }],
+    ["material and copper disagree", { name: "a", min: 1, max: 2, unit: "Ω", measured: 1.5, material: "carbon", copper: true }],
   ])("%s → 400 naming the reading (domain check, not 500)", async (_, reading) => {
     const err = await expectError("/api/v1/bench", 400, jsonInit({ readings: [{ name: "fine", min: 1, max: 2, unit: "Ω", measured: 1.5 }, reading] }));
     expect(err.code).toBe("bad_request");
