@@ -4,6 +4,7 @@
  * and the diagnosis. Check values and their sources are in /work/shared/REFERENCE-FACTS.md §3–§4 ("RF" below).
  */
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { DomUtils, parseDocument } from "htmlparser2";
 import { z } from "zod";
 import { startServer, type TestServer } from "../support/server";
 import { errorBody, shape, stateDigest, client } from "./helpers";
@@ -550,6 +551,102 @@ describe("POST /api/v1/bench", () => {
     const err = await expectError("/api/v1/bench", 400, jsonInit({ readings: [{ name: "fine", min: 1, max: 2, unit: "Ω", measured: 1.5 }, reading] }));
     expect(err.code).toBe("bad_request");
     expect(err.field ?? "", "the second reading is named").toMatch(/^readings[.[]1\]?\./);
+  });
+});
+
+describe("GET /bench (the page, without JavaScript: the sheet lives in its address)", () => {
+  type El = ReturnType<typeof DomUtils.findAll>[number];
+  async function page(query: string) {
+    const r = await call(`/bench?${query}`);
+    expect(r.status, r.body.slice(0, 300)).toBe(200);
+    const nodes = parseDocument(r.body).children;
+    const all = (pred: (e: El) => boolean) => DomUtils.findAll(pred, nodes);
+    const text = (e: El) => DomUtils.textContent(e).replace(/\s+/g, " ").trim();
+    const row = (i: number) => all((e) => e.name === "tr" && e.attribs["data-row"] === String(i))[0];
+    const inRow = (i: number, pred: (e: El) => boolean) => DomUtils.findAll(pred, [row(i)]);
+    const named = (i: number, name: string) => inRow(i, (e) => e.attribs.name === name)[0];
+    // The option a browser submits: the one marked selected, else the first; its value, else its text.
+    const selected = (sel: El) => {
+      const options = DomUtils.findAll((o) => o.name === "option", [sel]);
+      const o = options.find((x) => "selected" in x.attribs) ?? options[0];
+      return o ? o.attribs.value ?? text(o) : "";
+    };
+    return { all, text, row, inRow, named, selected };
+  }
+
+  it("a resistor cap at 40 °C on auto is high, a pickup on auto is corrected, and each row has a material select", async () => {
+    // RF §4 resistor caps ≈ 5 kΩ; RF 5.1 carbon is not corrected; RF §3.3 α = 0.00393: 560 / 1.0786 = 519.2 Ω.
+    const q = new URLSearchParams({ n0: "Resistor plug cap", lo0: "4", hi0: "6", u0: "kohm", m0: "6.3", t0: "40", n1: "Pickup coil", lo1: "420", hi1: "580", u1: "Ω", m1: "560", t1: "40" });
+    const p = await page(q.toString());
+    const verdict = (i: number) => p.inRow(i, (e) => e.attribs["data-verdict"] !== undefined)[0]?.attribs["data-verdict"];
+    expect(verdict(0)).toBe("high");
+    expect(p.inRow(0, (e) => e.attribs["data-material"] !== undefined)[0]?.attribs["data-material"]).toBe("carbon");
+    expect(verdict(1)).toBe("in_range");
+    expect(p.text(p.row(1))).toContain("519.2 Ω");
+    for (const i of [0, 1, 2]) {
+      const sel = p.named(i, `mt${i}`);
+      expect(sel?.name, `row ${i + 1} has a material select`).toBe("select");
+      expect(DomUtils.findAll((o) => o.name === "option", [sel]).map((o) => o.attribs.value)).toEqual(["", "copper", "carbon", "other"]);
+    }
+    // "kohm" is shown as kΩ in the unit select.
+    expect(p.selected(p.named(0, "u0"))).toBe("kΩ");
+  });
+
+  it("a chosen material, an open maximum and OL are kept in the address and judged", async () => {
+    const q = new URLSearchParams({ n0: "Pickup coil", lo0: "420", hi0: "580", u0: "Ω", m0: "600", t0: "60", mt0: "carbon", n1: "Stator phase to earth", lo1: "1", hi1: "open", u1: "MΩ", m1: "OL" });
+    const p = await page(q.toString());
+    expect(p.selected(p.named(0, "mt0"))).toBe("carbon");
+    expect(p.inRow(0, (e) => e.attribs["data-verdict"] !== undefined)[0].attribs["data-verdict"]).toBe("high"); // 600 not corrected
+    expect(p.inRow(1, (e) => e.attribs["data-verdict"] !== undefined)[0].attribs["data-verdict"]).toBe("in_range");
+    expect(p.text(p.row(1))).toContain("OL");
+    // A sheet bookmarked with the older copper select (cu=no) still reads as not copper.
+    const old = await page(new URLSearchParams({ n0: "Pickup coil", lo0: "420", hi0: "580", u0: "Ω", m0: "600", t0: "60", cu0: "no" }).toString());
+    expect(old.selected(old.named(0, "mt0"))).toBe("other");
+  });
+
+  it("a blank maximum asks for a number or “open” instead of judging", async () => {
+    const p = await page(new URLSearchParams({ n0: "Stator phase to earth", lo0: "1", hi0: "", u0: "MΩ", m0: "3" }).toString());
+    expect(p.text(p.inRow(0, (e) => e.attribs.role === "alert")[0])).toMatch(/write “open”/);
+  });
+
+  it("shows the bench cautions with the meter first and the deferral to the manual", async () => {
+    const p = await page("");
+    const kinds = p.all((e) => e.attribs["data-caution"] !== undefined).map((e) => e.attribs["data-caution"]);
+    expect(kinds).toEqual(["meter", "battery", "ignition"]);
+    const aside = p.all((e) => e.name === "aside" && e.attribs["aria-label"] === "Safety cautions")[0];
+    expect(p.text(aside)).toMatch(/factory service manual/);
+  });
+
+  it("a sheet from a card carries each spec's material, kind, conditions and open maximum into its row", async () => {
+    const specBody = z.object({ connector: z.object({ specs: z.array(z.object({
+      name: text, min: num, max: num.nullable(), unit: text, conditions: z.string(), kind: text, material: z.enum(MATERIALS).nullable(),
+    })) }) });
+    const withSpecs: { slug: string; specs: z.infer<typeof specBody>["connector"]["specs"] }[] = [];
+    const detail = z.object({ family: z.object({ systems: z.array(z.object({ connectors: z.array(z.object({ slug })) })) }) });
+    for (const f of familySlugs.slice(0, 3)) {
+      const { family } = await getJson(`/api/v1/families/${f}`, detail);
+      for (const c of family.systems.flatMap((x) => x.connectors)) {
+        const { connector } = await getJson(`/api/v1/connectors/${c.slug}`, specBody);
+        if (connector.specs.length) withSpecs.push({ slug: c.slug, specs: connector.specs });
+      }
+    }
+    expect(withSpecs.length, "demo cards with specs").toBeGreaterThan(0);
+    for (const { slug: s, specs } of withSpecs.slice(0, 6)) {
+      const p = await page(`connector=${s}`);
+      specs.forEach((spec, i) => {
+        expect(p.named(i, `n${i}`).attribs.value, `${s} row ${i + 1}`).toMatch(new RegExp(`^${spec.name.replace(/[.*+?^${}()|[\]\\]/g, "\\$&")}, between cavities`));
+        expect(p.named(i, `hi${i}`).attribs.value).toBe(spec.max === null ? "open" : String(spec.max));
+        expect(p.selected(p.named(i, `mt${i}`))).toBe(spec.material ?? "");
+        const shown = p.inRow(i, (e) => e.attribs["data-conditions"] !== undefined)[0];
+        if (spec.conditions.trim()) {
+          expect(p.text(shown)).toBe(`Measure: ${spec.conditions.replace(/\s+/g, " ").trim()}`);
+          expect(p.named(i, `c${i}`).attribs.value).toBe(spec.conditions);
+        } else {
+          expect(shown, "no empty conditions line").toBeUndefined();
+        }
+        if (spec.kind !== "resistance") expect(p.inRow(i, (e) => e.attribs["data-kind"] === spec.kind)).toHaveLength(1);
+      });
+    }
   });
 });
 
