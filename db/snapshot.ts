@@ -1,4 +1,5 @@
 import { Op, type Transaction } from "sequelize";
+import { isSpecMaterial, specKindOf } from "../app/domain/specs.ts";
 import { Component, Connector, Photo, Pin, SpecValue, System, Wire } from "./models/index.ts";
 
 /**
@@ -20,7 +21,11 @@ export async function connectorSnapshot(connectorId: number, transaction?: Trans
     system: system.kind, matesWith: mate?.slug ?? null,
     layout: { rows: c.rows, cols: c.cols, cavities: c.cavities, pin1: c.pin1, latch: c.latch },
     pins: pins.map((p) => ({ cavity: p.cavity, code: p.colourCode, circuit: p.circuit, terminal: p.terminal, goesTo: goesTo.get(p.id) ?? null })),
-    specs: specs.map((s) => ({ name: s.name, min: s.min, max: s.max, unit: s.unit, between: [s.betweenA, s.betweenB] as [string, string], atC: s.atC, source: s.source })),
+    // max null is "no upper limit"; conditions, kind and material make the value measurable and say if it is corrected.
+    specs: specs.map((s) => ({
+      name: s.name, min: s.min, max: s.max, unit: s.unit, between: [s.betweenA, s.betweenB] as [string, string], atC: s.atC, source: s.source,
+      conditions: s.conditions ?? "", kind: specKindOf(s.kind), material: isSpecMaterial(s.material) ? s.material : null,
+    })),
     notes: c.notes,
     photos: photos.map((p) => ({ id: p.id, caption: p.caption, credit: p.credit })),
   };

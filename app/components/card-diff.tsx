@@ -4,6 +4,7 @@ import { FaceView } from "~/components/face-view";
 import { faceGeometry, type FaceGeometry, type HousingLayout } from "~/domain/connector-face";
 import { facePaint } from "~/domain/face-paint";
 import { SYSTEM_NAMES, decodeColour, describeColour, swatch, type ColourSystemId, type HouseStyleId } from "~/domain/colours";
+import { SPEC_KIND_LABELS, SPEC_MATERIAL_LABELS, specKindOf, specRangeText } from "~/domain/specs";
 import type { CardDiff, PinDiffRow, ProposedPhoto, ProposedPin, ProposedSpec, RowChange } from "~/domain/submissions";
 
 /**
@@ -254,11 +255,15 @@ function FacePanel(props: { label: string; cardName: string; layout: HousingLayo
 }
 
 function specCells(s: ProposedSpec) {
+  const kind = specKindOf(s.kind);
   return {
     name: s.name,
     between: `${s.between[0]} – ${s.between[1]}`,
-    range: `${s.min}–${s.max} ${s.unit}`,
+    range: specRangeText(s.min, s.max ?? null, s.unit),
     at: `${s.atC} °C`,
+    // A moderator must see what a spec measures and under which conditions, or a changed condition slips through.
+    what: [SPEC_KIND_LABELS[kind], s.material ? SPEC_MATERIAL_LABELS[s.material] : null].filter(Boolean).join(" · "),
+    conditions: (s.conditions ?? "").trim() || "— (not stated)",
     source: s.source,
   };
 }
@@ -269,6 +274,8 @@ function SpecTable({ rows, caption }: { rows: CardDiff["specs"]; caption: string
     { key: "between", label: "Between cavities" },
     { key: "range", label: "Range" },
     { key: "at", label: "At" },
+    { key: "what", label: "What it measures" },
+    { key: "conditions", label: "Measured how" },
     { key: "source", label: "Source" },
   ] as const;
   return (
@@ -289,10 +296,10 @@ function SpecTable({ rows, caption }: { rows: CardDiff["specs"]; caption: string
               <tr key={i} data-spec={(row.after ?? row.before)?.name} data-change={row.change} className={cx("border-b border-rule align-top", ROW_TINT[row.change])}>
                 <td className={cx(CELL, ROW_BAR[row.change])}><Mark change={row.change} /></td>
                 {cols.map((c) => {
-                  if (!a) return <td key={c.key} className={CELL}><del className="decoration-2">{b![c.key]}</del></td>;
+                  if (!a) return <td key={c.key} className={CELL} data-field={c.key}><del className="decoration-2">{b![c.key]}</del></td>;
                   const changed = row.change === "changed" && b !== null && b[c.key] !== a[c.key];
                   return (
-                    <td key={c.key} className={cx(CELL, changed && CHANGED_CELL)} data-changed={changed ? "true" : undefined}>
+                    <td key={c.key} className={cx(CELL, changed && CHANGED_CELL)} data-field={c.key} data-changed={changed ? "true" : undefined}>
                       {changed ? <WasProposed proposed={a[c.key]} was={b[c.key]} /> : a[c.key]}
                     </td>
                   );

@@ -8,6 +8,7 @@ import {
   LATCH_SIDES, SYSTEM_KINDS, isTerminalDesignation, proposalProblems, type CardProposal, type Problem, type ProposedPin, type ProposedSpec,
 } from "~/domain/submissions";
 import { LIMITS } from "~/domain/submissions";
+import { SPEC_KINDS, SPEC_KIND_LABELS, SPEC_MATERIALS, SPEC_MATERIAL_LABELS, SPEC_OFF_CARD_POINTS, specKindOf, type SpecMaterial } from "~/domain/specs";
 
 /** A card of the same family, for "mates with" and "goes to". */
 export interface FamilyCardOption {
@@ -17,7 +18,7 @@ export interface FamilyCardOption {
 }
 
 // The names of the editor's own inputs (as proposalFromForm reads them), which keep their own ids.
-const INPUT_NAME = /^(?:name|location|housing|gender|system|matesWith|notes|paste|pasteMode|layout\.(?:rows|cols|pin1|latch|cell\.\d+\.\d+)|pins\.\d+\.(?:cavity|code|circuit|terminal|goesToConnector|goesToCavity)|specs\.\d+\.(?:name|min|max|unit|betweenA|betweenB|atC|source))$/;
+const INPUT_NAME = /^(?:name|location|housing|gender|system|matesWith|notes|paste|pasteMode|layout\.(?:rows|cols|pin1|latch|cell\.\d+\.\d+)|pins\.\d+\.(?:cavity|code|circuit|terminal|goesToConnector|goesToCavity)|specs\.\d+\.(?:name|min|max|open|unit|betweenA|betweenB|atC|source|conditions|kind|material))$/;
 
 /**
  * The element id the editor gives a form field (its `name`, or a Problem.field such as "pins.2.goesTo" or "layout"), so a
@@ -40,7 +41,7 @@ function displayKey(field: string): string {
   if ((m = /^pins\.(\d+)\.(cavity|code|circuit|terminal)(?:\.|$)/.exec(field))) return `pins.${m[1]}.${m[2]}`;
   if ((m = /^pins\.(\d+)(?:\.|$)/.exec(field))) return `pins.${m[1]}.cavity`;
   if (field === "pins" || field.startsWith("pins.")) return "pins";
-  if ((m = /^specs\.(\d+)\.(name|min|max|unit|atC|source)(?:\.|$)/.exec(field))) return `specs.${m[1]}.${m[2]}`;
+  if ((m = /^specs\.(\d+)\.(name|min|max|unit|atC|source|conditions|kind|material)(?:\.|$)/.exec(field))) return `specs.${m[1]}.${m[2]}`;
   if ((m = /^specs\.(\d+)(?:\.|$)/.exec(field))) return `specs.${m[1]}.name`;
   if (field === "specs" || field.startsWith("specs.")) return "specs";
   return field;
@@ -90,7 +91,8 @@ const sameValue = (a: unknown, b: unknown) => JSON.stringify(a) === JSON.stringi
 
 const numText = (n: unknown) => (typeof n === "number" && Number.isFinite(n) ? String(n) : "");
 
-const isBlankSpec = (s: ProposedSpec) => !s.name.trim() && !Number.isFinite(s.min) && !Number.isFinite(s.max);
+// An open maximum (null) counts as blank here, as the form reader drops a row with no name, numbers or conditions.
+const isBlankSpec = (s: ProposedSpec) => !s.name.trim() && !Number.isFinite(s.min) && !Number.isFinite(s.max ?? Number.NaN) && !(s.conditions ?? "").trim();
 
 function readingOrder(cavities: HousingLayout["cavities"]) {
   return [...cavities].sort((a, b) => a.row - b.row || a.col - b.col);
@@ -174,7 +176,7 @@ export function ProposalEditor(props: {
       // An unfinished spec row gets the plain requests below, not "cavity “” is not in the layout".
       const s = draft.specs[Number(m[3])];
       if (isBlankSpec(s)) return false;
-      return m[4] === "between" ? s.between.every((c) => c.trim() !== "") : Number.isFinite(s.min) && Number.isFinite(s.max);
+      return m[4] === "between" ? s.between.every((c) => c.trim() !== "") : Number.isFinite(s.min) && (s.max === null || Number.isFinite(s.max));
     }
     if (m[2] === "goesTo") { const g = draft.pins[Number(m[1])].goesTo; return Boolean(g?.connector && g.cavity); }
     return true;
@@ -194,7 +196,7 @@ export function ProposalEditor(props: {
       }
     }
     if (isBlankSpec(s)) return;
-    if (!typo && !(Number.isFinite(s.min) && Number.isFinite(s.max))) live.push({ field: `specs.${i}.min`, message: `Spec ${i + 1}: give the least and the greatest value.` });
+    if (!typo && !(Number.isFinite(s.min) && (s.max === null || Number.isFinite(s.max)))) live.push({ field: `specs.${i}.min`, message: `Spec ${i + 1}: give the least and the greatest value.` });
     if (s.between.some((c) => c.trim() === "")) live.push({ field: `specs.${i}.between`, message: `Spec ${i + 1}: give both cavities to measure between.` });
   });
   const byField = new Map<string, string[]>();
@@ -226,6 +228,17 @@ export function ProposalEditor(props: {
     }));
   const setSpec = (i: number, patch: Partial<ProposedSpec>) =>
     update((d) => ({ ...d, specs: d.specs.map((s, j) => (j === i ? { ...s, ...patch } : s)) }));
+  // Ticking "no upper limit" clears what was typed as the greatest value; unticking leaves the box empty to fill in.
+  const setOpen = (i: number, open: boolean) => {
+    setSpecText((t) => { const next = [...t]; next[i] = { ...next[i], max: undefined }; return next; });
+    setSpec(i, { max: open ? null : Number.NaN });
+  };
+  // An insulation test must read open, so choosing it ticks "no upper limit" as well.
+  const setKind = (i: number, value: string) => {
+    const kind = specKindOf(value);
+    setSpec(i, { kind });
+    if (kind === "insulation") setOpen(i, true);
+  };
   const setSpecNumber = (i: number, f: NumField, text: string) => {
     setSpecText((t) => { const next = [...t]; next[i] = { ...next[i], [f]: text }; return next; });
     setSpec(i, { [f]: text.trim() === "" ? Number.NaN : Number(text) });
@@ -309,6 +322,7 @@ export function ProposalEditor(props: {
   const paint = paintOf(draft.pins, decoded);
   const activeCavity = activeRow !== null ? draft.pins[activeRow]?.cavity ?? null : null;
   const cavityListId = "ed-cavity-list";
+  const pointListId = "ed-point-list";
 
   return (
     <div className="space-y-6" onKeyDown={onKeyDown}>
@@ -579,6 +593,7 @@ export function ProposalEditor(props: {
             })}
           </ol>
           <datalist id={cavityListId}>{layoutLabels.map((l) => <option key={l} value={l} />)}</datalist>
+          <datalist id={pointListId}>{[...layoutLabels, ...SPEC_OFF_CARD_POINTS.filter((x) => !layoutLabels.includes(x))].map((l) => <option key={l} value={l} />)}</datalist>
           <div className="flex flex-wrap gap-2">
             <button id="ed-add-row" type="submit" name="intent" value="add-row" formNoValidate disabled={draft.pins.length >= LIMITS.pins}
               onClick={run("add-row", (next) => `ed-pins-${next.pins.length - 1}-cavity`)} className={BUTTON}>Add a row</button>
@@ -609,27 +624,53 @@ export function ProposalEditor(props: {
 
         <section id={editorFieldId("specs")} tabIndex={-1} aria-labelledby="ed-specs-heading" className="space-y-3">
           <h2 id="ed-specs-heading" className="text-xl font-bold">What it should read</h2>
-          <p className="text-sm text-muted">Values a rider can check with a meter, with the two cavities to measure between. Leave a row empty to drop it.</p>
+          <p className="text-sm text-muted">
+            Values a rider can check with a meter, with the two cavities to measure between and the conditions that make the reading possible (a coil primary
+            measured through the loom with the ignition off floats and reads open: say “plug apart, across the coil&apos;s own terminals”). Leave a row empty to drop it.
+          </p>
           {problemText("specs")}
           <p role="status" className="text-sm font-semibold">{notice?.where === "specs" ? notice.text : ""}</p>
           {draft.specs.length > 0 ? (
             <ol className="space-y-3" aria-label="Spec rows">
               {draft.specs.map((s, i) => {
                 const at = `specs.${i}`;
-                const spec = (f: "name" | "unit" | "source", label: string, max: number, cls = "") => (
+                const spec = (f: "name" | "unit" | "source" | "conditions", label: string, max: number, cls = "", hint?: string) => (
                   <div className={cls}>
                     <label htmlFor={editorFieldId(`${at}.${f}`)} className={LABEL}>{label}</label>
-                    <input id={editorFieldId(`${at}.${f}`)} name={`${at}.${f}`} value={s[f]} maxLength={max} autoComplete="off" onChange={(e) => setSpec(i, { [f]: e.target.value })}
-                      aria-describedby={describedBy(`${at}.${f}`)} className={inputClass(problemsOf(`${at}.${f}`).length > 0)} />
+                    <input id={editorFieldId(`${at}.${f}`)} name={`${at}.${f}`} value={s[f] ?? ""} maxLength={max} autoComplete="off" onChange={(e) => setSpec(i, { [f]: e.target.value })}
+                      aria-invalid={problemsOf(`${at}.${f}`).length ? true : undefined}
+                      aria-describedby={describedBy(`${at}.${f}`, hint && `${editorFieldId(`${at}.${f}`)}-hint`)} className={inputClass(problemsOf(`${at}.${f}`).length > 0)} />
+                    {hint ? <p id={`${editorFieldId(`${at}.${f}`)}-hint`} className="mt-1 text-sm text-muted">{hint}</p> : null}
                     {problemText(`${at}.${f}`)}
                   </div>
                 );
+                // With no upper limit the greatest-value box is switched off once hydrated; without JavaScript it stays
+                // usable (the server cannot re-enable it) and the ticked box wins when the form is read.
+                const open = s.max === null;
                 const num = (f: NumField, label: string) => (
                   <div>
                     <label htmlFor={editorFieldId(`${at}.${f}`)} className={LABEL}>{label}</label>
                     <input id={editorFieldId(`${at}.${f}`)} name={`${at}.${f}`} inputMode="decimal" autoComplete="off" value={specText[i]?.[f] ?? numText(s[f])}
+                      disabled={f === "max" && open && hydrated ? true : undefined}
                       onChange={(e) => setSpecNumber(i, f, e.target.value)} aria-invalid={problemsOf(`${at}.${f}`).length ? true : undefined}
                       aria-describedby={describedBy(`${at}.${f}`)} className={`${inputClass(problemsOf(`${at}.${f}`).length > 0)} font-mono`} />
+                    {f === "max" ? (
+                      <label htmlFor={editorFieldId(`${at}.open`)} className="mt-1 flex items-center gap-1.5 text-sm">
+                        <input id={editorFieldId(`${at}.open`)} type="checkbox" name={`${at}.open`} value="1" checked={open}
+                          onChange={(e) => setOpen(i, e.target.checked)} className="h-4 w-4" />
+                        no upper limit (must read open)
+                      </label>
+                    ) : null}
+                    {problemText(`${at}.${f}`)}
+                  </div>
+                );
+                const choice = (f: "kind" | "material", label: string, value: string, options: readonly (readonly [string, string])[]) => (
+                  <div className="sm:col-span-2 lg:col-span-2">
+                    <label htmlFor={editorFieldId(`${at}.${f}`)} className={LABEL}>{label}</label>
+                    <select id={editorFieldId(`${at}.${f}`)} name={`${at}.${f}`} value={value} onChange={(e) => (f === "kind" ? setKind(i, e.target.value) : setSpec(i, { material: (e.target.value || null) as SpecMaterial | null }))}
+                      aria-invalid={problemsOf(`${at}.${f}`).length ? true : undefined} aria-describedby={describedBy(`${at}.${f}`)} className={inputClass(problemsOf(`${at}.${f}`).length > 0)}>
+                      {options.map(([v, words]) => <option key={v} value={v}>{words}</option>)}
+                    </select>
                     {problemText(`${at}.${f}`)}
                   </div>
                 );
@@ -638,7 +679,7 @@ export function ProposalEditor(props: {
                   return (
                     <div>
                       <label htmlFor={editorFieldId(name)} className={LABEL}>{label}</label>
-                      <input id={editorFieldId(name)} name={name} value={s.between[k]} maxLength={12} list={cavityListId} autoComplete="off" spellCheck={false}
+                      <input id={editorFieldId(name)} name={name} value={s.between[k]} maxLength={12} list={pointListId} autoComplete="off" spellCheck={false}
                         onChange={(e) => setSpec(i, { between: (k === 0 ? [e.target.value, s.between[1]] : [s.between[0], e.target.value]) as [string, string] })}
                         aria-describedby={describedBy(`${at}.between`)} className={`${inputClass(problemsOf(`${at}.between`).length > 0)} font-mono`} />
                     </div>
@@ -649,12 +690,16 @@ export function ProposalEditor(props: {
                     <div role="group" aria-labelledby={`ed-specs-${i}-label`} className="grid grid-cols-1 gap-3 sm:grid-cols-4 lg:grid-cols-8">
                       <p id={`ed-specs-${i}-label`} className="text-sm font-bold sm:col-span-4 lg:col-span-8">Spec {i + 1}</p>
                       {spec("name", "Measurement", 80, "sm:col-span-2 lg:col-span-2")}
-                      {between(0, "Between cavity")}
-                      {between(1, "and cavity")}
+                      {between(0, "Between (cavity, earth, HT, cap)")}
+                      {between(1, "and")}
                       {num("min", "Least")}
                       {num("max", "Greatest")}
                       {spec("unit", "Unit", 12)}
                       {num("atC", "At °C")}
+                      {choice("kind", "What it measures", specKindOf(s.kind), SPEC_KINDS.map((k) => [k, SPEC_KIND_LABELS[k]] as const))}
+                      {choice("material", "Material (resistances)", s.material ?? "", [["", "not stated (the bench sheet reads the name)"], ...SPEC_MATERIALS.map((m) => [m, SPEC_MATERIAL_LABELS[m]] as const)])}
+                      {spec("conditions", "Measured how (conditions)", LIMITS.conditions, "sm:col-span-4 lg:col-span-4",
+                        "e.g. ignition off, plug apart, meter on the 2 kΩ range; or engine at 5000 rpm, headlamp on.")}
                       {spec("source", "Source (manual and page, or how measured)", 120, "sm:col-span-4 lg:col-span-8")}
                       {problemsOf(`${at}.between`).length ? <div className="sm:col-span-4 lg:col-span-8">{problemText(`${at}.between`)}</div> : null}
                     </div>

@@ -13,7 +13,9 @@ type Layout = CardProposal["layout"];
 const blankPin = (cavity: string): ProposedPin => ({ cavity, code: null, circuit: "", terminal: null, goesTo: null });
 
 /** A spec row not filled in yet: its numbers are NaN, which the editor shows as empty boxes. */
-const blankSpec = (): ProposedSpec => ({ name: "", min: Number.NaN, max: Number.NaN, unit: "", between: ["", ""], atC: 20, source: "" });
+const blankSpec = (): ProposedSpec => ({
+  name: "", min: Number.NaN, max: Number.NaN, unit: "", between: ["", ""], atC: 20, source: "", conditions: "", kind: "resistance", material: null,
+});
 
 const isPlaceholder = (pin: ProposedPin) => !pin.code && !pin.circuit.trim() && !pin.terminal && !pin.goesTo;
 

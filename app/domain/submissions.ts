@@ -4,6 +4,7 @@
  */
 import { decodeColour, type ColourSystemId, type HouseStyleId } from "./colours";
 import { layoutProblems, type HousingLayout } from "./connector-face";
+import { SPEC_OFF_CARD_POINTS, isOffCardPoint, specKindOf, type SpecKind, type SpecMaterial } from "./specs";
 
 /** Our words for the states (PRODUCT.md): draft, in review, published, returned, declined. */
 export const SUBMISSION_STATES = ["draft", "in_review", "returned", "declined", "published"] as const;
@@ -55,7 +56,7 @@ export const LATCH_SIDES = ["top", "bottom", "left", "right"] as const;
 
 /** Size limits of a proposal (the schema in app/validation/submissions.ts enforces them; the editor shows them). */
 export const LIMITS = Object.freeze({
-  rows: 20, cols: 20, cavities: 200, pins: 200, specs: 50, photos: 12, notes: 20_000, text: 200, message: 4_000,
+  rows: 20, cols: 20, cavities: 200, pins: 200, specs: 50, photos: 12, notes: 20_000, text: 200, message: 4_000, conditions: 300,
 });
 
 /** A family's main systems (PRODUCT.md). */
@@ -75,11 +76,17 @@ export interface ProposedPin {
 export interface ProposedSpec {
   name: string;
   min: number;
-  max: number;
+  /** null: no upper limit (an insulation test that must read open). */
+  max: number | null;
   unit: string;
   between: [string, string];
   atC: number;
   source: string;
+  /** When and how it can be measured (ignition, engine, what is unplugged), so a rider can repeat it; "" on older cards. */
+  conditions: string;
+  kind: SpecKind;
+  /** For resistances: the conductor, which decides whether the bench sheet corrects it to 20 °C; null: not stated. */
+  material: SpecMaterial | null;
 }
 
 export interface ProposedPhoto {
@@ -139,7 +146,16 @@ export function proposalProblems(
   p: CardProposal,
   colourSystem: ColourSystemId,
   cards: ReadonlyMap<string, readonly string[]> = new Map(),
-  opts: { requireSource?: { kind: string; detail: string }; houseStyle?: HouseStyleId | null } = {},
+  opts: {
+    requireSource?: { kind: string; detail: string };
+    /**
+     * The published card's specs (empty for a new card) when the proposal is about to go in for review: every spec that
+     * is new or changed against them must state the conditions it can be measured under. Omitted: not checked (a draft
+     * being saved, a decision re-checking what was already sent), so older cards' specs without conditions still publish.
+     */
+    specsBefore?: readonly ProposedSpec[];
+    houseStyle?: HouseStyleId | null;
+  } = {},
 ): Problem[] {
   const out: Problem[] = [];
   if (!p.name.trim()) out.push({ field: "name", message: "Give the card a name, e.g. “Pickup coil plug”." });
@@ -169,13 +185,29 @@ export function proposalProblems(
     }
   });
   if (p.pins.length === 0) out.push({ field: "pins", message: "The pin map has no rows." });
+  const unchanged = new Set((opts.specsBefore ?? []).map(specFingerprint));
   p.specs.forEach((s, i) => {
     const at = `specs.${i}`;
     if (!s.name.trim()) out.push({ field: `${at}.name`, message: `Spec ${i + 1} has no name.` });
-    if (!(Number.isFinite(s.min) && Number.isFinite(s.max)) || s.min > s.max) {
+    if (!Number.isFinite(s.min) || (s.max !== null && (!Number.isFinite(s.max) || s.min > s.max))) {
       out.push({ field: `${at}.min`, message: `Spec ${i + 1}: the least value must not be above the greatest.` });
     }
-    for (const c of s.between) if (!cavities.has(c)) out.push({ field: `${at}.between`, message: `Spec ${i + 1}: cavity “${c}” is not in the layout.` });
+    for (const c of s.between) {
+      if (!cavities.has(c) && !isOffCardPoint(c)) {
+        out.push({ field: `${at}.between`, message: `Spec ${i + 1}: “${c}” is neither a cavity of the layout nor ${SPEC_OFF_CARD_POINTS.map((x) => `“${x}”`).join(", ")}.` });
+      }
+    }
+    if (opts.specsBefore && !unchanged.has(specFingerprint(s))) {
+      if (!(s.conditions ?? "").trim()) {
+        out.push({
+          field: `${at}.conditions`,
+          message: `Spec ${i + 1}: say when and how it can be measured (ignition off or on, engine stopped or at what rpm, what is unplugged), so a rider can repeat it.`,
+        });
+      }
+      if (specKindOf(s.kind) === "insulation" && s.max !== null) {
+        out.push({ field: `${at}.max`, message: `Spec ${i + 1}: an insulation test has no upper limit (it must read open): tick “no upper limit” and give the least it must read.` });
+      }
+    }
   });
   if (opts.requireSource) {
     if (!(SOURCE_KINDS as readonly string[]).includes(opts.requireSource.kind)) {
@@ -198,11 +230,19 @@ export interface PinDiffRow {
   fields: (keyof ProposedPin)[];
 }
 
+export interface SpecDiffRow {
+  change: RowChange;
+  before: ProposedSpec | null;
+  after: ProposedSpec | null;
+  /** Which fields differ, for a changed row (conditions, kind and material included). */
+  fields: (keyof ProposedSpec)[];
+}
+
 export interface CardDiff {
   fields: { field: "name" | "location" | "housing" | "gender" | "system" | "matesWith"; before: string | null; after: string | null }[];
   layout: { changed: boolean; before: HousingLayout | null; after: HousingLayout };
   pins: PinDiffRow[];
-  specs: { change: RowChange; before: ProposedSpec | null; after: ProposedSpec | null }[];
+  specs: SpecDiffRow[];
   notes: { changed: boolean; before: string; after: string };
   photos: { added: ProposedPhoto[]; removed: ProposedPhoto[]; kept: ProposedPhoto[] };
   /** Whether anything at all differs. */
@@ -219,8 +259,12 @@ function pinFieldsDiffer(a: ProposedPin, b: ProposedPin): (keyof ProposedPin)[] 
 }
 
 const specKey = (s: ProposedSpec) => `${s.name.trim().toLowerCase()}|${s.between.join("-")}`;
-const sameSpec = (a: ProposedSpec, b: ProposedSpec) =>
-  a.min === b.min && a.max === b.max && a.unit === b.unit && a.atC === b.atC && a.source === b.source;
+const SPEC_FIELDS = ["min", "max", "unit", "atC", "source", "conditions", "kind", "material"] as const;
+// Revisions written before specs had conditions, a kind and a material read as "", resistance and not stated.
+const specValue = (s: ProposedSpec, f: (typeof SPEC_FIELDS)[number]) =>
+  f === "conditions" ? (s.conditions ?? "") : f === "kind" ? specKindOf(s.kind) : f === "material" ? (s.material ?? null) : f === "max" ? (s.max ?? null) : s[f];
+const specFieldsDiffer = (a: ProposedSpec, b: ProposedSpec): (keyof ProposedSpec)[] => SPEC_FIELDS.filter((f) => specValue(a, f) !== specValue(b, f));
+const specFingerprint = (s: ProposedSpec) => JSON.stringify([specKey(s), ...SPEC_FIELDS.map((f) => specValue(s, f))]);
 
 function sameLayout(a: HousingLayout, b: HousingLayout): boolean {
   if (a.rows !== b.rows || a.cols !== b.cols || a.pin1 !== b.pin1 || a.latch !== b.latch) return false;
@@ -254,9 +298,11 @@ export function diffCards(before: CardProposal | null, after: CardProposal): Car
   const afterSpecKeys = new Set(after.specs.map(specKey));
   const specs: CardDiff["specs"] = after.specs.map((s) => {
     const b = beforeSpecs.get(specKey(s)) ?? null;
-    return { change: !b ? "added" : sameSpec(b, s) ? "same" : "changed", before: b, after: s };
+    if (!b) return { change: "added", before: null, after: s, fields: [] };
+    const f = specFieldsDiffer(b, s);
+    return { change: f.length ? "changed" : "same", before: b, after: s, fields: f };
   });
-  for (const b of before?.specs ?? []) if (!afterSpecKeys.has(specKey(b))) specs.push({ change: "removed", before: b, after: null });
+  for (const b of before?.specs ?? []) if (!afterSpecKeys.has(specKey(b))) specs.push({ change: "removed", before: b, after: null, fields: [] });
   const beforePhotos = before?.photos ?? [];
   const afterIds = new Set(after.photos.map((p) => p.id));
   const beforeIds = new Set(beforePhotos.map((p) => p.id));

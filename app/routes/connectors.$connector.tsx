@@ -4,6 +4,7 @@ import { Cautions, type CautionKind } from "~/components/cautions";
 import { ColourChip } from "~/components/colour-chip";
 import { FaceView } from "~/components/face-view";
 import { faceGeometry } from "~/domain/connector-face";
+import { SPEC_KIND_LABELS, specKindOf } from "~/domain/specs";
 import { can } from "~/domain/roles";
 import { checkCard, reportMistake, riderCardState, saveCard } from "~/services/garage.server";
 import { optionalUser, requireCan } from "~/services/guards.server";
@@ -180,15 +181,28 @@ export default function ConnectorCardPage({ loaderData, actionData }: Route.Comp
           <table className="mt-2 w-full max-w-4xl border-collapse bg-white text-left text-[0.95rem] print:mt-1 print:max-w-none print:text-[8pt] print:leading-tight">
             <thead className="border-b-2 border-ink"><tr><th className="p-1.5 print:px-1 print:py-0.5">Measurement</th><th className="p-1.5 print:px-1 print:py-0.5">Between cavities</th><th className="p-1.5 print:px-1 print:py-0.5">Range</th><th className="p-1.5 print:px-1 print:py-0.5">At</th><th className="hidden p-1.5 sm:table-cell print:table-cell print:px-1 print:py-0.5">Source</th></tr></thead>
             <tbody>
-              {card.specs.map((s, i) => (
-                <tr key={i} className="border-b border-rule align-top">
-                  <td className="p-1.5 print:px-1 print:py-0.5">{s.name}<span className="mt-0.5 block text-xs text-muted sm:hidden print:hidden">{s.source}</span></td><td className="p-1.5 print:px-1 print:py-0.5">{s.between[0]} – {s.between[1]}</td>
-                  <td className="p-1.5 print:px-1 print:py-0.5 whitespace-nowrap">{s.min}–{s.max} {s.unit}</td><td className="p-1.5 print:px-1 print:py-0.5 whitespace-nowrap">{s.atC} °C</td><td className="hidden p-1.5 text-sm text-muted sm:table-cell print:table-cell print:px-1 print:py-0.5 print:text-[7pt] print:leading-tight">{s.source}</td>
-                </tr>
-              ))}
+              {card.specs.map((s, i) => {
+                const kind = specKindOf(s.kind);
+                return (
+                  <tr key={i} className="border-b border-rule align-top" data-spec={s.name}>
+                    <td className="p-1.5 print:px-1 print:py-0.5">
+                      {s.name}
+                      {kind !== "resistance" ? <span className="ml-1 text-sm text-muted" data-kind={kind}>({SPEC_KIND_LABELS[kind]})</span> : null}
+                      {/* Beside the value, so the reading can be repeated: without its conditions a value may not be measurable at all. */}
+                      {s.conditions?.trim() ? <span className="mt-0.5 block text-sm" data-conditions><span className="font-semibold">measure:</span> {s.conditions}</span> : null}
+                      <span className="mt-0.5 block text-xs text-muted sm:hidden print:hidden">{s.source}</span>
+                    </td>
+                    <td className="p-1.5 print:px-1 print:py-0.5">{s.between[0]} – {s.between[1]}</td>
+                    <td className="p-1.5 print:px-1 print:py-0.5" data-range>
+                      {s.max === null ? <><span className="whitespace-nowrap">≥ {s.min} {s.unit}</span> <span className="block text-sm">open (no upper limit)</span></> : <span className="whitespace-nowrap">{s.min}–{s.max} {s.unit}</span>}
+                    </td>
+                    <td className="p-1.5 print:px-1 print:py-0.5 whitespace-nowrap">{s.atC} °C</td><td className="hidden p-1.5 text-sm text-muted sm:table-cell print:table-cell print:px-1 print:py-0.5 print:text-[7pt] print:leading-tight">{s.source}</td>
+                  </tr>
+                );
+              })}
             </tbody>
           </table>
-          <p className="mt-1 text-sm text-muted print:text-[8pt]">Measure with the ignition off and the connector unplugged. A copper winding reads about 0.4 % higher per °C above 20 °C.</p>
+          <p className="mt-1 text-sm text-muted print:text-[8pt]">Measure each value under the conditions given with it; a resistance with the ignition off and the connector unplugged. A copper winding reads about 0.4 % higher per °C above 20 °C; the bench sheet corrects for it.</p>
         </section>
       ) : null}
 

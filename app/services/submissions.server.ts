@@ -99,13 +99,22 @@ function snapshotToProposal(snap: ConnectorSnapshot): CardProposal {
   return rest as CardProposal;
 }
 
-/** Everything that keeps this submission from review: the proposal's problems, how the contributor knows, photos. */
-async function submissionProblems(s: Submission, transaction?: Transaction, known?: Awaited<ReturnType<typeof familyContext>>): Promise<Problem[]> {
+/**
+ * Everything that keeps this submission from review: the proposal's problems, how the contributor knows, photos, and
+ * the conditions of every spec it adds or changes against the published card (`before`, read here when not given).
+ */
+async function submissionProblems(
+  s: Submission, transaction?: Transaction, known?: Awaited<ReturnType<typeof familyContext>>, before?: CardProposal | null,
+): Promise<Problem[]> {
   const ctx = known ?? await familyContext(s.familyId, (s.familyRequest as FamilyRequest | null) ?? null, transaction);
   const parsed = proposalSchema.safeParse(s.content);
   if (!parsed.success) return parsed.error.issues.map((i) => ({ field: i.path.map(String).join("."), message: i.message }));
   const cards = new Map(ctx.cards.map((c) => [c.slug, c.cavities]));
-  return proposalProblems(parsed.data, ctx.colourSystem, cards, { requireSource: { kind: s.sourceKind, detail: s.sourceDetail }, houseStyle: ctx.houseStyle });
+  const published = before !== undefined ? before
+    : s.kind === "edit" && s.connectorId ? snapshotToProposal(await connectorSnapshot(s.connectorId, transaction)) : null;
+  return proposalProblems(parsed.data, ctx.colourSystem, cards, {
+    requireSource: { kind: s.sourceKind, detail: s.sourceDetail }, specsBefore: published?.specs ?? [], houseStyle: ctx.houseStyle,
+  });
 }
 
 // ---------------------------------------------------------------------------------------------------------------------
@@ -271,7 +280,7 @@ export async function viewSubmission(viewer: Actor | null, id: number) {
   const [author, messages, problems] = await Promise.all([
     User.findByPk(s.authorId),
     SubmissionMessage.findAll({ where: { submissionId: s.id }, order: [["id", "ASC"]] }),
-    submissionProblems(s, undefined, ctx), // the family was just read: not again
+    submissionProblems(s, undefined, ctx, before), // the family and the published card were just read: not again
   ]);
   const people = await User.findAll({ where: { id: messages.map((m) => m.authorId).filter((x): x is number => !!x) } });
   const checks = connector ? await BikeCheck.findAll({ where: { connectorId: connector.id } }) : [];
@@ -539,7 +548,10 @@ async function publish(s: Submission, transaction: Transaction): Promise<{ conne
 
   await SpecValue.destroy({ where: { connectorId: connector.id }, transaction });
   for (const sp of p.specs) {
-    await SpecValue.create({ connectorId: connector.id, name: sp.name, min: sp.min, max: sp.max, unit: sp.unit, betweenA: sp.between[0], betweenB: sp.between[1], atC: sp.atC, source: sp.source }, { transaction });
+    await SpecValue.create({
+      connectorId: connector.id, name: sp.name, min: sp.min, max: sp.max, unit: sp.unit, betweenA: sp.between[0], betweenB: sp.between[1], atC: sp.atC, source: sp.source,
+      conditions: sp.conditions, kind: sp.kind, material: sp.material,
+    }, { transaction });
   }
 
   // Photos: the proposal's list, in its order, becomes the card's; photos it drops leave the card (files stay for history).

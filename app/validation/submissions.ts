@@ -3,6 +3,7 @@
  * else in a body, such as state, authorId or role, is dropped). Used by the pages (from form fields) and the API (JSON).
  */
 import { z } from "zod";
+import { SPEC_KINDS, SPEC_MATERIALS } from "~/domain/specs";
 import { LATCH_SIDES, LIMITS, SOURCE_KINDS, SYSTEM_KINDS, type CardProposal } from "~/domain/submissions";
 
 export { LIMITS };
@@ -41,12 +42,16 @@ export const proposalSchema = z.object({
   specs: z.array(z.object({
     name: line(80),
     min: num,
-    max: num,
+    // null first: coercion would read null as 0. null is "no upper limit" (an insulation test); omitted is a mistake.
+    max: z.union([z.null(), num]),
     unit: line(12),
     between: z.tuple([line(12), line(12)]),
     atC: num.default(20),
     // A source names the standard or handbook and says how it applies: a sentence, not a word.
     source: line(300).default(""),
+    conditions: line(LIMITS.conditions).default(""),
+    kind: z.union([z.enum(SPEC_KINDS), z.literal("")]).optional().transform((v) => v || "resistance"),
+    material: z.union([z.enum(SPEC_MATERIALS), z.literal(""), z.null()]).optional().transform((v) => v || null),
   })).max(LIMITS.specs).default([]),
   notes: prose(LIMITS.notes).default(""),
   photos: z.array(z.object({ id: uuid, caption: line(200).default(""), credit: line(120).default("") })).max(LIMITS.photos, `may have at most ${LIMITS.photos} photos`).default([]),
@@ -150,10 +155,12 @@ export function proposalFromForm(form: FormData): unknown {
       };
     }),
     specs: indexed("specs")
-      .filter((i) => get(`specs.${i}.name`).trim() !== "" || get(`specs.${i}.min`) !== "" || get(`specs.${i}.max`) !== "")
+      .filter((i) => get(`specs.${i}.name`).trim() !== "" || get(`specs.${i}.min`) !== "" || get(`specs.${i}.max`) !== "" || get(`specs.${i}.conditions`).trim() !== "")
       .map((i) => ({
-        name: get(`specs.${i}.name`), min: get(`specs.${i}.min`), max: get(`specs.${i}.max`), unit: get(`specs.${i}.unit`),
+        // The "no upper limit" box wins over whatever is left in the greatest-value box.
+        name: get(`specs.${i}.name`), min: get(`specs.${i}.min`), max: get(`specs.${i}.open`) ? null : get(`specs.${i}.max`), unit: get(`specs.${i}.unit`),
         between: [get(`specs.${i}.betweenA`), get(`specs.${i}.betweenB`)], atC: get(`specs.${i}.atC`) || 20, source: get(`specs.${i}.source`),
+        conditions: get(`specs.${i}.conditions`), kind: get(`specs.${i}.kind`), material: get(`specs.${i}.material`),
       })),
     notes: get("notes"),
     photos: indexed("photos").filter((i) => get(`photos.${i}.remove`) === "").map((i) => ({

@@ -1,4 +1,6 @@
 import { z } from "zod";
+import { OVER_LIMIT } from "~/domain/bench";
+import { SPEC_MATERIALS } from "~/domain/specs";
 
 const finite = z.number({ error: "must be a number" }).finite("must be a finite number");
 
@@ -26,10 +28,13 @@ export const benchBody = z.object({
   readings: z.array(z.object({
     name: z.string().trim().min(1).max(120),
     min: finite,
-    max: finite,
+    // null: no upper limit (an insulation test that must read open); leaving max out is still a mistake.
+    max: z.union([finite, z.null()], { error: "must be a number, or null for a spec with no upper limit" }),
     unit: z.string().trim().min(1).max(12),
-    measured: finite,
+    // An ohmmeter's "OL" (over limit: open circuit) is a reading too.
+    measured: z.union([finite, z.string().regex(/^ol$/i).transform((): typeof OVER_LIMIT => OVER_LIMIT)], { error: `must be a number, or "${OVER_LIMIT}" for an open circuit` }),
     tempC: finite.min(-50).max(250).optional().nullable(),
+    material: z.enum(SPEC_MATERIALS, { error: `must be one of ${SPEC_MATERIALS.join(", ")}` }).optional().nullable(),
     copper: z.boolean().optional().nullable(),
   })).min(1, "give at least one reading").max(200),
 });

@@ -50,7 +50,8 @@ const connectorSchema = z.object({
   gender: z.enum(["plug", "socket"]), matesWith: slug.nullable(), colourSystem: z.enum(SYSTEM_IDS),
   layout: z.object({ rows: int.min(1), cols: int.min(1), cavities: z.array(z.object({ cavity: text, row: int.min(1), col: int.min(1) })).min(1) }),
   pins: z.array(pinSchema),
-  specs: z.array(z.object({ name: text, min: z.number(), max: z.number(), unit: text, between: z.tuple([text, text]), atC: z.number(), source: text })),
+  // max null: no upper limit (an insulation test that must read open); conditions say how it is measured (issue 11).
+  specs: z.array(z.object({ name: text, min: z.number(), max: z.number().nullable(), unit: text, conditions: text, between: z.tuple([text, text]), atC: z.number(), source: text })),
   photos: z.array(z.object({ url: text, thumbUrl: text, width: int.min(1), height: int.min(1), caption: z.string(), credit: z.string() })),
   revision: z.object({ number: int.min(1), publishedAt: z.iso.datetime() }),
   bikeChecked: int.min(0),

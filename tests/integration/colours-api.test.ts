@@ -121,9 +121,9 @@ describe("house styles in the other reads", () => {
   });
 
   it("families carry their make's house style (API.md additions)", async () => {
-    // db/seeders/demo/makes.ts: invented makes with house styles jis-letters, din, bs.
+    // db/seeders/demo/makes.ts: invented makes with house styles jis-letters, jis-bl-black, din, bs.
     const { families } = await getJson("/api/v1/families?limit=100", z.object({ families: z.array(z.object({ slug: z.string(), make: z.object({ slug: z.string() }), houseStyle: z.enum(HOUSE_IDS).nullable() })) }));
-    const want: Record<string, string> = { asagiri: "jis-letters", brennwald: "din", ashcombe: "bs" };
+    const want: Record<string, string> = { asagiri: "jis-letters", kiriyama: "jis-bl-black", brennwald: "din", ashcombe: "bs" };
     expect(families.length).toBeGreaterThan(0);
     for (const f of families) expect(f.houseStyle, f.slug).toBe(want[f.make.slug]);
     const one = await getJson("/api/v1/families/rx750-four", z.object({ family: z.object({ houseStyle: z.enum(HOUSE_IDS).nullable() }) }));

@@ -194,3 +194,102 @@ describe("S10 and the whole loop: submit → return with a question → answer �
     expect(subjects.filter((x) => /published/i.test(x)), subjects.join(" | ")).toHaveLength(1);
   }, 60_000);
 });
+
+describe("spec conditions end to end: contribute → review diff → publish → card page, JSON and bench sheet", () => {
+  type Spec = { name: string; min: number; max: number | null; unit: string; between: [string, string]; atC: number; source: string; conditions: string; kind: string; material: string | null };
+  type El = ReturnType<typeof DomUtils.findAll>[number];
+  const dom = (html: string) => {
+    const nodes = parseDocument(html).children;
+    const all = (pred: (e: El) => boolean) => DomUtils.findAll(pred, nodes);
+    const text = (e: El | undefined) => (e ? DomUtils.textContent(e).replace(/\s+/g, " ").trim() : "");
+    return { all, text };
+  };
+  // Invented demo conditions, not the demo data's own texts (those are rewritten separately).
+  const CONDITIONS = "Ignition off, plug apart, across the two cavities of the part's side, meter on the 2 kΩ range";
+  const INSULATION: Omit<Spec, "between"> = {
+    name: "Winding to engine (insulation)", min: 1, max: null, unit: "MΩ", atC: 20, source: "Measured with a meter",
+    conditions: "Ignition off, plug apart, both cavities joined, to bare metal of the engine, meter on its top range", kind: "insulation", material: null,
+  };
+
+  it("a spec without conditions cannot be sent for review; with them it publishes and every view carries them", async () => {
+    // A demo card with a spec, other than the one the loop above edits.
+    const familyBody = json(await req(srv, "/api/v1/families/rx750-four")).family as { systems: { connectors: { slug: string }[] }[] };
+    let slug = "";
+    for (const c of familyBody.systems.flatMap((x) => x.connectors)) {
+      if (c.slug === CARD) continue;
+      if ((json(await req(srv, `/api/v1/connectors/${c.slug}`)).connector.specs as Spec[]).length) { slug = c.slug; break; }
+    }
+    expect(slug, "a demo card with a spec").not.toBe("");
+
+    const { s } = await start(sessions.contributor, { connector: slug, idempotencyKey: "spec-conditions-1" });
+    const content = structuredClone(s!.content) as unknown as { specs: Spec[] };
+    expect(content.specs.length).toBeGreaterThan(0);
+    const first = content.specs[0];
+    // Changed, but no conditions stated: a clear field error names it.
+    content.specs[0] = { ...first, min: first.min + 1, conditions: "" };
+    let r = await req(srv, `/api/v1/submissions/${s!.id}`, { method: "PATCH", json: { version: s!.version, content, sourceKind: "measured", sourceDetail: "", summary: "Measuring conditions", action: "submit" }, session: sessions.contributor });
+    expect(r.status, where(r)).toBe(400);
+    expect(json(r).error.field).toBe("specs.0.conditions");
+    expect(json(r).error.problems.map((p: { field: string }) => p.field)).toContain("specs.0.conditions");
+
+    content.specs[0] = { ...first, conditions: CONDITIONS, material: "copper" };
+    content.specs.push({ ...INSULATION, between: first.between });
+    const version = json(await req(srv, `/api/v1/submissions/${s!.id}`, { session: sessions.contributor })).submission.version;
+    r = await req(srv, `/api/v1/submissions/${s!.id}`, { method: "PATCH", json: { version, content, sourceKind: "measured", summary: "Measuring conditions", action: "submit" }, session: sessions.contributor });
+    expect(r.status, where(r)).toBe(200);
+    const sub = json(r).submission as { id: number; version: number; state: string; diff: { specs: { change: string; fields: string[] }[] } };
+    expect(sub.state).toBe("in_review");
+    expect(sub.diff.specs[0]).toMatchObject({ change: "changed" });
+    expect(sub.diff.specs[0].fields).toEqual(expect.arrayContaining(["conditions", "material"]));
+    expect(sub.diff.specs.at(-1)!.change).toBe("added");
+
+    // The moderator's review page shows the changed condition, what it was and the open maximum.
+    const review = dom((await req(srv, `/review/${sub.id}`, { session: sessions.moderator })).body);
+    const row = review.all((e) => e.name === "tr" && e.attribs["data-spec"] === first.name && e.attribs["data-change"] === "changed")[0];
+    const cond = DomUtils.findOne((e) => e.attribs["data-field"] === "conditions", [row])!;
+    expect(cond.attribs["data-changed"]).toBe("true");
+    expect(review.text(cond)).toContain(CONDITIONS);
+    const added = review.all((e) => e.name === "tr" && e.attribs["data-spec"] === INSULATION.name)[0];
+    expect(review.text(DomUtils.findOne((e) => e.attribs["data-field"] === "range", [added])!)).toBe("≥ 1 MΩ (open: no upper limit)");
+
+    r = await req(srv, `/api/v1/submissions/${sub.id}/review`, { json: { version: sub.version, decision: "approve" }, session: sessions.moderator });
+    expect(r.status, where(r)).toBe(200);
+
+    // JSON: the published specs carry conditions, kind, material and the null maximum.
+    const specs = json(await req(srv, `/api/v1/connectors/${slug}`)).connector.specs as Spec[];
+    expect(specs.find((x) => x.name === first.name)).toMatchObject({ conditions: CONDITIONS, material: "copper", min: first.min, max: first.max, kind: first.kind });
+    expect(specs.find((x) => x.name === INSULATION.name)).toMatchObject({ max: null, kind: "insulation", conditions: INSULATION.conditions, material: null });
+
+    // The card page: conditions beside the value, the kind where it is not a resistance, "≥ min" and open.
+    const card = dom((await req(srv, `/connectors/${slug}`)).body);
+    const specRow = (name: string) => card.all((e) => e.name === "tr" && e.attribs["data-spec"] === name)[0];
+    expect(card.text(DomUtils.findOne((e) => e.attribs["data-conditions"] !== undefined, [specRow(first.name)])!)).toBe(`measure: ${CONDITIONS}`);
+    const insul = specRow(INSULATION.name);
+    expect(card.text(DomUtils.findOne((e) => e.attribs["data-kind"] !== undefined, [insul])!)).toBe("(insulation (must read open))");
+    expect(card.text(DomUtils.findOne((e) => e.attribs["data-range"] !== undefined, [insul])!)).toBe("≥ 1 MΩ open (no upper limit)");
+
+    // The bench sheet started from the card: each row carries its material, conditions and open maximum.
+    const bench = dom((await req(srv, `/bench?connector=${slug}`)).body);
+    const benchRow = (i: number) => bench.all((e) => e.name === "tr" && e.attribs["data-row"] === String(i))[0];
+    const field = (i: number, name: string) => DomUtils.findOne((e) => e.attribs.name === name, [benchRow(i)])!;
+    const chosen = (sel: El) => DomUtils.findAll((o) => o.name === "option" && "selected" in o.attribs, [sel])[0]?.attribs.value ?? "";
+    const i0 = specs.findIndex((x) => x.name === first.name);
+    const i1 = specs.findIndex((x) => x.name === INSULATION.name);
+    expect(chosen(field(i0, `mt${i0}`))).toBe("copper");
+    expect(field(i0, `c${i0}`).attribs.value).toBe(CONDITIONS);
+    expect(bench.text(DomUtils.findOne((e) => e.attribs["data-conditions"] !== undefined, [benchRow(i0)])!)).toBe(`Measure: ${CONDITIONS}`);
+    expect(field(i1, `hi${i1}`).attribs.value).toBe("open");
+    expect(DomUtils.findOne((e) => e.attribs["data-kind"] === "insulation", [benchRow(i1)])).not.toBeNull();
+
+    // A meter's OL on that open-circuit row is a pass, kept in the address.
+    const q = new URLSearchParams({ n0: INSULATION.name, lo0: "1", hi0: "open", u0: "MΩ", m0: "OL", k0: "insulation", c0: INSULATION.conditions });
+    const checked = dom((await req(srv, `/bench?${q}`)).body);
+    expect(checked.all((e) => e.attribs["data-verdict"] === "in_range")).toHaveLength(1);
+
+    // The next edit starts from the published snapshot, conditions and all.
+    const next = (await start(sessions.contributor, { connector: slug, idempotencyKey: "spec-conditions-2" })).s!;
+    const nextSpecs = (next.content as unknown as { specs: Spec[] }).specs;
+    expect(nextSpecs.find((x) => x.name === INSULATION.name)).toMatchObject({ max: null, kind: "insulation", conditions: INSULATION.conditions });
+    expect(nextSpecs.find((x) => x.name === first.name)).toMatchObject({ conditions: CONDITIONS, material: "copper" });
+  }, 60_000);
+});

@@ -265,3 +265,68 @@ describe("mistake reports in the queue", () => {
     expect((await svc.reviewQueue({ family: "marquis-500" })).items.every((it) => (it.submission?.family?.slug ?? it.report?.family.slug) === "marquis-500")).toBe(true);
   });
 });
+
+describe("spec conditions, kind, material and an open maximum through publishing", () => {
+  // Invented demo texts; the demo data's own conditions are not relied on.
+  const CONDITIONS = "Ignition off, plug apart, meter on the 2 kΩ range";
+  // A card of the family with a spec value (whichever the demo data gives one).
+  const cardWithSpecs = async () => {
+    const family = await m.Family.findOne({ where: { slug: FAMILY } });
+    for (const c of await m.Connector.findAll({ where: { familyId: family!.id }, order: [["id", "ASC"]] })) {
+      if (await m.SpecValue.count({ where: { connectorId: c.id } })) return c.slug;
+    }
+    throw new Error("no demo card with a spec");
+  };
+  async function inReview(slug: string, change: (c: import("../../app/domain/submissions").CardProposal) => void) {
+    const { id } = await svc.startSubmission(contributor, { connector: slug });
+    const v = (await svc.viewSubmission(contributor, id))!;
+    const content = structuredClone(v.content);
+    change(content);
+    await svc.updateSubmission(contributor, id, { version: v.version, content, sourceKind: "measured", sourceDetail: "", summary: "Conditions.", action: "submit" });
+    const after = (await svc.viewSubmission(contributor, id))!;
+    expect(after.state).toBe("in_review");
+    return { id, version: after.version };
+  }
+
+  it("a changed spec without conditions is refused at submit, naming the field", async () => {
+    const { id } = await svc.startSubmission(contributor, { connector: await cardWithSpecs() });
+    const v = (await svc.viewSubmission(contributor, id))!;
+    expect(v.content.specs.length).toBeGreaterThan(0);
+    const content = structuredClone(v.content);
+    content.specs[0] = { ...content.specs[0], min: content.specs[0].min + 1, conditions: "" };
+    await expect(svc.updateSubmission(contributor, id, { version: v.version, content, sourceKind: "measured", action: "submit" }))
+      .rejects.toMatchObject({ status: 400, field: "specs.0.conditions" });
+  });
+
+  it("publishing writes them to the card's spec rows and its revision snapshot", async () => {
+    const slug = await cardWithSpecs();
+    const { id, version } = await inReview(slug, (c) => {
+      c.specs[0] = { ...c.specs[0], conditions: CONDITIONS, material: "copper" };
+      c.specs.push({ name: "Pickup insulation to earth", min: 1, max: null, unit: "MΩ", between: c.specs[0].between, atC: 20, source: "Measured",
+        conditions: "Ignition off, plug apart, both cavities to the engine", kind: "insulation", material: null });
+    });
+    const v = (await svc.viewSubmission(modA, id))!;
+    expect(v.diff.specs[0].fields).toEqual(["conditions", "material"]);
+    const out = await svc.decide(modA, id, { version, decision: "approve", message: "" });
+    const card = await m.Connector.findOne({ where: { slug } });
+    const rows = await m.SpecValue.findAll({ where: { connectorId: card!.id }, order: [["id", "ASC"]] });
+    const firstName = v.content.specs[0].name;
+    const pick = <T extends { name: string }>(list: T[]) => [list.find((r) => r.name === firstName)!, list.find((r) => r.name === "Pickup insulation to earth")!];
+    expect(rows).toHaveLength(v.content.specs.length);
+    expect(pick(rows).map((r) => [r.conditions, r.kind, r.material, r.max === null])).toEqual([
+      [CONDITIONS, "resistance", "copper", false],
+      ["Ignition off, plug apart, both cavities to the engine", "insulation", null, true],
+    ]);
+    // The other specs keep what they had.
+    for (const r of rows.slice(1, -1)) expect(r.conditions).toBe(v.before!.specs.find((b) => b.name === r.name)!.conditions);
+    const rev = await m.Revision.findOne({ where: { connectorId: card!.id, number: out.revision! } });
+    const snap = rev!.snapshot as { specs: { name: string; conditions: string; kind: string; material: string | null; max: number | null }[] };
+    expect(pick(snap.specs).map((s) => [s.conditions, s.kind, s.material, s.max])).toEqual([
+      [CONDITIONS, "resistance", "copper", pick(rows)[0].max],
+      ["Ignition off, plug apart, both cavities to the engine", "insulation", null, null],
+    ]);
+    expect(await checkLibrary()).toEqual([]);
+    // Unchanged specs need not restate anything: an edit that touches only a pin goes in for review.
+    await inReview(slug, (c) => { c.pins[0] = { ...c.pins[0], circuit: `${c.pins[0].circuit} (checked)` }; });
+  });
+});

@@ -4,6 +4,7 @@
  * and the diagnosis. Check values and their sources are in /work/shared/REFERENCE-FACTS.md §3–§4 ("RF" below).
  */
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { DomUtils, parseDocument } from "htmlparser2";
 import { z } from "zod";
 import { startServer, type TestServer } from "../support/server";
 import { errorBody, shape, stateDigest, client } from "./helpers";
@@ -27,7 +28,15 @@ const wireSizeBody = z.object({
 type WireSize = z.infer<typeof wireSizeBody>;
 
 const VERDICTS = ["in_range", "low", "high"] as const;
-const benchBody = z.object({ results: z.array(z.object({ name: text, measured: num, at20C: num, verdict: z.enum(VERDICTS) })) });
+const MATERIALS = ["copper", "carbon", "other"] as const;
+// measured and at20C are numbers, or "OL" for an open circuit (JSON has no Infinity); max null is "no upper limit".
+const reading = num.or(z.literal("OL"));
+const benchBody = z.object({
+  results: z.array(z.object({
+    name: text, measured: reading, at20C: reading, verdict: z.enum(VERDICTS), unit: text, max: num.nullable(), material: z.enum(MATERIALS), steps: z.array(text),
+  })),
+  cautions: z.array(z.object({ kind: text, title: text, text })).min(1),
+});
 
 const QUALITIES = ["exact", "tracer-missing", "faded", "none"] as const;
 const finderBody = z.object({
@@ -379,7 +388,7 @@ describe("POST /api/v1/bench", () => {
     expect(r.measured).toBe(500);
     expect(r.verdict).toBe("in_range");
     // Not IEC 60228's simplified α ≈ 0.004 (RF §3.2 Kt table: 0.806 at 80 °C → 403 Ω): the app uses IEC 60028's 0.00393.
-    expect(Math.abs(r.at20C - 500 * 0.806)).toBeGreaterThan(1);
+    expect(Math.abs(Number(r.at20C) - 500 * 0.806)).toBeGreaterThan(1);
     // copper defaults to true for a resistance in ohms (API.md).
     const byDefault = await one({ name: "coil secondary", min: 380, max: 420, unit: "Ω", measured: 500, tempC: 80 });
     expect(byDefault.at20C).toBeCloseTo(500 / 1.2358, 6);
@@ -439,6 +448,61 @@ describe("POST /api/v1/bench", () => {
     expect(asCopper.at20C).toBeCloseTo(5.5 / 1.2358, 9);
   });
 
+  it("a 6.3 kΩ resistor cap at 40 °C against 4–6 kΩ is high: carbon, not corrected (the default for a cap)", async () => {
+    // RF §4: resistor caps ≈ 5 kΩ (from memory / common practice); RF 5.1: copper's correction applies to copper windings
+    // only, carbon caps and suppressors are not corrected (common practice). IEC 60028 α = 0.00393 (RF §3.3) would have
+    // brought it to 6.3 / 1.0786 = 5.84 kΩ and called it in range.
+    const r = await one({ name: "Resistor plug cap", min: 4, max: 6, unit: "kΩ", measured: 6.3, tempC: 40 });
+    expect(r).toMatchObject({ at20C: 6.3, verdict: "high", material: "carbon", unit: "kΩ" });
+    expect(r.steps.join(" ")).toMatch(/Material not given: carbon, from the name/);
+    const forced = await one({ name: "Resistor plug cap", min: 4, max: 6, unit: "kΩ", measured: 6.3, tempC: 40, material: "copper" });
+    expect(Number(forced.at20C)).toBeCloseTo(6.3 / (1 + 0.00393 * 20), 9);
+    expect(Number(forced.at20C)).toBeCloseTo(5.84, 2);
+    expect(forced.verdict).toBe("in_range");
+  });
+
+  it("material: copper corrects, carbon and other do not; the name decides when none is given, and the steps say so", async () => {
+    // RF §3.3: at 80 °C R80/R20 = 1.2358 (IEC 60028 α = 0.00393).
+    const spec = { min: 400, max: 600, unit: "ohm", measured: 600, tempC: 80 };
+    const r = await bench([
+      { name: "Pickup coil", ...spec },
+      { name: "Pickup coil", ...spec, material: "carbon" },
+      { name: "Pickup coil", ...spec, material: "other" },
+      { name: "Pickup coil", ...spec, material: "copper" },
+      { name: "Tail lamp filament", ...spec }, // tungsten: never copper's α (RF 5.1, common practice)
+      { name: "Suppressor", ...spec },
+      { name: "Unlabelled reading", ...spec }, // unrecognised in ohms → copper, said so
+    ]);
+    expect(r.results.map((x) => x.material)).toEqual(["copper", "carbon", "other", "copper", "other", "carbon", "copper"]);
+    expect(r.results.map((x) => x.unit)).toEqual(Array(7).fill("Ω")); // "ohm" is answered as Ω
+    for (const i of [0, 3, 6]) expect(Number(r.results[i].at20C)).toBeCloseTo(600 / 1.2358, 9);
+    for (const i of [1, 2, 4, 5]) expect(r.results[i].at20C).toBe(600);
+    expect(r.results[6].steps.join(" ")).toMatch(/not recognised from the name: taken as copper/);
+    expect(r.results[4].steps.join(" ")).toMatch(/tungsten/);
+  });
+
+  it("a spec with no upper limit (max null): in range at or above min, OL counts as open; OL against a bounded spec is high", async () => {
+    // Insulation of a stator phase to earth must read open, e.g. at least 1 MΩ (common practice).
+    const r = await bench([
+      { name: "Stator phase to earth", min: 1, max: null, unit: "MΩ", measured: "OL" },
+      { name: "Stator phase to earth", min: 1, max: null, unit: "MΩ", measured: 5 },
+      { name: "Stator phase to earth", min: 1, max: null, unit: "MΩ", measured: 0.05 },
+      { name: "Pickup coil", min: 400, max: 600, unit: "Ω", measured: "OL", tempC: 30 },
+      { name: "Pickup coil", min: 400, max: 600, unit: "Ω", measured: "ol" },
+    ]);
+    expect(r.results.map((x) => x.verdict)).toEqual(["in_range", "in_range", "low", "high", "high"]);
+    expect(r.results[0]).toMatchObject({ measured: "OL", at20C: "OL", max: null });
+    expect(r.results[3]).toMatchObject({ measured: "OL", at20C: "OL", max: 600 });
+  });
+
+  it("the answer carries the bench's cautions, the meter one first", async () => {
+    const r = await one({ name: "Pickup coil", min: 400, max: 600, unit: "Ω", measured: 500 });
+    expect(r.verdict).toBe("in_range");
+    const { cautions } = await bench([{ name: "Pickup coil", min: 400, max: 600, unit: "Ω", measured: 500 }]);
+    expect(cautions.map((c) => c.kind)).toEqual(["meter", "battery", "ignition"]);
+    expect(cautions[0].text).toMatch(/ignition off, then switch on/);
+  });
+
   it("a reading that is not a resistance is not corrected (copper defaults to false outside ohms)", async () => {
     const r = await one({ name: "pickup peak", min: 0.2, max: 2, unit: "V", measured: 1.5, tempC: 80 });
     expect(r.at20C).toBe(1.5);
@@ -471,6 +535,9 @@ describe("POST /api/v1/bench", () => {
     ["measured as a string", { readings: [{ name: "a", min: 1, max: 2, unit: "Ω", measured: "1.5" }] }, "readings.0.measured"],
     ["empty name", { readings: [{ name: " ", min: 1, max: 2, unit: "Ω", measured: 1.5 }] }, "readings.0.name"],
     ["copper as a string", { readings: [{ name: "a", min: 1, max: 2, unit: "Ω", measured: 1.5, copper: "yes" }] }, "readings.0.copper"],
+    ["max omitted (null is the way to say no upper limit)", { readings: [{ name: "a", min: 1, unit: "MΩ", measured: 5 }] }, "readings.0.max"],
+    ["measured as a word other than OL", { readings: [{ name: "a", min: 1, max: 2, unit: "Ω", measured: "open" }] }, "readings.0.measured"],
+    ["an unknown material", { readings: [{ name: "a", min: 1, max: 2, unit: "Ω", measured: 1.5, material: "brass" }] }, "readings.0.material"],
   ])("%s → 400 naming the field", async (_, body, field) => {
     const err = await expectError("/api/v1/bench", 400, jsonInit(body));
     expect(err.code).toBe("bad_request");
@@ -482,10 +549,108 @@ describe("POST /api/v1/bench", () => {
     ["negative resistance", { name: "a", min: 1, max: 2, unit: "Ω", measured: -1 }],
     ["tempC out of range", { name: "a", min: 1, max: 2, unit: "Ω", measured: 1.5, tempC: 900 }],
     ["copper correction on volts", { name: "a", min: 1, max: 2, unit: "V", measured: 1.5, copper: true }],
+    ["material copper on volts", { name: "a", min: 1, max: 2, unit: "V", measured: 1.5, material: "copper" }],
+    ["material and copper disagree", { name: "a", min: 1, max: 2, unit: "Ω", measured: 1.5, material: "carbon", copper: true }],
   ])("%s → 400 naming the reading (domain check, not 500)", async (_, reading) => {
     const err = await expectError("/api/v1/bench", 400, jsonInit({ readings: [{ name: "fine", min: 1, max: 2, unit: "Ω", measured: 1.5 }, reading] }));
     expect(err.code).toBe("bad_request");
     expect(err.field ?? "", "the second reading is named").toMatch(/^readings[.[]1\]?\./);
+  });
+});
+
+describe("GET /bench (the page, without JavaScript: the sheet lives in its address)", () => {
+  type El = ReturnType<typeof DomUtils.findAll>[number];
+  async function page(query: string) {
+    const r = await call(`/bench?${query}`);
+    expect(r.status, r.body.slice(0, 300)).toBe(200);
+    const nodes = parseDocument(r.body).children;
+    const all = (pred: (e: El) => boolean) => DomUtils.findAll(pred, nodes);
+    const text = (e: El) => DomUtils.textContent(e).replace(/\s+/g, " ").trim();
+    const row = (i: number) => all((e) => e.name === "tr" && e.attribs["data-row"] === String(i))[0];
+    const inRow = (i: number, pred: (e: El) => boolean) => DomUtils.findAll(pred, [row(i)]);
+    const named = (i: number, name: string) => inRow(i, (e) => e.attribs.name === name)[0];
+    // The option a browser submits: the one marked selected, else the first; its value, else its text.
+    const selected = (sel: El) => {
+      const options = DomUtils.findAll((o) => o.name === "option", [sel]);
+      const o = options.find((x) => "selected" in x.attribs) ?? options[0];
+      return o ? o.attribs.value ?? text(o) : "";
+    };
+    return { all, text, row, inRow, named, selected };
+  }
+
+  it("a resistor cap at 40 °C on auto is high, a pickup on auto is corrected, and each row has a material select", async () => {
+    // RF §4 resistor caps ≈ 5 kΩ; RF 5.1 carbon is not corrected; RF §3.3 α = 0.00393: 560 / 1.0786 = 519.2 Ω.
+    const q = new URLSearchParams({ n0: "Resistor plug cap", lo0: "4", hi0: "6", u0: "kohm", m0: "6.3", t0: "40", n1: "Pickup coil", lo1: "420", hi1: "580", u1: "Ω", m1: "560", t1: "40" });
+    const p = await page(q.toString());
+    const verdict = (i: number) => p.inRow(i, (e) => e.attribs["data-verdict"] !== undefined)[0]?.attribs["data-verdict"];
+    expect(verdict(0)).toBe("high");
+    expect(p.inRow(0, (e) => e.attribs["data-material"] !== undefined)[0]?.attribs["data-material"]).toBe("carbon");
+    expect(verdict(1)).toBe("in_range");
+    expect(p.text(p.row(1))).toContain("519.2 Ω");
+    for (const i of [0, 1, 2]) {
+      const sel = p.named(i, `mt${i}`);
+      expect(sel?.name, `row ${i + 1} has a material select`).toBe("select");
+      expect(DomUtils.findAll((o) => o.name === "option", [sel]).map((o) => o.attribs.value)).toEqual(["", "copper", "carbon", "other"]);
+    }
+    // "kohm" is shown as kΩ in the unit select.
+    expect(p.selected(p.named(0, "u0"))).toBe("kΩ");
+  });
+
+  it("a chosen material, an open maximum and OL are kept in the address and judged", async () => {
+    const q = new URLSearchParams({ n0: "Pickup coil", lo0: "420", hi0: "580", u0: "Ω", m0: "600", t0: "60", mt0: "carbon", n1: "Stator phase to earth", lo1: "1", hi1: "open", u1: "MΩ", m1: "OL" });
+    const p = await page(q.toString());
+    expect(p.selected(p.named(0, "mt0"))).toBe("carbon");
+    expect(p.inRow(0, (e) => e.attribs["data-verdict"] !== undefined)[0].attribs["data-verdict"]).toBe("high"); // 600 not corrected
+    expect(p.inRow(1, (e) => e.attribs["data-verdict"] !== undefined)[0].attribs["data-verdict"]).toBe("in_range");
+    expect(p.text(p.row(1))).toContain("OL");
+    // A sheet bookmarked with the older copper select (cu=no) still reads as not copper.
+    const old = await page(new URLSearchParams({ n0: "Pickup coil", lo0: "420", hi0: "580", u0: "Ω", m0: "600", t0: "60", cu0: "no" }).toString());
+    expect(old.selected(old.named(0, "mt0"))).toBe("other");
+  });
+
+  it("a blank maximum asks for a number or “open” instead of judging", async () => {
+    const p = await page(new URLSearchParams({ n0: "Stator phase to earth", lo0: "1", hi0: "", u0: "MΩ", m0: "3" }).toString());
+    expect(p.text(p.inRow(0, (e) => e.attribs.role === "alert")[0])).toMatch(/write “open”/);
+  });
+
+  it("shows the bench cautions with the meter first and the deferral to the manual", async () => {
+    const p = await page("");
+    const kinds = p.all((e) => e.attribs["data-caution"] !== undefined).map((e) => e.attribs["data-caution"]);
+    expect(kinds).toEqual(["meter", "battery", "ignition"]);
+    const aside = p.all((e) => e.name === "aside" && e.attribs["aria-label"] === "Safety cautions")[0];
+    expect(p.text(aside)).toMatch(/factory service manual/);
+  });
+
+  it("a sheet from a card carries each spec's material, kind, conditions and open maximum into its row", async () => {
+    const specBody = z.object({ connector: z.object({ specs: z.array(z.object({
+      name: text, min: num, max: num.nullable(), unit: text, conditions: z.string(), kind: text, material: z.enum(MATERIALS).nullable(),
+    })) }) });
+    const withSpecs: { slug: string; specs: z.infer<typeof specBody>["connector"]["specs"] }[] = [];
+    const detail = z.object({ family: z.object({ systems: z.array(z.object({ connectors: z.array(z.object({ slug })) })) }) });
+    for (const f of familySlugs.slice(0, 3)) {
+      const { family } = await getJson(`/api/v1/families/${f}`, detail);
+      for (const c of family.systems.flatMap((x) => x.connectors)) {
+        const { connector } = await getJson(`/api/v1/connectors/${c.slug}`, specBody);
+        if (connector.specs.length) withSpecs.push({ slug: c.slug, specs: connector.specs });
+      }
+    }
+    expect(withSpecs.length, "demo cards with specs").toBeGreaterThan(0);
+    for (const { slug: s, specs } of withSpecs.slice(0, 6)) {
+      const p = await page(`connector=${s}`);
+      specs.forEach((spec, i) => {
+        expect(p.named(i, `n${i}`).attribs.value, `${s} row ${i + 1}`).toMatch(new RegExp(`^${spec.name.replace(/[.*+?^${}()|[\]\\]/g, "\\$&")}, between cavities`));
+        expect(p.named(i, `hi${i}`).attribs.value).toBe(spec.max === null ? "open" : String(spec.max));
+        expect(p.selected(p.named(i, `mt${i}`))).toBe(spec.material ?? "");
+        const shown = p.inRow(i, (e) => e.attribs["data-conditions"] !== undefined)[0];
+        if (spec.conditions.trim()) {
+          expect(p.text(shown)).toBe(`Measure: ${spec.conditions.replace(/\s+/g, " ").trim()}`);
+          expect(p.named(i, `c${i}`).attribs.value).toBe(spec.conditions);
+        } else {
+          expect(shown, "no empty conditions line").toBeUndefined();
+        }
+        if (spec.kind !== "resistance") expect(p.inRow(i, (e) => e.attribs["data-kind"] === spec.kind)).toHaveLength(1);
+      });
+    }
   });
 });
 

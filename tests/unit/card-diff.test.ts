@@ -4,7 +4,7 @@ import { DomUtils, parseDocument } from "htmlparser2";
 import { describe, expect, it } from "vitest";
 import { CardDiffView } from "~/components/card-diff";
 import { gridLayout } from "~/domain/connector-face";
-import { diffCards, type CardProposal, type ProposedPin } from "~/domain/submissions";
+import { diffCards, proposalProblems, type CardProposal, type ProposedPin } from "~/domain/submissions";
 
 // Invented demo cards in the Japanese-style letter notation ("jis"); no real bike's diagram.
 // HTML is parsed with htmlparser2 (jsdom does not load on this machine's Node).
@@ -29,8 +29,8 @@ const published: CardProposal = {
     pin("4", "Y/G", "Spare", null, null),
   ],
   specs: [
-    { name: "Trigger winding", min: 400, max: 600, unit: "Ω", between: ["1", "2"], atC: 20, source: "demo data" },
-    { name: "Insulation to earth", min: 1, max: 1000, unit: "MΩ", between: ["1", "3"], atC: 20, source: "demo data" },
+    { name: "Trigger winding", min: 400, max: 600, unit: "Ω", between: ["1", "2"], atC: 20, source: "demo data", conditions: "Ignition off, plug apart, meter on the 2 kΩ range", kind: "resistance", material: "copper" },
+    { name: "Insulation to earth", min: 1, max: null, unit: "MΩ", between: ["1", "3"], atC: 20, source: "demo data", conditions: "Ignition off, plug apart, cavity 1 to the engine", kind: "insulation", material: null },
   ],
   notes: "Old notes.",
   photos: [
@@ -207,7 +207,7 @@ describe("CardDiffView", () => {
     const after = clone(published);
     after.specs = [
       { ...published.specs[0], max: 650 },
-      { name: "Pickup air gap check", min: 0.3, max: 0.5, unit: "mm", between: ["1", "2"], atC: 20, source: "demo data" },
+      { name: "Pickup air gap check", min: 0.3, max: 0.5, unit: "mm", between: ["1", "2"], atC: 20, source: "demo data", conditions: "Engine stopped, feeler gauge at the rotor tip", kind: "gap", material: null },
     ];
     const v = render(published, after);
     const spec = (name: string) => v.all((e) => e.name === "tr" && e.attribs["data-spec"] === name)[0];
@@ -289,5 +289,110 @@ describe("CardDiffView", () => {
     expect(v.text(v.cell(v.row("3"), "colour"))).toContain("not understood in this notation");
     expect(v.text(v.cell(v.row("4"), "colour"))).toContain("empty cavity");
     expect(v.text(v.cell(v.row("4"), "code"))).toBe("— was Y/G");
+  });
+});
+
+describe("spec conditions, kinds and open maximums", () => {
+  it("a changed condition alone makes the spec row changed, and the view shows what it was", () => {
+    const after = clone(published);
+    after.specs[0] = { ...after.specs[0], conditions: "Ignition off, plug apart, across cavities 1 and 2 of the coil side" };
+    const diff = diffCards(published, after);
+    expect(diff.any).toBe(true);
+    expect(diff.specs[0]).toMatchObject({ change: "changed", fields: ["conditions"] });
+    expect(diff.specs[1]).toMatchObject({ change: "same", fields: [] });
+    const v = render(published, after);
+    const row = v.all((e) => e.name === "tr" && e.attribs["data-spec"] === "Trigger winding")[0];
+    expect(row.attribs["data-change"]).toBe("changed");
+    const cell = v.cell(row, "conditions");
+    expect(cell.attribs["data-changed"]).toBe("true");
+    expect(v.text(cell)).toBe("Ignition off, plug apart, across cavities 1 and 2 of the coil side was Ignition off, plug apart, meter on the 2 kΩ range");
+    expect(v.cell(row, "range").attribs["data-changed"]).toBeUndefined();
+  });
+
+  it("a changed kind, material or open maximum is a change too", () => {
+    const after = clone(published);
+    after.specs[0] = { ...after.specs[0], material: "carbon" };
+    after.specs[1] = { ...after.specs[1], max: 1000, kind: "resistance" };
+    const diff = diffCards(published, after);
+    expect(diff.specs[0].fields).toEqual(["material"]);
+    expect(diff.specs[1].fields).toEqual(["max", "kind"]);
+    const v = render(published, after);
+    const insul = v.all((e) => e.name === "tr" && e.attribs["data-spec"] === "Insulation to earth")[0];
+    expect(v.text(v.cell(insul, "range"))).toBe("1–1000 MΩ was ≥ 1 MΩ (open: no upper limit)");
+    expect(v.text(v.cell(insul, "what"))).toBe("resistance was insulation (must read open)");
+  });
+
+  it("shows an open maximum as no upper limit and an unstated condition as such", () => {
+    const after = clone(published);
+    after.specs.push({ name: "Coil primary", min: 2.5, max: 3.5, unit: "Ω", between: ["3", "4"], atC: 20, source: "demo data", conditions: "", kind: "resistance", material: null });
+    const v = render(published, after);
+    const insul = v.all((e) => e.name === "tr" && e.attribs["data-spec"] === "Insulation to earth")[0];
+    expect(v.text(v.cell(insul, "range"))).toBe("≥ 1 MΩ (open: no upper limit)");
+    const added = v.all((e) => e.name === "tr" && e.attribs["data-spec"] === "Coil primary")[0];
+    expect(v.text(v.cell(added, "conditions"))).toBe("— (not stated)");
+  });
+
+  it("reads a revision written before conditions existed as empty conditions, resistance, no material", () => {
+    const old = clone(published);
+    old.specs = old.specs.map(({ conditions: _c, kind: _k, material: _m, ...rest }) => rest as CardProposal["specs"][number]);
+    const now = clone(old);
+    now.specs = now.specs.map((x) => ({ ...x, conditions: "", kind: "resistance", material: null }));
+    expect(diffCards(old, now).specs.map((x) => x.change)).toEqual(["same", "same"]);
+  });
+});
+
+describe("proposalProblems: a spec must state its conditions before review", () => {
+  const clean = (p: CardProposal) => proposalProblems(p, "jis", new Map([["demo-igniter", ["3", "4"]], ["demo-earth-block", ["1"]]]), { specsBefore: published.specs });
+  const conditionProblems = (p: CardProposal, before = published.specs) =>
+    proposalProblems(p, "jis", new Map([["demo-igniter", ["3", "4"]], ["demo-earth-block", ["1"]]]), { specsBefore: before }).filter((x) => /^specs\./.test(x.field));
+
+  it("accepts the published card as it is (an open maximum is not “least above greatest”)", () => {
+    expect(clean(clone(published))).toEqual([]);
+  });
+
+  it("a new spec without conditions gets a field error naming it", () => {
+    const p = clone(published);
+    p.specs.push({ name: "Coil primary", min: 2.5, max: 3.5, unit: "Ω", between: ["3", "4"], atC: 20, source: "demo data", conditions: "  ", kind: "resistance", material: null });
+    const problems = conditionProblems(p);
+    expect(problems).toHaveLength(1);
+    expect(problems[0].field).toBe("specs.2.conditions");
+    expect(problems[0].message).toMatch(/^Spec 3: say when and how it can be measured/);
+  });
+
+  it("a changed spec must state its conditions too; an unchanged one from the published card need not", () => {
+    const before = published.specs.map((x) => ({ ...x, conditions: "" }));
+    const p = clone(published);
+    p.specs = before.map((x) => ({ ...x }));
+    expect(conditionProblems(p, before), "unchanged from the published card").toEqual([]);
+    p.specs[0] = { ...p.specs[0], max: 650 };
+    expect(conditionProblems(p, before).map((x) => x.field)).toEqual(["specs.0.conditions"]);
+    // A new card: every spec is new.
+    expect(conditionProblems(p, []).map((x) => x.field)).toEqual(["specs.0.conditions", "specs.1.conditions"]);
+  });
+
+  it("is not checked when the proposal is not about to go in for review", () => {
+    const p = clone(published);
+    p.specs[0] = { ...p.specs[0], conditions: "" };
+    expect(proposalProblems(p, "jis", new Map([["demo-igniter", ["3", "4"]], ["demo-earth-block", ["1"]]])).filter((x) => x.field.startsWith("specs."))).toEqual([]);
+  });
+
+  it("a spec may be measured to earth, an HT tower or a plug cap; any other name must be a cavity of the layout", () => {
+    // The trade measures an insulation test to the bare crankcase and a coil's secondary between its HT towers
+    // (common practice), points that are not cavities of the card's housing.
+    const p = clone(published);
+    p.specs[1] = { ...p.specs[1], between: ["1", "earth"] };
+    p.specs.push({ name: "Secondary winding", min: 10, max: 16, unit: "kΩ", between: ["HT A", "HT B"], atC: 20, source: "demo data", conditions: "Ignition off, leads out", kind: "resistance", material: "copper" });
+    p.specs.push({ name: "Plug cap", min: 4, max: 6, unit: "kΩ", between: ["cap", "HT"], atC: 20, source: "demo data", conditions: "Cap off the plug", kind: "resistance", material: "carbon" });
+    expect(conditionProblems(p)).toEqual([]);
+    p.specs[0] = { ...p.specs[0], between: ["1", "frame"] };
+    const problems = conditionProblems(p);
+    expect(problems.map((x) => x.field)).toEqual(["specs.0.between"]);
+    expect(problems[0].message).toMatch(/“frame” is neither a cavity of the layout nor “earth”/);
+  });
+
+  it("an insulation test with an upper limit is refused, since it must read open", () => {
+    const p = clone(published);
+    p.specs[1] = { ...p.specs[1], max: 1000 };
+    expect(conditionProblems(p).map((x) => x.field)).toEqual(["specs.1.max"]);
   });
 });

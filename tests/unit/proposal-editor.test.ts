@@ -32,8 +32,8 @@ function demo(): CardProposal {
       { cavity: "5", code: null, circuit: "", terminal: null, goesTo: null },
     ],
     specs: [
-      { name: "Pickup coil resistance", min: 400, max: 500, unit: "Ω", between: ["1", "4"], atC: 20, source: "Demo manual p. 7" },
-      { name: "Supply voltage", min: 12.2, max: 12.8, unit: "V", between: ["2", "4"], atC: 25, source: "" },
+      { name: "Pickup coil resistance", min: 400, max: 500, unit: "Ω", between: ["1", "4"], atC: 20, source: "Demo manual p. 7", conditions: "Ignition off, plug apart, meter on the 2 kΩ range", kind: "resistance", material: "copper" },
+      { name: "Supply voltage", min: 12.2, max: 12.8, unit: "V", between: ["2", "4"], atC: 25, source: "", conditions: "", kind: "regulated-voltage", material: null },
     ],
     notes: "Check the **pin 1** mark.\n\n- first\n- second",
     photos: [],
@@ -93,7 +93,9 @@ describe("ProposalEditor: field names", () => {
     const expected = ["name", "location", "housing", "system", "matesWith", "layout.rows", "layout.cols", "layout.pin1", "layout.latch", "notes"];
     for (let r = 1; r <= 2; r++) for (let c = 1; c <= 3; c++) expected.push(`layout.cell.${r}.${c}`);
     for (let i = 0; i < 5; i++) for (const f of ["cavity", "code", "circuit", "terminal", "goesToConnector", "goesToCavity"]) expected.push(`pins.${i}.${f}`);
-    for (let i = 0; i < 2; i++) for (const f of ["name", "min", "max", "unit", "betweenA", "betweenB", "atC", "source"]) expected.push(`specs.${i}.${f}`);
+    for (let i = 0; i < 2; i++) {
+      for (const f of ["name", "min", "max", "open", "unit", "betweenA", "betweenB", "atC", "source", "conditions", "kind", "material"]) expected.push(`specs.${i}.${f}`);
+    }
     for (const n of expected) expect(names.filter((x) => x === n), n).toHaveLength(1);
     // Two radios for gender; the paste box's own fields; nothing else.
     expect(names.filter((x) => x === "gender")).toHaveLength(2);
@@ -157,6 +159,67 @@ describe("ProposalEditor: round trip through the form", () => {
     expect(byId(html, "ed-pins-5-cavity")?.attribs.value).toBe("");
     expect(all(html, (e) => e.name === "input" && /^layout\.cell\.3\./.test(e.attribs.name ?? ""))).toHaveLength(3);
     expect(roundTrip(html)).toEqual(r!.proposal);
+  });
+});
+
+describe("ProposalEditor: spec conditions, kind, material and an open maximum", () => {
+  // Invented demo spec: an insulation test of a pickup winding to the engine, which must read open.
+  const withInsulation = (): CardProposal => {
+    const p = demo();
+    p.specs.push({ name: "Pickup to earth", min: 1, max: null, unit: "MΩ", between: ["1", "4"], atC: 20, source: "", conditions: "Ignition off, plug apart, cavity 1 to the engine", kind: "insulation", material: null });
+    return p;
+  };
+
+  it("renders the conditions, the kind and material selects and the no-upper-limit box with the spec's values", () => {
+    const html = render({ proposal: withInsulation() });
+    expect(byId(html, "ed-specs-0-conditions")?.attribs.value).toBe("Ignition off, plug apart, meter on the 2 kΩ range");
+    expect(byId(html, "ed-specs-0-conditions")?.attribs["aria-describedby"]).toContain("ed-specs-0-conditions-hint");
+    const selected = (id: string) => DomUtils.findAll((o) => o.name === "option" && "selected" in o.attribs, byId(html, id)!.children)[0]?.attribs.value;
+    expect(selected("ed-specs-0-kind")).toBe("resistance");
+    expect(selected("ed-specs-0-material")).toBe("copper");
+    expect(selected("ed-specs-1-kind")).toBe("regulated-voltage");
+    expect(selected("ed-specs-1-material")).toBe("");
+    expect(selected("ed-specs-2-kind")).toBe("insulation");
+    expect("checked" in byId(html, "ed-specs-2-open")!.attribs).toBe(true);
+    expect("checked" in byId(html, "ed-specs-0-open")!.attribs).toBe(false);
+    // Before hydration the greatest-value box stays usable: the server cannot switch it back on without JavaScript.
+    expect("disabled" in byId(html, "ed-specs-2-max")!.attribs).toBe(false);
+    expect(byId(html, "ed-specs-2-max")?.attribs.value).toBe("");
+  });
+
+  it("round-trips conditions, kind, material and a null maximum through the form", () => {
+    expect(roundTrip(render({ proposal: withInsulation() }))).toEqual(withInsulation());
+  });
+
+  it("without JavaScript a ticked no-upper-limit box wins over a number left in the greatest box", () => {
+    const form = formDataOf(render());
+    form.set("specs.0.open", "1");
+    expect(proposalSchema.parse(proposalFromForm(form)).specs[0].max).toBeNull();
+  });
+
+  it("shows a server problem about a spec's conditions beside its conditions box", () => {
+    const message = "Spec 1: say when and how it can be measured (ignition off or on, engine stopped or at what rpm, what is unplugged), so a rider can repeat it.";
+    const p = demo();
+    p.specs[0] = { ...p.specs[0], conditions: "" };
+    const html = render({ proposal: p, problems: [{ field: "specs.0.conditions", message }] });
+    expect(text(byId(html, "ed-specs-0-conditions-problem"))).toBe(message);
+    expect(byId(html, "ed-specs-0-conditions")!.attribs["aria-invalid"]).toBe("true");
+    expect(editorFieldId("specs.0.conditions")).toBe("ed-specs-0-conditions");
+  });
+
+  it("the JSON schema: max null is no upper limit, an omitted max is an error, empty kind and material take their defaults", () => {
+    const base = { ...demo().specs[0] } as Record<string, unknown>;
+    const parse = (spec: Record<string, unknown>) => proposalSchema.safeParse({ ...demo(), specs: [spec] });
+    const open = parse({ ...base, max: null });
+    expect(open.success && open.data.specs[0].max).toBeNull();
+    const { max: _max, ...noMax } = base;
+    const missing = parse(noMax);
+    expect(missing.success).toBe(false);
+    expect(!missing.success && missing.error.issues[0].path.join(".")).toBe("specs.0.max");
+    const defaults = parse({ ...base, kind: "", material: "", conditions: undefined });
+    expect(defaults.success && defaults.data.specs[0]).toMatchObject({ kind: "resistance", material: null, conditions: "" });
+    expect(parse({ ...base, kind: "voltage" }).success).toBe(false);
+    expect(parse({ ...base, material: "brass" }).success).toBe(false);
   });
 });
 

@@ -23,7 +23,7 @@ function demo(): CardProposal {
       { cavity: "2", code: "R/Y", circuit: "Switched supply", terminal: "15", goesTo: { connector: "demo-loom-socket", cavity: "2" } },
       { cavity: "3", code: "G/R", circuit: "Earth", terminal: "31", goesTo: null },
     ],
-    specs: [{ name: "Pickup coil resistance", min: 400, max: 500, unit: "Ω", between: ["1", "3"], atC: 20, source: "demo" }],
+    specs: [{ name: "Pickup coil resistance", min: 400, max: 500, unit: "Ω", between: ["1", "3"], atC: 20, source: "demo", conditions: "Ignition off, plug apart", kind: "resistance", material: "copper" }],
   };
 }
 
@@ -75,11 +75,20 @@ describe("spec rows", () => {
     const next = addSpecRow(p);
     expect(next.specs).toHaveLength(2);
     expect(next.specs[1].name).toBe("");
-    expect(Number.isNaN(next.specs[1].min) && Number.isNaN(next.specs[1].max)).toBe(true);
+    expect(Number.isNaN(next.specs[1].min) && Number.isNaN(next.specs[1].max as number)).toBe(true);
     expect(next.specs[1].atC).toBe(20);
+    // A new spec states no conditions yet (the contributor must, before review), measures a resistance, no material.
+    expect(next.specs[1]).toMatchObject({ conditions: "", kind: "resistance", material: null });
     expect(removeSpecRow(next, 0).specs).toEqual([next.specs[1]]);
     expect(removeSpecRow(next, 2)).toBe(next);
     expect(removeSpecRow(next, -1)).toBe(next);
+  });
+
+  it("keeps the conditions, kind, material and an open maximum of the other rows when one is removed", () => {
+    const p = demo();
+    p.specs.push({ name: "Pickup to earth", min: 1, max: null, unit: "MΩ", between: ["1", "3"], atC: 20, source: "demo", conditions: "Plug apart, cavity 1 to the engine", kind: "insulation", material: null });
+    expect(removeSpecRow(p, 0).specs).toEqual([p.specs[1]]);
+    expect(applyEditorIntent(p, "remove-spec:0", {})!.proposal.specs[0]).toMatchObject({ max: null, kind: "insulation", conditions: "Plug apart, cavity 1 to the engine" });
   });
 
   it("stops at the spec limit", () => {
