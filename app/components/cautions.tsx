@@ -7,7 +7,7 @@ export function Cautions({ kinds, className = "" }: { kinds: readonly CautionKin
   return (
     <aside aria-label="Safety cautions" className={`print-avoid-break rounded-md border-l-4 border-caution-edge bg-caution px-4 py-3 text-[0.95rem] ${className}`}>
       <p className="font-bold">⚠ Before you start</p>
-      <ul className="mt-1 space-y-1">
+      <ul className="mt-1 space-y-1 print:grid print:grid-cols-2 print:gap-x-4 print:space-y-0">
         {cautionTexts(kinds).map((c) => (
           <li key={c.kind} data-caution={c.kind}><span className="font-semibold">{c.title}:</span> {c.text}</li>
         ))}

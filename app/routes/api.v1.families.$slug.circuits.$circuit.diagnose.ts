@@ -1,4 +1,5 @@
 import type { Route } from "./+types/api.v1.families.$slug.circuits.$circuit.diagnose";
+import { cautionTexts, cautionsFor } from "~/domain/cautions";
 import { assertSameOrigin } from "~/services/guards.server";
 import { diagnoseFor } from "~/services/circuits.server";
 import { apiError, methodNotAllowed, readJson } from "~/services/http.server";
@@ -20,6 +21,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     state: d.state,
     battery: d.diagnosis.battery,
     notes: [...d.walk.notes, ...d.diagnosis.notes],
+    cautions: cautionTexts(cautionsFor("walk", d.state.engine)),
     checked: d.diagnosis.checked.map((c) => ({ ...c, value: Number.isFinite(c.value) ? c.value : "OL" })),
   });
 }

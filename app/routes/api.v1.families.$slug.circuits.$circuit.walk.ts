@@ -1,4 +1,5 @@
 import type { Route } from "./+types/api.v1.families.$slug.circuits.$circuit.walk";
+import { cautionTexts, cautionsFor } from "~/domain/cautions";
 import { parseSwitches, walkFor } from "~/services/circuits.server";
 import { apiError, cachedJson, methodNotAllowed } from "~/services/http.server";
 
@@ -17,6 +18,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     battery: w.walk.battery,
     loaded: w.walk.loaded,
     notes: w.walk.notes,
+    cautions: cautionTexts(cautionsFor("walk", w.state.engine)),
     probePoints: w.walk.probePoints.map((p) => ({
       step: p.step, connector: p.connector, cavity: p.cavity, colour: p.colour, expect: p.expect, how: p.how,
       label: p.label, side: p.side, after: p.after, elementsBefore: p.elementsBefore,

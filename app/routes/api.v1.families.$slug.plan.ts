@@ -1,4 +1,5 @@
 import type { Route } from "./+types/api.v1.families.$slug.plan";
+import { cautionTexts, cautionsFor } from "~/domain/cautions";
 import { apiError, cachedJson, methodNotAllowed } from "~/services/http.server";
 import { parsePlanQuery, planFor } from "~/services/planner.server";
 
@@ -32,6 +33,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     totals: p.totals,
     assumptions: p.assumptions,
     warnings: p.warnings,
+    cautions: cautionTexts(cautionsFor("planner")),
   });
 }
 

@@ -100,7 +100,7 @@ export default function ConnectorCardPage({ loaderData, actionData }: Route.Comp
               </Link>
             ))}
           </div>
-          <div className="rounded-md border border-rule bg-white p-2 print:w-[64mm] print:shrink-0 print:p-1">
+          <div className="rounded-md border border-rule bg-white p-2 print:w-[52mm] print:shrink-0 print:p-1">
             <FaceView geometry={geometry} paint={card.paint.map((p) => ({ ...p, href: `${viewLink(view).split("?")[0]}?${view === "wire" ? "view=wire&" : ""}cavity=${encodeURIComponent(p.cavity)}#pin-${p.cavity}` }))}
               highlight={highlight} caption={`${view === "mating" ? "Mating face" : "Wire side"} of ${card.name}`} />
           </div>
@@ -135,7 +135,7 @@ export default function ConnectorCardPage({ loaderData, actionData }: Route.Comp
             ))}
           </ol>
           <div className="relative hidden overflow-x-auto md:block print:block">
-            <table className="mt-2 w-full border-collapse bg-white text-left text-[0.95rem] print:mt-1 print:text-[8pt] print:leading-tight">
+            <table className="mt-2 w-full border-collapse bg-white text-left text-[0.95rem] print:mt-1 print:text-[7.5pt] print:leading-tight">
               <thead className="border-b-2 border-ink">
                 <tr>
                   <th scope="col" className="p-1.5 print:px-1 print:py-0.5">Cavity</th>
@@ -178,7 +178,7 @@ export default function ConnectorCardPage({ loaderData, actionData }: Route.Comp
       {card.specs.length > 0 ? (
         <section aria-labelledby="specs-heading" className="print-avoid-break">
           <h2 id="specs-heading" className="text-xl font-bold print:text-base">What it should read</h2>
-          <table className="mt-2 w-full max-w-4xl border-collapse bg-white text-left text-[0.95rem] print:mt-1 print:max-w-none print:text-[8pt] print:leading-tight">
+          <table className="mt-2 w-full max-w-4xl border-collapse bg-white text-left text-[0.95rem] print:mt-1 print:max-w-none print:text-[7.5pt] print:leading-tight">
             <thead className="border-b-2 border-ink"><tr><th className="p-1.5 print:px-1 print:py-0.5">Measurement</th><th className="p-1.5 print:px-1 print:py-0.5">Between cavities</th><th className="p-1.5 print:px-1 print:py-0.5">Range</th><th className="p-1.5 print:px-1 print:py-0.5">At</th><th className="hidden p-1.5 sm:table-cell print:table-cell print:px-1 print:py-0.5">Source</th></tr></thead>
             <tbody>
               {card.specs.map((s, i) => {
@@ -187,16 +187,16 @@ export default function ConnectorCardPage({ loaderData, actionData }: Route.Comp
                   <tr key={i} className="border-b border-rule align-top" data-spec={s.name}>
                     <td className="p-1.5 print:px-1 print:py-0.5">
                       {s.name}
-                      {kind !== "resistance" ? <span className="ml-1 text-sm text-muted" data-kind={kind}>({SPEC_KIND_LABELS[kind]})</span> : null}
+                      {kind !== "resistance" ? <span className="ml-1 text-sm text-muted print:text-[7.5pt]" data-kind={kind}>({SPEC_KIND_LABELS[kind]})</span> : null}
                       {/* Beside the value, so the reading can be repeated: without its conditions a value may not be measurable at all. */}
-                      {s.conditions?.trim() ? <span className="mt-0.5 block text-sm" data-conditions><span className="font-semibold">measure:</span> {s.conditions}</span> : null}
+                      {s.conditions?.trim() ? <span className="mt-0.5 block text-sm print:mt-0 print:text-[7.5pt] print:leading-tight" data-conditions><span className="font-semibold">measure:</span> {s.conditions}</span> : null}
                       <span className="mt-0.5 block text-xs text-muted sm:hidden print:hidden">{s.source}</span>
                     </td>
                     <td className="p-1.5 print:px-1 print:py-0.5">{s.between[0]} – {s.between[1]}</td>
                     <td className="p-1.5 print:px-1 print:py-0.5" data-range>
-                      {s.max === null ? <><span className="whitespace-nowrap">≥ {s.min} {s.unit}</span> <span className="block text-sm">open (no upper limit)</span></> : <span className="whitespace-nowrap">{s.min}–{s.max} {s.unit}</span>}
+                      {s.max === null ? <><span className="whitespace-nowrap">≥ {s.min} {s.unit}</span> <span className="block text-sm print:text-[7.5pt]">open (no upper limit)</span></> : <span className="whitespace-nowrap">{s.min}–{s.max} {s.unit}</span>}
                     </td>
-                    <td className="p-1.5 print:px-1 print:py-0.5 whitespace-nowrap">{s.atC} °C</td><td className="hidden p-1.5 text-sm text-muted sm:table-cell print:table-cell print:px-1 print:py-0.5 print:text-[7pt] print:leading-tight">{s.source}</td>
+                    <td className="p-1.5 print:px-1 print:py-0.5 whitespace-nowrap">{s.atC} °C</td><td className="hidden p-1.5 text-sm text-muted sm:table-cell print:table-cell print:w-[30%] print:px-1 print:py-0.5 print:text-[6.5pt] print:leading-tight">{s.source}</td>
                   </tr>
                 );
               })}
@@ -209,7 +209,7 @@ export default function ConnectorCardPage({ loaderData, actionData }: Route.Comp
       {notesHtml ? (
         <section aria-labelledby="notes-heading" className="print-avoid-break">
           <h2 id="notes-heading" className="text-xl font-bold print:text-base">Notes</h2>
-          <div className="prose max-w-3xl print:text-[8.5pt] print:leading-snug" dangerouslySetInnerHTML={{ __html: notesHtml }} />
+          <div className="prose max-w-3xl print:text-[8pt] print:leading-snug" dangerouslySetInnerHTML={{ __html: notesHtml }} />
         </section>
       ) : null}
 
@@ -229,7 +229,7 @@ export default function ConnectorCardPage({ loaderData, actionData }: Route.Comp
         </section>
       ) : null}
 
-      <Cautions kinds={cautions} className="print:py-1.5 print:text-[8pt] print:leading-snug" />
+      <Cautions kinds={cautions} className="print:py-1 print:text-[7.5pt] print:leading-snug" />
 
       {card.revisions.length ? (
         <details className="no-print rounded-md border border-rule bg-white p-3" data-testid="revisions">

@@ -2,6 +2,7 @@ import { useEffect, useRef } from "react";
 import { data, Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/families.$family.circuits.$circuit";
 import { Cautions } from "~/components/cautions";
+import { cautionsFor } from "~/domain/cautions";
 import { CircuitDrawing } from "~/components/circuit-drawing";
 import { decodeColour, houseFor, swatch, type ColourSystemId } from "~/domain/colours";
 import { SWITCH_POSITIONS, type SwitchId } from "~/domain/loom-graph";
@@ -123,14 +124,8 @@ export default function CircuitWalkPage({ loaderData, actionData }: Route.Compon
         ) : null}
       </header>
 
-      <Cautions kinds={powered ? (state.engine === "stopped" ? ["ignition", "battery"] : ["ignition", "battery", "fuel"]) : ["ignition", "battery"]} />
-      {powered && state.engine !== "stopped" ? (
-        <p className="-mt-3 max-w-3xl rounded-md border-l-4 border-caution-edge bg-caution px-4 py-2 text-sm">
-          {state.engine === "cranking"
-            ? "Cranking: gearbox in neutral, bike on its stand, hands, hair and leads clear of moving parts; a helper works the start button. Never probe the coil negative or the points while the engine turns: the primary spikes to a few hundred volts."
-            : "Running: on the stand in neutral, in a ventilated space, leads clear of the exhaust and the chain. Never disconnect the battery while the engine runs, and never probe the coil negative or the points."}
-        </p>
-      ) : null}
+      {/* The one caution set (app/domain/cautions.ts): a continuity walk is done stopped, a voltage walk in the state asked for. */}
+      <Cautions kinds={cautionsFor("walk", powered ? state.engine : "stopped")} />
 
       {powered ? (
         <Form method="get" className="no-print flex flex-wrap items-end gap-3 rounded-md border border-rule bg-white p-3" aria-label="Switch positions">

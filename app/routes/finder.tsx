@@ -1,6 +1,7 @@
 import { useEffect, useRef, useState } from "react";
 import { Form, Link, useFetcher } from "react-router";
 import type { Route } from "./+types/finder";
+import { cautionsFor } from "~/domain/cautions";
 import { Cautions } from "~/components/cautions";
 import { ColourChip } from "~/components/colour-chip";
 import { COLOUR_NAMES, swatch } from "~/domain/colours";
@@ -83,7 +84,7 @@ export default function FinderPage({ loaderData }: Route.ComponentProps) {
         <p className="mt-1 text-muted">The plug is gone and some wires are left? Enter the colours you can see — any notation, any order (<code>W/R</code>, <code>ws/rt</code>, <code>red/white</code>) — and the library&apos;s connectors are ranked by how well they explain them. Each connector reads your codes the way its own maker writes them where it can, and says beside each wire which reading it used.</p>
       </header>
       {/* Identifying a plug usually ends in cutting into the loom or probing it. */}
-      <Cautions kinds={["battery"]} className="max-w-3xl" />
+      <Cautions kinds={cautionsFor("finder")} className="max-w-3xl" />
       <div className="grid gap-6 lg:grid-cols-[380px_1fr]">
         <Form method="get" className="space-y-4 rounded-md border border-rule bg-white p-4" aria-label="Wires you can see">
           <label className="block text-sm font-semibold">Wire colours, one per line

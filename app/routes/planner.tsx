@@ -1,6 +1,7 @@
 import { Form, Link } from "react-router";
 import type { Route } from "./+types/planner";
 import { Cautions } from "~/components/cautions";
+import { cautionsFor } from "~/domain/cautions";
 import { ColourChip } from "~/components/colour-chip";
 import { swatch } from "~/domain/colours";
 import { listFamilies } from "~/services/library.server";
@@ -79,9 +80,7 @@ export default function PlannerPage({ loaderData }: Route.ComponentProps) {
       {planned && !planned.keep.length ? <p role="status" className="font-semibold">Tick at least one circuit to keep.</p> : null}
       {planError ? <p role="alert" className="font-semibold text-signal-dark">{planError}</p> : null}
       {planned?.yearError ? <p role="alert" className="font-semibold text-signal-dark">{planned.yearError}</p> : null}
-      <Cautions kinds={["battery", "fuel"]} />
-      <p className="-mt-3 max-w-3xl text-sm">Fit the main fuse as close to the battery as you can; the starter cable is usually unfused, so route it clear of sharp edges and
-        the exhaust, in a sleeve, with an insulated boot on the relay terminal.</p>
+      <Cautions kinds={[...cautionsFor("planner"), "fuel"]} />
 
       {plan && planned ? (
         <Form method="get" aria-label="Cut list">

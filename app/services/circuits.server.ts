@@ -3,7 +3,7 @@ import { Circuit, Family, Make, SpecValue, System } from "~db/models/index.ts";
 import { familyNetwork, loadFamilyGraph } from "~db/graph.ts";
 import { diagnose, walkCircuit, type Reading, type WalkNode } from "~/domain/circuit-walk";
 import { decodeColour, houseFor, type ColourSystemId } from "~/domain/colours";
-import { ENGINE_STATES } from "~/domain/electrics";
+import { ENGINE_STATES, type EngineState } from "~/domain/electrics";
 import type { PlannerInput } from "~/domain/loom-planner";
 import { resolveSwitches, type GraphEdge } from "~/domain/loom-graph";
 import { wastedSparkPairs } from "~/domain/wasted-spark";
@@ -180,7 +180,7 @@ export async function walkFor(familySlug: string, circuitSlug: string, given: Re
   walk.notes.unshift(...notes);
   return {
     ok: true as const, walk, circuit: { slug: c.slug, name: c.name, system: c.system, workingSwitches: c.switches },
-    family: f.family, state: { engine: sw.value.engine, points: f.hasPoints ? sw.value.points : null }, hasPoints: f.hasPoints, hasStarter: f.hasStarter,
+    family: f.family, state: { engine: sw.value.engine as EngineState, points: f.hasPoints ? sw.value.points : null }, hasPoints: f.hasPoints, hasStarter: f.hasStarter,
   };
 }
 

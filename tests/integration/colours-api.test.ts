@@ -198,8 +198,8 @@ describe("the colour finder says which reading it used", () => {
     const r = await call("/finder?wires=B%2FY%0AO%2FW&family=rx750-four");
     expect(r.status).toBe(200);
     expect(r.body).toMatch(/data-read-as="jis-letters"[^>]*>jis-letters: black with yellow tracer/);
-    // REFERENCE-FACTS 6: disconnect the battery earth lead first (the existing caution text).
+    // REFERENCE-FACTS 6: disconnect the battery's earth lead first (app/domain/cautions.ts), and meter before probing.
     expect(r.body).toMatch(/aria-label="Safety cautions"/);
-    expect(r.body).toMatch(/Disconnect the battery earth lead first/);
+    expect(r.body).toMatch(/Disconnect the battery(&#x27;|')s earth lead first/);
   });
 });

@@ -206,6 +206,33 @@ describe("GET /api/v1/families/:slug/plan", () => {
   });
 });
 
+describe("one caution set in the walk, the diagnosis and the plan", () => {
+  // app/domain/cautions.ts (sources there: CCOHS and HSE via REFERENCE-FACTS §6; primary spikes §5.1, from memory).
+  const cautionsBody = z.object({ cautions: z.array(z.object({ kind: text, title: text, text })).min(1) });
+  const kinds = (b: { cautions: { kind: string }[] }) => b.cautions.map((c) => c.kind);
+
+  it("stopped: connect the meter with the ignition off; cranking adds the primary spikes, moving parts and sparks near fuel; running the charging caution", async () => {
+    const stopped = await getJson("/api/v1/families/marquis-500/circuits/ignition/walk", cautionsBody);
+    expect(kinds(stopped)).toEqual(["meter", "battery", "ignition"]);
+    expect(stopped.cautions[0].text).toMatch(/ignition off, then switch on/);
+    const cranking = await getJson("/api/v1/families/marquis-500/circuits/ignition/walk?engine=cranking", cautionsBody);
+    expect(kinds(cranking)).toEqual(expect.arrayContaining(["primary", "cranking", "spark"]));
+    expect(cranking.cautions.find((c) => c.kind === "primary")!.text).toMatch(/Never probe the coil negative or the points while the engine is cranking/);
+    expect(cranking.cautions.find((c) => c.kind === "spark")!.text).toMatch(/fuel/);
+    const running = await getJson("/api/v1/families/rx400-four/circuits/charging/walk?engine=running", cautionsBody);
+    expect(running.cautions.find((c) => c.kind === "charging")!.text).toMatch(/Never disconnect the battery while the engine runs/);
+    const r = await call("/api/v1/families/rx400-four/circuits/charging/diagnose", jsonInit({ engine: "running", readings: [{ step: 1, value: 14.2 }] }));
+    expect(kinds(shape(cautionsBody, JSON.parse(r.body)))).toContain("charging");
+  });
+
+  it("the plan: main fuse near the battery, the unfused starter cable protected", async () => {
+    const plan = await getJson("/api/v1/families/rx750-four/plan", cautionsBody);
+    const planner = plan.cautions.find((c) => c.kind === "planner")!;
+    expect(planner.text).toMatch(/main fuse as close to the battery/);
+    expect(planner.text).toMatch(/starter cable is usually unfused/);
+  });
+});
+
 describe("computations write nothing", () => {
   it("the state digest is unchanged (QUALITY.md)", async () => {
     expect(await stateDigest(server.dbPath)).toBe(digestBefore);
