@@ -64,3 +64,26 @@ export const SPEC_OFF_CARD_POINTS = ["earth", "HT", "HT A", "HT B", "cap", "cap 
 export function isOffCardPoint(v: string): boolean {
   return (SPEC_OFF_CARD_POINTS as readonly string[]).includes(v);
 }
+
+/**
+ * The lead-in that every spec's conditions share, up to a clause break (": " or ". "), and what is left of each.
+ * A printed card states the shared set-up once above its table, and each row keeps only its own part.
+ * `shared` is null when fewer than two specs carry conditions or they have no lead-in in common.
+ */
+export function splitSharedConditions(conditions: readonly (string | null | undefined)[]): { shared: string | null; rest: string[] } {
+  const texts = conditions.map((c) => (c ?? "").trim());
+  const none = { shared: null, rest: texts };
+  if (texts.length < 2 || texts.some((t) => t === "")) return none;
+  let common = texts[0];
+  for (const t of texts.slice(1)) {
+    let i = 0;
+    while (i < common.length && i < t.length && common[i] === t[i]) i++;
+    common = common.slice(0, i);
+  }
+  const cut = Math.max(common.lastIndexOf(": "), common.lastIndexOf(". "));
+  if (cut <= 0) return none;
+  const shared = common.slice(0, cut).trim();
+  const rest = texts.map((t) => t.slice(cut + 2).trim());
+  if (rest.some((r) => r === "")) return none;
+  return { shared, rest: rest.map((r) => r.charAt(0).toUpperCase() + r.slice(1)) };
+}

@@ -4,7 +4,7 @@ import { Cautions, type CautionKind } from "~/components/cautions";
 import { ColourChip } from "~/components/colour-chip";
 import { FaceView } from "~/components/face-view";
 import { faceGeometry } from "~/domain/connector-face";
-import { SPEC_KIND_LABELS, specKindOf } from "~/domain/specs";
+import { SPEC_KIND_LABELS, specKindOf, splitSharedConditions } from "~/domain/specs";
 import { can } from "~/domain/roles";
 import { checkCard, reportMistake, riderCardState, saveCard } from "~/services/garage.server";
 import { optionalUser, requireCan } from "~/services/guards.server";
@@ -62,18 +62,19 @@ const LATCH_WORDS = { top: "latch at the top", bottom: "latch at the bottom", le
 
 export default function ConnectorCardPage({ loaderData, actionData }: Route.ComponentProps) {
   const { card, view, highlight, notesHtml, rider, published } = loaderData;
+  const { shared: sharedConditions, rest: ownConditions } = splitSharedConditions(card.specs.map((s) => s.conditions));
   const geometry = faceGeometry(card.layout, { view });
   const cautions: CautionKind[] = card.system === "ignition" ? ["ignition", "battery"] : card.system === "starting" || card.system === "charging" ? ["battery", "fuel"] : ["battery"];
   const here = `/connectors/${card.slug}`;
   const viewLink = (v: "mating" | "wire") => `${here}${v === "wire" ? "?view=wire" : ""}${highlight ? `${v === "wire" ? "&" : "?"}cavity=${encodeURIComponent(highlight)}` : ""}`;
   return (
-    <article className="space-y-5 print:space-y-3">
+    <article className="card-sheet space-y-5 print:space-y-0">
       <nav aria-label="Breadcrumb" className="no-print text-sm">
         <Link to="/" className="underline">Library</Link> › <Link to={`/makes/${card.family.make.slug}`} className="underline">{card.family.make.name}</Link> ›{" "}
         <Link to={`/families/${card.family.slug}`} className="underline">{card.family.name}</Link> › {card.systemName}
       </nav>
       {published ? <p role="status" className="no-print rounded border-l-4 border-ink bg-white px-3 py-2 font-semibold">Published: this is revision {published}. The contributor has been told by e-mail.</p> : null}
-      <header className="flex flex-wrap items-start justify-between gap-3">
+      <header className="card-sheet-head flex flex-wrap items-start justify-between gap-3 print:block">
         <div>
           <p className="text-sm font-semibold uppercase tracking-wide text-muted">{card.family.make.name} {card.family.name} · {card.family.yearFrom}–{card.family.yearTo} · {card.systemName}</p>
           <h1 className="text-3xl font-bold print:text-xl">{card.name}</h1>
@@ -82,15 +83,15 @@ export default function ConnectorCardPage({ loaderData, actionData }: Route.Comp
             {card.matesWith ? <> · mates with <Link to={`/connectors/${card.matesWith}`} className="font-semibold text-signal-dark">{card.mateName}</Link></> : null}
           </p>
         </div>
-        <div className="text-sm sm:text-right print:flex print:gap-3 print:text-[8pt]">
+        <div className="text-sm sm:text-right print:mt-1 print:flex print:gap-3 print:text-[8pt]">
           <p className="font-semibold" data-testid="revision">Revision {card.revision.number}</p>
           <p className="text-muted">published {card.revision.publishedAt.slice(0, 10)}</p>
           <p className="text-muted" data-testid="bike-checked">{card.bikeChecked} {card.bikeChecked === 1 ? "rider" : "riders"} bike-checked{card.bikeCheckedYears.length ? ` (${card.bikeCheckedYears.join(", ")})` : ""}</p>
         </div>
       </header>
 
-      <div className="grid gap-5 lg:grid-cols-[minmax(280px,420px)_1fr] print:block">
-        <section aria-labelledby="face-heading" className="print-avoid-break print:mb-2 print:flex print:items-end print:gap-4">
+      <div className="card-sheet-body grid gap-5 lg:grid-cols-[minmax(280px,420px)_1fr]">
+        <section aria-labelledby="face-heading" className="card-sheet-face print-avoid-break">
           <h2 id="face-heading" className="sr-only">Face view</h2>
           <div role="group" aria-label="Which side you are looking at" className="no-print mb-2 inline-flex overflow-hidden rounded border-2 border-ink">
             {(["mating", "wire"] as const).map((v) => (
@@ -100,11 +101,11 @@ export default function ConnectorCardPage({ loaderData, actionData }: Route.Comp
               </Link>
             ))}
           </div>
-          <div className="rounded-md border border-rule bg-white p-2 print:w-[52mm] print:shrink-0 print:p-1">
+          <div className="rounded-md border border-rule bg-white p-2 print:p-1">
             <FaceView geometry={geometry} paint={card.paint.map((p) => ({ ...p, href: `${viewLink(view).split("?")[0]}?${view === "wire" ? "view=wire&" : ""}cavity=${encodeURIComponent(p.cavity)}#pin-${p.cavity}` }))}
               highlight={highlight} caption={`${view === "mating" ? "Mating face" : "Wire side"} of ${card.name}`} />
           </div>
-          <p className="mt-2 text-sm print:text-[8pt]" data-testid="view-caption">
+          <p className="card-sheet-caption mt-2 text-sm print:mt-0 print:text-[8pt] print:leading-tight" data-testid="view-caption">
             {view === "mating"
               ? "Seen from the mating face: looking into the cavities, as when the two halves are apart."
               : "Seen from the wire side: where the wires enter the housing. This is the mirror image of the mating face."}{" "}
@@ -178,6 +179,8 @@ export default function ConnectorCardPage({ loaderData, actionData }: Route.Comp
       {card.specs.length > 0 ? (
         <section aria-labelledby="specs-heading" className="print-avoid-break">
           <h2 id="specs-heading" className="text-xl font-bold print:text-base">What it should read</h2>
+          {/* On paper, conditions every reading shares are printed once above the table rather than on every row. */}
+          {sharedConditions ? <p className="hidden print:mt-0.5 print:block print:text-[7.5pt] print:leading-tight" data-shared-conditions><span className="font-semibold">Measure every reading with:</span> {sharedConditions}; then as each row says.</p> : null}
           <table className="mt-2 w-full max-w-4xl border-collapse bg-white text-left text-[0.95rem] print:mt-1 print:max-w-none print:text-[7.5pt] print:leading-tight">
             <thead className="border-b-2 border-ink"><tr><th className="p-1.5 print:px-1 print:py-0.5">Measurement</th><th className="p-1.5 print:px-1 print:py-0.5">Between cavities</th><th className="p-1.5 print:px-1 print:py-0.5">Range</th><th className="p-1.5 print:px-1 print:py-0.5">At</th><th className="hidden p-1.5 sm:table-cell print:table-cell print:px-1 print:py-0.5">Source</th></tr></thead>
             <tbody>
@@ -189,14 +192,15 @@ export default function ConnectorCardPage({ loaderData, actionData }: Route.Comp
                       {s.name}
                       {kind !== "resistance" ? <span className="ml-1 text-sm text-muted print:text-[7.5pt]" data-kind={kind}>({SPEC_KIND_LABELS[kind]})</span> : null}
                       {/* Beside the value, so the reading can be repeated: without its conditions a value may not be measurable at all. */}
-                      {s.conditions?.trim() ? <span className="mt-0.5 block text-sm print:mt-0 print:text-[7.5pt] print:leading-tight" data-conditions><span className="font-semibold">measure:</span> {s.conditions}</span> : null}
+                      {s.conditions?.trim() ? <span className={`mt-0.5 block text-sm print:mt-0 print:text-[7.5pt] print:leading-tight ${sharedConditions ? "print:hidden" : ""}`} data-conditions><span className="font-semibold">measure:</span> {s.conditions}</span> : null}
+                      {sharedConditions ? <span className="hidden print:block print:text-[7.5pt] print:leading-tight">{ownConditions[i]}</span> : null}
                       <span className="mt-0.5 block text-xs text-muted sm:hidden print:hidden">{s.source}</span>
                     </td>
                     <td className="p-1.5 print:px-1 print:py-0.5">{s.between[0]} – {s.between[1]}</td>
                     <td className="p-1.5 print:px-1 print:py-0.5" data-range>
                       {s.max === null ? <><span className="whitespace-nowrap">≥ {s.min} {s.unit}</span> <span className="block text-sm print:text-[7.5pt]">open (no upper limit)</span></> : <span className="whitespace-nowrap">{s.min}–{s.max} {s.unit}</span>}
                     </td>
-                    <td className="p-1.5 print:px-1 print:py-0.5 whitespace-nowrap">{s.atC} °C</td><td className="hidden p-1.5 text-sm text-muted sm:table-cell print:table-cell print:w-[30%] print:px-1 print:py-0.5 print:text-[6.5pt] print:leading-tight">{s.source}</td>
+                    <td className="p-1.5 print:px-1 print:py-0.5 whitespace-nowrap">{s.atC} °C</td><td className="hidden p-1.5 text-sm text-muted sm:table-cell print:table-cell print:w-[38%] print:px-1 print:py-0.5 print:text-[6.5pt] print:leading-tight">{s.source}</td>
                   </tr>
                 );
               })}
