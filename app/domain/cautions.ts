@@ -85,7 +85,8 @@ export type CautionTool = "walk" | "bench" | "finder" | "planner";
 export function cautionsFor(tool: CautionTool, engine: EngineState = "stopped"): CautionKind[] {
   switch (tool) {
     case "planner":
-      return ["planner", "battery"];
+      // A new loom is laid along the tank and the fuel lines.
+      return ["planner", "battery", "fuel"];
     case "finder":
       // Identifying a cut-off plug means probing and cutting wires: with the battery disconnected.
       return ["battery", "meter"];

@@ -80,7 +80,7 @@ export default function PlannerPage({ loaderData }: Route.ComponentProps) {
       {planned && !planned.keep.length ? <p role="status" className="font-semibold">Tick at least one circuit to keep.</p> : null}
       {planError ? <p role="alert" className="font-semibold text-signal-dark">{planError}</p> : null}
       {planned?.yearError ? <p role="alert" className="font-semibold text-signal-dark">{planned.yearError}</p> : null}
-      <Cautions kinds={[...cautionsFor("planner"), "fuel"]} />
+      <Cautions kinds={cautionsFor("planner")} />
 
       {plan && planned ? (
         <Form method="get" aria-label="Cut list">

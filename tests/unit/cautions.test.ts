@@ -33,7 +33,7 @@ describe("cautionsFor: which cautions each tool shows", () => {
 
   it("the planner: main fuse near the battery and the unfused starter cable, then the battery", () => {
     // §5 main fuse 15–30 A (common practice); starter cable usually unfused (DEVELOPERS planner decision, common practice).
-    expect(cautionsFor("planner")).toEqual(["planner", "battery"]);
+    expect(cautionsFor("planner")).toEqual(["planner", "battery", "fuel"]);
     expect(cautionTexts(["planner"])[0].text).toMatch(/main fuse as close to the battery/);
     expect(cautionTexts(["planner"])[0].text).toMatch(/starter cable is usually unfused/);
     expect(cautionTexts(["planner"])[0].text).toMatch(/grommets/);
