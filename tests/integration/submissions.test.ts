@@ -300,8 +300,11 @@ describe("spec conditions, kind, material and an open maximum through publishing
 
   it("publishing writes them to the card's spec rows and its revision snapshot", async () => {
     const slug = await cardWithSpecs();
+    // The demo states each reading's material, so the edit changes it to a material the spec does not have yet.
+    let material: "copper" | "other" = "copper";
     const { id, version } = await inReview(slug, (c) => {
-      c.specs[0] = { ...c.specs[0], conditions: CONDITIONS, material: "copper" };
+      material = c.specs[0].material === "copper" ? "other" : "copper";
+      c.specs[0] = { ...c.specs[0], conditions: CONDITIONS, material };
       c.specs.push({ name: "Pickup insulation to earth", min: 1, max: null, unit: "MΩ", between: c.specs[0].between, atC: 20, source: "Measured",
         conditions: "Ignition off, plug apart, both cavities to the engine", kind: "insulation", material: null });
     });
@@ -314,7 +317,7 @@ describe("spec conditions, kind, material and an open maximum through publishing
     const pick = <T extends { name: string }>(list: T[]) => [list.find((r) => r.name === firstName)!, list.find((r) => r.name === "Pickup insulation to earth")!];
     expect(rows).toHaveLength(v.content.specs.length);
     expect(pick(rows).map((r) => [r.conditions, r.kind, r.material, r.max === null])).toEqual([
-      [CONDITIONS, "resistance", "copper", false],
+      [CONDITIONS, "resistance", material, false],
       ["Ignition off, plug apart, both cavities to the engine", "insulation", null, true],
     ]);
     // The other specs keep what they had.
@@ -322,7 +325,7 @@ describe("spec conditions, kind, material and an open maximum through publishing
     const rev = await m.Revision.findOne({ where: { connectorId: card!.id, number: out.revision! } });
     const snap = rev!.snapshot as { specs: { name: string; conditions: string; kind: string; material: string | null; max: number | null }[] };
     expect(pick(snap.specs).map((s) => [s.conditions, s.kind, s.material, s.max])).toEqual([
-      [CONDITIONS, "resistance", "copper", pick(rows)[0].max],
+      [CONDITIONS, "resistance", material, pick(rows)[0].max],
       ["Ignition off, plug apart, both cavities to the engine", "insulation", null, null],
     ]);
     expect(await checkLibrary()).toEqual([]);
