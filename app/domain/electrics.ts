@@ -120,6 +120,15 @@ type Behaviour =
 
 /** Nominal resistances of healthy conductors, Ω: enough to tell the current's share, far below any allowed drop. */
 const CONDUCTOR_OHMS: Partial<Record<EdgeKind, number>> = { mate: 0.002, contact: 0.005, fuse: 0.005, breaker: 0.01, transistor: 0.1 };
+/**
+ * A closed contact's resistance. A heavy contact (a starter relay's, rated for its current) is built to lose about 0.1 V at
+ * that current (common practice: a healthy closed contact drops ≤ 0.1–0.2 V under full load), so it is less than a
+ * switch contact's 5 mΩ; a rating the data does not give leaves the 5 mΩ.
+ */
+export function contactOhms(ratedA: number | undefined): number {
+  const base = CONDUCTOR_OHMS.contact!;
+  return ratedA !== undefined && ratedA > 0 ? Math.min(base, 0.1 / ratedA) : base;
+}
 /** A wire whose size or length the library does not know: 1 m of 0.75 mm² class 5 cable. */
 const DEFAULT_WIRE_OHMS = strandedOhmsPerM(0.75) * 1;
 const DEFAULT_DUTY = { breaker: 0.6, "ignition-output": 0.5, flasher: 0.5, "field-drive": 0.6 } as const;
@@ -146,7 +155,7 @@ export function behaviour(e: Element, state: OperatingState, net: Network, batte
     case "fuse":
       return { t: "conductor", ohms: CONDUCTOR_OHMS[e.kind]! };
     case "contact":
-      return closedBySwitch ? { t: "conductor", ohms: CONDUCTOR_OHMS.contact! } : { t: "open" };
+      return closedBySwitch ? { t: "conductor", ohms: contactOhms(p.contactA) } : { t: "open" };
     case "breaker":
       if (!turning) return state.points === "open" ? { t: "open" } : { t: "conductor", ohms: CONDUCTOR_OHMS.breaker! };
       return { t: "switching", ohms: CONDUCTOR_OHMS.breaker!, duty: p.duty ?? DEFAULT_DUTY.breaker };

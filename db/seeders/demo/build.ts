@@ -98,7 +98,8 @@ export function buildFamily(f: FamilySpec): FamilyRows {
     ];
     for (const t of net.terminals ?? []) if (!pinRefs.has(t)) throw new Error(`${f.slug}: net ${name} names unknown terminal ${t}`);
     const wire = (from: string, to: string) =>
-      rows.wires.push({ from, to, code: net.code, lengthMm: net.lengthMm ?? null, sizeMm2: net.sizeMm2 ?? null });
+      rows.wires.push({ from, to, code: net.code, lengthMm: net.lengthMm ?? null, sizeMm2: (net.hub === to ? net.leadsMm2?.[from] : undefined) ?? net.sizeMm2 ?? null });
+    for (const t of Object.keys(net.leadsMm2 ?? {})) if (!net.hub || !ends.includes(t)) throw new Error(`${f.slug}: net ${name} sizes a lead to ${t}, which is not on its hub`);
     if (net.hub) {
       if (!pinRefs.has(net.hub)) throw new Error(`${f.slug}: net ${name} hub ${net.hub} unknown`);
       for (const e of ends) if (e !== net.hub) wire(e, net.hub);

@@ -47,6 +47,9 @@ export interface NetSpec {
   terminals?: PinRef[]; // bare terminals on this net
   lengthMm?: number; // default run length for the loom planner
   sizeMm2?: number;
+  /** Heavier leads of a hub net: the size (mm²) of the wire from the hub to these terminals (a battery's earth lead and
+   * the engine's earth strap carry the starter's current back, so they are sized like the starter cable). */
+  leadsMm2?: Partial<Record<PinRef, number>>;
 }
 
 export interface PairSpec {

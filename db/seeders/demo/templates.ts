@@ -33,11 +33,12 @@ export function transistorFour(
 ): FamilySpec {
   const small = h.jp ? 0.5 : 0.5;
   const lamp = h.jp ? 0.85 : 0.75;
-  const feed = h.jp ? 1.25 : 1;
+  // Feeds sized so a healthy loom loses at most 0.5 V over any circuit in any state (common practice; the walk's test).
+  const feed = h.jp ? 2 : 1.5;
   const nets: Record<Exclude<FourNet, keyof FrontCodes>, NetSpec> = {
-    batt: { code: c.batt, circuit: "battery feed", hub: "battery.+", terminals: ["battery.+", "main-fuse.in", "starter-relay.30"], lengthMm: 300, sizeMm2: 5 },
-    "main-fused": { code: c["main-fused"], circuit: "fused battery feed", terminals: ["main-fuse.out"], lengthMm: 1400, sizeMm2: 2 },
-    "ign-sw": { code: c["ign-sw"], circuit: "switched feed (ignition on)", terminals: ["ign-fuse.in", "signals-fuse.in"], lengthMm: 1300, sizeMm2: 2 },
+    batt: { code: c.batt, circuit: "battery feed", hub: "battery.+", terminals: ["battery.+", "main-fuse.in", "starter-relay.30"], lengthMm: 300, sizeMm2: 5, leadsMm2: { "starter-relay.30": 8 } },
+    "main-fused": { code: c["main-fused"], circuit: "fused battery feed", terminals: ["main-fuse.out"], lengthMm: 1400, sizeMm2: 3 },
+    "ign-sw": { code: c["ign-sw"], circuit: "switched feed (ignition on)", terminals: ["ign-fuse.in", "signals-fuse.in"], lengthMm: 1300, sizeMm2: 3 },
     "ign-fused": { code: c["ign-fused"], circuit: "fused ignition feed", terminals: ["ign-fuse.out"], lengthMm: 1300, sizeMm2: feed },
     "sig-fused": { code: c["sig-fused"], circuit: "fused signals feed (indicators, horn, brake lamp, warning lamps)", terminals: ["signals-fuse.out"], lengthMm: 900, sizeMm2: feed },
     "kill-run": { code: c["kill-run"], circuit: "ignition feed after the kill switch", lengthMm: 1200, sizeMm2: feed },
@@ -47,7 +48,9 @@ export function transistorFour(
     "pick1-b": { code: c["pick1-b"], circuit: "pickup 1 return", lengthMm: 900, sizeMm2: small },
     "pick2-a": { code: c["pick2-a"], circuit: "pickup 2 signal", lengthMm: 900, sizeMm2: small },
     "pick2-b": { code: c["pick2-b"], circuit: "pickup 2 return", lengthMm: 900, sizeMm2: small },
-    earth: { code: c.earth, circuit: "earth", hub: "frame-earth.E", terminals: ["frame-earth.E", "battery.-", "crankcase.E"], lengthMm: 400, sizeMm2: feed },
+    earth: { code: c.earth, circuit: "earth", hub: "frame-earth.E", terminals: ["frame-earth.E", "battery.-", "crankcase.E"], lengthMm: 400, sizeMm2: feed,
+      // The starter's current comes back through the engine's strap and the battery's earth lead: starter-cable size.
+      leadsMm2: { "battery.-": 8, "crankcase.E": 8 } },
     "start-sw": { code: c["start-sw"], circuit: "start button to relay", lengthMm: 1400, sizeMm2: lamp },
     "starter-main": { code: c["starter-main"], circuit: "starter motor cable", terminals: ["starter-relay.87", "starter-motor.post"], lengthMm: 600, sizeMm2: 8 },
     ph1: { code: c.ph1, circuit: "alternator phase 1", lengthMm: 700, sizeMm2: 2 },
@@ -192,21 +195,22 @@ export function boxerTwin(
 ): FamilySpec {
   const tci = o.trigger === "transistor";
   const nets: Partial<Record<Exclude<TwinNet, keyof FrontCodes>, NetSpec>> = {
-    batt: { code: c.batt, circuit: "battery feed", hub: "battery.+", terminals: ["battery.+", "main-fuse.in", "starter-relay.30"], lengthMm: 300, sizeMm2: 6 },
-    "main-fused": { code: c["main-fused"], circuit: "fused battery feed", terminals: ["main-fuse.out"], lengthMm: 1300, sizeMm2: 2.5 },
-    "ign-sw": { code: c["ign-sw"], circuit: "switched feed (ignition on)", terminals: ["ign-fuse.in", "lights-fuse.in", "signals-fuse.in"], lengthMm: 1200, sizeMm2: 2.5 },
-    "ign-fused": { code: c["ign-fused"], circuit: "fused ignition feed", terminals: ["ign-fuse.out"], lengthMm: 1200, sizeMm2: 1.5 },
-    "sig-fused": { code: c["sig-fused"], circuit: "fused signals feed (indicators, horn, brake lamp, warning lamps)", terminals: ["signals-fuse.out"], lengthMm: 900, sizeMm2: 1 },
-    "kill-run": { code: c["kill-run"], circuit: "ignition feed after the kill switch", lengthMm: 1100, sizeMm2: 1.5 },
+    batt: { code: c.batt, circuit: "battery feed", hub: "battery.+", terminals: ["battery.+", "main-fuse.in", "starter-relay.30"], lengthMm: 300, sizeMm2: 6, leadsMm2: { "starter-relay.30": 10 } },
+    "main-fused": { code: c["main-fused"], circuit: "fused battery feed", terminals: ["main-fuse.out"], lengthMm: 1300, sizeMm2: 4 },
+    "ign-sw": { code: c["ign-sw"], circuit: "switched feed (ignition on)", terminals: ["ign-fuse.in", "lights-fuse.in", "signals-fuse.in"], lengthMm: 1200, sizeMm2: 4 },
+    "ign-fused": { code: c["ign-fused"], circuit: "fused ignition feed", terminals: ["ign-fuse.out"], lengthMm: 1200, sizeMm2: 2.5 },
+    "sig-fused": { code: c["sig-fused"], circuit: "fused signals feed (indicators, horn, brake lamp, warning lamps)", terminals: ["signals-fuse.out"], lengthMm: 900, sizeMm2: 1.5 },
+    "kill-run": { code: c["kill-run"], circuit: "ignition feed after the kill switch", lengthMm: 1100, sizeMm2: 2.5 },
     "coil-neg": { code: c["coil-neg"], circuit: tci ? "coil negative to unit" : "coil negative to points", lengthMm: 600, sizeMm2: 1 },
-    earth: { code: c.earth, circuit: "earth", hub: "frame-earth.E", terminals: ["frame-earth.E", "battery.-", "crankcase.E"], lengthMm: 400, sizeMm2: 1.5 },
+    earth: { code: c.earth, circuit: "earth", hub: "frame-earth.E", terminals: ["frame-earth.E", "battery.-", "crankcase.E"], lengthMm: 400, sizeMm2: 1.5,
+      leadsMm2: { "battery.-": 10, "crankcase.E": 10 } },
     "start-sw": { code: c["start-sw"], circuit: "start button to relay", lengthMm: 1300, sizeMm2: 0.75 },
     "starter-main": { code: c["starter-main"], circuit: "starter motor cable", terminals: ["starter-relay.87", "starter-motor.post"], lengthMm: 500, sizeMm2: 10 },
     charge: { code: c.charge, circuit: "alternator output (B+) to battery", terminals: ["battery.+"], lengthMm: 600, sizeMm2: 4 },
     "d-plus": { code: c["d-plus"], circuit: "alternator D+ to regulator and charge lamp", lengthMm: 500, sizeMm2: 1 },
     field: { code: c.field, circuit: "alternator field (DF)", lengthMm: 500, sizeMm2: 1 },
-    acc: { code: c.acc, circuit: "fused lights feed", terminals: ["lights-fuse.out"], lengthMm: 1200, sizeMm2: 1.5 },
-    "head-feed": { code: c["head-feed"], circuit: "headlamp feed to the dip switch (56)", lengthMm: 300, sizeMm2: 1.5 },
+    acc: { code: c.acc, circuit: "fused lights feed", terminals: ["lights-fuse.out"], lengthMm: 1200, sizeMm2: 2.5 },
+    "head-feed": { code: c["head-feed"], circuit: "headlamp feed to the dip switch (56)", lengthMm: 300, sizeMm2: 2.5 },
     "tail-feed": { code: c["tail-feed"], circuit: "tail, number-plate and panel lamps (58)", lengthMm: 1600, sizeMm2: 0.75 },
     "brake-feed": { code: c["brake-feed"], circuit: "brake lamp", lengthMm: 500, sizeMm2: 0.75 },
   };
@@ -335,12 +339,14 @@ export function pointsTwin(base: Base, c: Codes<BritNet>, o: { blade: string; bu
   const pos = o.earth === "positive";
   const nets: Record<Exclude<BritNet, keyof FrontCodes>, NetSpec> = {
     batt: { code: c.batt, circuit: "battery feed (live)", hub: live, terminals: [live, "main-fuse.in"], lengthMm: 300, sizeMm2: 2.5 },
-    "main-fused": { code: c["main-fused"], circuit: "fused battery feed", terminals: ["main-fuse.out"], lengthMm: 1200, sizeMm2: 1.5 },
-    "ign-sw": { code: c["ign-sw"], circuit: "switched feed (ignition on): ignition, signals, warning lamps", lengthMm: 1100, sizeMm2: 1.5 },
-    "kill-run": { code: c["kill-run"], circuit: "ignition feed after the kill button", lengthMm: 1000, sizeMm2: 1 },
+    "main-fused": { code: c["main-fused"], circuit: "fused battery feed", terminals: ["main-fuse.out"], lengthMm: 1200, sizeMm2: 2.5 },
+    "ign-sw": { code: c["ign-sw"], circuit: "switched feed (ignition on): ignition, signals, warning lamps", lengthMm: 1100, sizeMm2: 2.5 },
+    "kill-run": { code: c["kill-run"], circuit: "ignition feed after the kill button", lengthMm: 1000, sizeMm2: 1.5 },
     "coil1-neg": { code: c["coil1-neg"], circuit: "coil 1 (left cylinder) to points", lengthMm: 700, sizeMm2: 1 },
     "coil2-neg": { code: c["coil2-neg"], circuit: "coil 2 (right cylinder) to points", lengthMm: 700, sizeMm2: 1 },
-    earth: { code: c.earth, circuit: pos ? "earth (the battery's + post)" : "earth", hub: "frame-earth.E", terminals: ["frame-earth.E", earth, "crankcase.E"], lengthMm: 400, sizeMm2: 1.5 },
+    earth: { code: c.earth, circuit: pos ? "earth (the battery's + post)" : "earth", hub: "frame-earth.E", terminals: ["frame-earth.E", earth, "crankcase.E"], lengthMm: 400, sizeMm2: 1.5,
+      // No starter, but the battery's earth lead and the engine's strap carry the whole loom's current back.
+      leadsMm2: { [earth]: 4, "crankcase.E": 4 } },
     ph1: { code: c.ph1, circuit: "alternator output, lead 1", lengthMm: 800, sizeMm2: 1.5 },
     ph2: { code: c.ph2, circuit: "alternator output, lead 2", lengthMm: 800, sizeMm2: 1.5 },
     charge: { code: c.charge, circuit: "rectifier output to battery", terminals: [live], lengthMm: 500, sizeMm2: 1.5 },
@@ -439,11 +445,13 @@ type SingleNet = "batt" | "main-fused" | "ign-sw" | "kill-run" | "coil-neg" | "e
 export function sixVoltSingle(base: Base, c: Codes<SingleNet>, o: { blade: string; bullet: string; outputA: number }): FamilySpec {
   const nets: Record<Exclude<SingleNet, keyof FrontCodes>, NetSpec> = {
     batt: { code: c.batt, circuit: "battery feed", hub: "battery.+", terminals: ["battery.+", "main-fuse.in"], lengthMm: 250, sizeMm2: 1.25 },
-    "main-fused": { code: c["main-fused"], circuit: "fused battery feed", terminals: ["main-fuse.out"], lengthMm: 900, sizeMm2: 1.25 },
+    "main-fused": { code: c["main-fused"], circuit: "fused battery feed", terminals: ["main-fuse.out"], lengthMm: 900, sizeMm2: 2 },
     "ign-sw": { code: c["ign-sw"], circuit: "switched feed (ignition on): ignition, signals, warning lamps", lengthMm: 800, sizeMm2: 1.25 },
     "kill-run": { code: c["kill-run"], circuit: "ignition feed after the kill switch", lengthMm: 700, sizeMm2: 0.85 },
     "coil-neg": { code: c["coil-neg"], circuit: "coil negative to points", lengthMm: 500, sizeMm2: 0.85 },
-    earth: { code: c.earth, circuit: "earth", hub: "frame-earth.E", terminals: ["frame-earth.E", "battery.-", "crankcase.E"], lengthMm: 300, sizeMm2: 1.25 },
+    earth: { code: c.earth, circuit: "earth", hub: "frame-earth.E", terminals: ["frame-earth.E", "battery.-", "crankcase.E"], lengthMm: 300, sizeMm2: 1.25,
+      // 6 V: the same lamps draw twice the current, all of it back through these two.
+      leadsMm2: { "battery.-": 4, "crankcase.E": 4 } },
     ph1: { code: c.ph1, circuit: "flywheel alternator, lead 1", lengthMm: 600, sizeMm2: 0.85 },
     ph2: { code: c.ph2, circuit: "flywheel alternator, lead 2", lengthMm: 600, sizeMm2: 0.85 },
     charge: { code: c.charge, circuit: "rectifier output to battery", terminals: ["battery.+"], lengthMm: 400, sizeMm2: 0.85 },
