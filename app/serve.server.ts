@@ -291,6 +291,17 @@ app.use((_req, res, next) => {
 });
 app.use(watchBody);
 
+// The methods the app answers. The Fetch API refuses to build a Request for TRACE, TRACK and CONNECT (a TypeError
+// that became a 500); they, and any method not listed, get 405 with the Allow header (RFC 9110 §15.5.6).
+const METHODS = ["GET", "HEAD", "POST", "PUT", "PATCH", "DELETE", "OPTIONS"];
+app.use((req, res, next) => {
+  if (METHODS.includes(req.method)) return next();
+  const error = { code: "method_not_allowed", message: `${req.method} is not a method this site answers.` };
+  res.status(405).set("Allow", METHODS.join(", "));
+  if (req.path.startsWith("/api/")) res.json({ error });
+  else res.type("text/plain").send(error.message);
+});
+
 // A malformed percent-encoding (%ff) would reach Express's param decoding and come back as its HTML page;
 // answer it here, in the API's error shape for API addresses.
 app.use((req, res, next) => {

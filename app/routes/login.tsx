@@ -1,22 +1,31 @@
 import { data, Form, Link, redirect } from "react-router";
 import type { Route } from "./+types/login";
 import { Field, FormMessage } from "~/components/field";
-import { safeNext, signIn } from "~/services/accounts.server";
+import { nextTarget } from "~/domain/redirects";
+import { appUrl, signIn } from "~/services/accounts.server";
 import { optionalUser } from "~/services/guards.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Sign in · Loomlore" }];
 
+/** The `next` of this request, checked before anything else: a control or space character in it is a 400. */
+function nextOf(request: Request): string {
+  const n = nextTarget(new URL(request.url).searchParams.get("next"), appUrl());
+  if (!n.ok) throw data(`This sign-in link is not valid. ${n.reason}`, { status: 400 });
+  return n.to;
+}
+
 export async function loader({ request }: Route.LoaderArgs) {
   const url = new URL(request.url);
-  if (await optionalUser(request)) throw redirect(safeNext(url.searchParams.get("next")));
-  return { next: url.searchParams.get("next") ?? "", notice: url.searchParams.get("notice") };
+  const next = nextOf(request);
+  if (await optionalUser(request)) throw redirect(next);
+  return { next: url.searchParams.get("next") ? next : "", notice: url.searchParams.get("notice") };
 }
 
 // Retry-After (and any other header an action sets) reaches the browser on a document request too.
 export const headers: Route.HeadersFunction = ({ actionHeaders, loaderHeaders }) => (actionHeaders.has("Retry-After") ? actionHeaders : loaderHeaders);
 
 export async function action({ request, context }: Route.ActionArgs) {
-  const next = safeNext(new URL(request.url).searchParams.get("next"));
+  const next = nextOf(request);
   const r = await signIn(request, context?.ip ?? "unknown");
   if (r.ok) throw redirect(next, { headers: { "Set-Cookie": r.setCookie } });
   return data({ errors: r.errors, values: r.values }, { status: r.status, headers: r.retryAfterS ? { "Retry-After": String(r.retryAfterS) } : undefined });

@@ -21,11 +21,6 @@ export function appUrl(): string {
   return (process.env.APP_URL ?? `http://localhost:${process.env.PORT ?? 3000}`).replace(/\/$/, "");
 }
 
-/** A safe place to go after signing in: a path on this site only (ASVS V5.1.5), else the garage. */
-export function safeNext(next: string | null | undefined): string {
-  return next && /^\/(?!\/|\\)/.test(next) && !/[\r\n]/.test(next) ? next : "/garage";
-}
-
 export class LoginError extends Error {}
 
 /** The sign-in strategy: remix-auth's form strategy over our accounts. Unknown address and wrong password look alike. */
