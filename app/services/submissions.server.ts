@@ -177,6 +177,7 @@ export async function startSubmission(actor: Actor, input: StartInput): Promise<
         sourceKind: input.sourceKind ?? "", sourceDetail: input.sourceDetail ?? "", summary: input.summary ?? "",
         idempotencyKey: input.idempotencyKey ?? null, createdAt: now, updatedAt: now,
       }, { transaction });
+      await checkPhotos(s, content, transaction);
       await audit(actor.id, "submission.start", "submission", s.id, { kind, connector: input.connector ?? null, family: input.family ?? null }, transaction);
       if (input.submit) await transition(actor, s, "submit", {}, transaction);
       return s.id;
@@ -202,14 +203,22 @@ export interface UpdateInput {
   answer?: string;
 }
 
-/** Photos a proposal may show: the author's own uploads to this submission, or those already on the card it edits. */
-async function checkPhotos(s: Submission, content: CardProposal, transaction: Transaction) {
+/**
+ * Photos a proposal may show: those already on the card it edits, or the author's own unpublished uploads (to this
+ * submission, or to none yet). Never another contributor's draft photo, nor a photo published on another card: either
+ * would be served publicly on approval, under this submission's credit. Checked wherever a proposal's photos are set
+ * (start, every edit) and again when it is published, inside the publishing transaction.
+ */
+async function checkPhotos(s: Pick<Submission, "id" | "authorId" | "connectorId">, content: CardProposal, transaction: Transaction, status: 400 | 409 = 400) {
   if (!content.photos.length) return;
   const rows = await Photo.findAll({ where: { id: content.photos.map((p) => p.id), removedAt: null }, transaction });
   for (const [i, p] of content.photos.entries()) {
     const row = rows.find((r) => r.id === p.id);
-    const ok = row && ((row.ownerId === s.authorId && (row.submissionId === s.id || row.submissionId === null)) || (s.connectorId !== null && row.connectorId === s.connectorId));
-    if (!ok) throw new SubmissionError(400, "bad_request", `Photo ${i + 1} is not one of yours or of this card.`, `photos.${i}`);
+    const onThisCard = !!row && s.connectorId !== null && row.connectorId === s.connectorId;
+    const ownUnpublished = !!row && row.ownerId === s.authorId && row.connectorId === null && (row.submissionId === s.id || row.submissionId === null);
+    if (!onThisCard && !ownUnpublished) {
+      throw new SubmissionError(status, status === 400 ? "bad_request" : "conflict", `Photo ${i + 1} is not one of yours (unpublished) or of this card.`, `photos.${i}`);
+    }
   }
 }
 
@@ -555,6 +564,8 @@ async function publish(s: Submission, transaction: Transaction): Promise<{ conne
   }
 
   // Photos: the proposal's list, in its order, becomes the card's; photos it drops leave the card (files stay for history).
+  // Checked again here: a photo may have been published elsewhere since the proposal was last saved.
+  await checkPhotos({ id: s.id, authorId: s.authorId, connectorId: connector.id }, p, transaction, 409);
   await Photo.update({ connectorId: null }, { where: { connectorId: connector.id, id: { [Op.notIn]: p.photos.map((x) => x.id) } }, transaction });
   for (const [position, ph] of p.photos.entries()) {
     const [n] = await Photo.update({ connectorId: connector.id, position, caption: ph.caption, credit: ph.credit }, { where: { id: ph.id, removedAt: null }, transaction });

@@ -3,16 +3,21 @@
 // Redirects and Forwards Cheat Sheet, WHATWG URL Standard (tab and newline stripped, "\" read as "/"), RFC 9110 §15.5.6
 // (405 carries Allow).
 import http from "node:http";
+import sharp from "sharp";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { startServer, type TestServer } from "../support/server";
-import { DEMO, req, signIn, where } from "../support/http";
+import { COOKIE, DEMO, req, signIn, where } from "../support/http";
 
 let srv: TestServer;
 let rider: string;
+let contributor: string;
+let moderator: string;
 
 beforeAll(async () => {
   srv = await startServer();
   rider = await signIn(srv, DEMO.rider.email, DEMO.rider.password);
+  contributor = await signIn(srv, DEMO.contributor.email, DEMO.contributor.password);
+  moderator = await signIn(srv, DEMO.moderator.email, DEMO.moderator.password);
 }, 60_000);
 afterAll(async () => { await srv?.stop(); });
 
@@ -91,5 +96,81 @@ describe("methods the site does not answer", () => {
     }
     const api = await raw("TRACE", "/api/v1/families");
     expect(JSON.parse(api.body)).toMatchObject({ error: { code: "method_not_allowed" } });
+  });
+});
+
+// ---------------------------------------------------------------------------------------------------------------------
+// Photos can be taken: another contributor's draft photo, or a photo published on another card, attached to an
+// attacker's submission at creation (the check ran only on edits) and served publicly on approval.
+
+type Photo = { id: string; caption: string; credit: string };
+type Sub = { id: number; version: number; state: string; content: { photos: Photo[] } & Record<string, unknown> };
+const json = (r: { body: string }) => JSON.parse(r.body);
+
+async function upload(session: string, submission: number): Promise<string> {
+  const jpeg = await sharp({ create: { width: 64, height: 48, channels: 3, background: "#6a7a8a" } }).jpeg().toBuffer();
+  const form = new FormData();
+  form.append("photo", new Blob([new Uint8Array(jpeg)], { type: "image/jpeg" }), "p.jpg");
+  form.append("consent", "yes");
+  form.append("submission", String(submission));
+  const up = await fetch(`${srv.url}/api/v1/photos`, { method: "POST", body: form, headers: { Cookie: `${COOKIE}=${session}`, Origin: srv.url } });
+  expect(up.status, await up.clone().text()).toBe(201);
+  return ((await up.json()) as { photo: { id: string } }).photo.id;
+}
+async function startSub(session: string, body: unknown) {
+  const r = await req(srv, "/api/v1/submissions", { json: body, session });
+  return { r, s: r.status < 300 ? (json(r).submission as Sub) : null };
+}
+
+describe("photos are attached only by their owner, unpublished, or from the card being edited", () => {
+  const VICTIM_CARD = "rx750-four-ignition-unit-plug";
+  const ATTACKED_CARD = "rx400-four-ignition-unit-plug";
+  let privatePhoto: string;
+  let publishedElsewhere: string;
+
+  beforeAll(async () => {
+    // The victim's photo published on their card, through review.
+    const { s: pub } = await startSub(contributor, { connector: VICTIM_CARD, idempotencyKey: "victim-published" });
+    publishedElsewhere = await upload(contributor, pub!.id);
+    const now = json(await req(srv, `/api/v1/submissions/${pub!.id}`, { session: contributor })).submission as Sub;
+    expect(now.content.photos.map((p) => p.id)).toContain(publishedElsewhere);
+    let r = await req(srv, `/api/v1/submissions/${pub!.id}`, { method: "PATCH", json: { version: now.version, sourceKind: "measured", sourceDetail: "", summary: "A photo of the plug", action: "submit" }, session: contributor });
+    expect(r.status, where(r)).toBe(200);
+    r = await req(srv, `/api/v1/submissions/${pub!.id}/review`, { json: { version: json(r).submission.version, decision: "approve" }, session: moderator });
+    expect(r.status, where(r)).toBe(200);
+    // And a private photo on another of the victim's drafts.
+    const { s: draft } = await startSub(contributor, { connector: VICTIM_CARD, idempotencyKey: "victim-draft" });
+    privatePhoto = await upload(contributor, draft!.id);
+  }, 60_000);
+
+  it("starting a submission with another's photo in its content is refused, whichever kind of submission", async () => {
+    const { s: plain } = await startSub(moderator, { connector: ATTACKED_CARD, idempotencyKey: "attacker-plain" });
+    for (const [name, id] of [["private draft photo", privatePhoto], ["photo published on another card", publishedElsewhere]] as const) {
+      const content = { ...plain!.content, photos: [{ id, caption: "mine now", credit: "The attacker" }] };
+      for (const body of [{ connector: ATTACKED_CARD, content }, { family: "rx400-four", content }, { connector: ATTACKED_CARD, content, submit: true }]) {
+        const r = await startSub(moderator, body);
+        expect(r.r.status, `${name} via ${Object.keys(body).join("+")}: ${where(r.r)}`).toBe(400);
+        expect(json(r.r).error.field).toBe("photos.0");
+      }
+      // Editing a draft to include it is refused too.
+      const cur = json(await req(srv, `/api/v1/submissions/${plain!.id}`, { session: moderator })).submission as Sub;
+      const u = await req(srv, `/api/v1/submissions/${plain!.id}`, { method: "PATCH", json: { version: cur.version, content }, session: moderator });
+      expect(u.status, `${name} by edit: ${where(u)}`).toBe(400);
+    }
+    // The victim's private photo is still private, and the published one is still only on its card.
+    expect((await req(srv, `/api/v1/connectors/${ATTACKED_CARD}`)).body).not.toContain(publishedElsewhere);
+    expect((await req(srv, `/api/v1/connectors/${VICTIM_CARD}`)).body).toContain(publishedElsewhere);
+  });
+
+  it("the owner may still use their own unpublished photo on a new submission, and an edit keeps the card's own photos", async () => {
+    const { s: other } = await startSub(contributor, { connector: ATTACKED_CARD, idempotencyKey: "owner-own-photo" });
+    const own = await upload(contributor, other!.id);
+    const { s: plain } = await startSub(contributor, { connector: VICTIM_CARD, idempotencyKey: "owner-edit" });
+    expect(plain!.content.photos.map((p) => p.id)).toContain(publishedElsewhere); // the card's own photo, carried into the edit
+    const r = await startSub(contributor, { connector: VICTIM_CARD, content: plain!.content });
+    expect(r.r.status, where(r.r)).toBe(201);
+    // Another draft's photo of one's own is not this draft's: still refused (it may be under review elsewhere).
+    const again = await startSub(contributor, { connector: ATTACKED_CARD, content: { ...other!.content, photos: [{ id: own, caption: "", credit: "" }] } });
+    expect(again.r.status, where(again.r)).toBe(400);
   });
 });
