@@ -11,8 +11,9 @@ import { renderNotes } from "~/services/markdown.server";
 import { photoUrls } from "~/domain/photo-urls";
 import { PhotoError, receivePhotos } from "~/services/photos.server";
 import { submissionApiError } from "~/services/submission-http.server";
+import { EDITOR_FORM_MAX_BYTES, readForm } from "~/services/http.server";
 import { SubmissionError, updateSubmission, viewSubmission } from "~/services/submissions.server";
-import { LIMITS, proposalFromForm, proposalSchema } from "~/validation/submissions";
+import { EDITOR_FORM_MAX_FIELDS, LIMITS, proposalFromForm, proposalSchema } from "~/validation/submissions";
 
 export const meta: Route.MetaFunction = ({ loaderData }) => [
   { title: loaderData ? `${loaderData.s.content.name || "Untitled card"} (${loaderData.s.stateLabel}) · Loomlore` : "Submission · Loomlore" },
@@ -50,7 +51,11 @@ export async function action({ request, params }: Route.ActionArgs): Promise<Ret
     }
   }
 
-  const form = await request.formData();
+  // Read once, capped: the editor's largest honest form (200 pin rows, a 20 × 20 grid, 50 specs, 12 photos) has about
+  // 2 600 fields; the server's body watch holds it to 1 MiB.
+  const read = await readForm(request, { maxBytes: EDITOR_FORM_MAX_BYTES, maxFields: EDITOR_FORM_MAX_FIELDS });
+  if (!read.ok) return data({ error: `${read.message} Nothing was saved.` }, { status: read.status });
+  const form = read.form;
   const intent = String(form.get("intent") ?? "save");
   const version = Number(form.get("version"));
   const fields = { sourceKind: String(form.get("sourceKind") ?? ""), sourceDetail: String(form.get("sourceDetail") ?? ""), summary: String(form.get("summary") ?? ""), answer: String(form.get("answer") ?? "") };

@@ -117,22 +117,27 @@ export const listSubmissionsQuery = z.object({
 });
 
 /**
+ * The editor form's field cap: each pin row has 7 fields, a spec row 14, a photo 4, a grid cell 1, and a dozen more: at
+ * LIMITS that is about 2 600; 4 000 leaves room. (Its byte cap is the server's, EDITOR_FORM_MAX_BYTES.)
+ */
+export const EDITOR_FORM_MAX_FIELDS = 4_000;
+
+/**
  * Read the editor's form fields (pins.0.cavity, layout.cell.1.2, specs.0.min, photos.0.caption …) into the shape
  * proposalSchema checks. Layout cells name the cavity at row/column; an empty cell has no cavity.
  */
-export function proposalFromForm(form: FormData): unknown {
+export function proposalFromForm(form: { get(key: string): unknown; keys(): Iterable<string> }): unknown {
   const get = (k: string) => {
     const v = form.get(k);
     return typeof v === "string" ? v : "";
   };
-  const indexed = (prefix: string) => {
-    const ids = new Set<number>();
-    for (const k of form.keys()) {
-      const m = new RegExp(`^${prefix}\\.(\\d{1,3})\\.`).exec(k);
-      if (m) ids.add(Number(m[1]));
-    }
-    return [...ids].sort((a, b) => a - b);
-  };
+  // One pass over the field names for all three row lists: with a map-backed form every `get` is then a lookup.
+  const ids: Record<"pins" | "specs" | "photos", Set<number>> = { pins: new Set(), specs: new Set(), photos: new Set() };
+  for (const k of form.keys()) {
+    const m = /^(pins|specs|photos)\.(\d{1,3})\./.exec(k);
+    if (m) ids[m[1] as keyof typeof ids].add(Number(m[2]));
+  }
+  const indexed = (prefix: keyof typeof ids) => [...ids[prefix]].sort((a, b) => a - b);
   const rows = Number(get("layout.rows")) || 0;
   const cols = Number(get("layout.cols")) || 0;
   const cavities: { cavity: string; row: number; col: number }[] = [];
