@@ -16,6 +16,18 @@ export type ReviewOutcome = "published" | "returned" | "declined";
 const SITE = "Loomlore";
 
 /** Escape for HTML text and double-quoted attribute values. */
+/** What stands in for a single-use token once its message is delivered, and on the admin page. */
+export const REDACTED = "[redacted]";
+
+/**
+ * A message with its single-use links disarmed: the value of every `token` query parameter replaced. Kept outbox rows
+ * and the admin page then hold no live reset or verify link (a backup or an admin session must not be enough to take
+ * an account over). Handles the text and the HTML forms (`&amp;token=` included).
+ */
+export function redactTokens(message: string): string {
+  return message.replace(/([?&](?:amp;)?token=)[^&\s"'<>#]+/gi, `$1${REDACTED}`);
+}
+
 export function escapeHtml(value: string): string {
   return value.replace(/[&<>"']/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c]!);
 }

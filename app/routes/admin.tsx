@@ -1,6 +1,7 @@
 import { data, Form } from "react-router";
 import type { Route } from "./+types/admin";
 import { FormMessage } from "~/components/field";
+import { REDACTED, redactTokens } from "~/domain/mail-templates";
 import { ROLES } from "~/domain/roles";
 import { createMake, listAudit, listLibrary, listOutbox, listUsers, revokeUser, setRole, updateFamily } from "~/services/admin.server";
 import { familyForm, fieldErrors, formFields, makeForm } from "~/validation/accounts";
@@ -125,6 +126,7 @@ export default function AdminPage({ loaderData, actionData }: Route.ComponentPro
 }
 
 /** Plain-text mail with its links clickable (text is React-escaped; only http(s) links become anchors). */
+/** Links in a captured message, with single-use tokens redacted: the admin page never shows a live reset or verify link. */
 function linkify(text: string) {
-  return text.split(/(https?:\/\/[^\s<>"]+)/g).map((part, i) => (/^https?:\/\//.test(part) ? <a key={i} href={part} className="text-signal-dark underline">{part}</a> : part));
+  return redactTokens(text).split(/(https?:\/\/[^\s<>"]+)/g).map((part, i) => (/^https?:\/\//.test(part) && !part.includes(REDACTED) ? <a key={i} href={part} className="text-signal-dark underline">{part}</a> : part));
 }

@@ -6,6 +6,7 @@ import { audit, revokeSessions, sequelize } from "./auth.server";
 import { forgetFamilyGraph } from "./circuits.server";
 import { ensureDatabase } from "./database.server";
 import { forgetFinderIndex } from "./finder.server";
+import { redactTokens } from "~/domain/mail-templates";
 
 /** Every account with its role, newest first. */
 export async function listUsers() {
@@ -47,10 +48,11 @@ export async function listAudit(limit = 100) {
 }
 
 /** The latest messages in the outbox, with their delivery state. */
+/** The outbox for the admin page: a queued message's live token is redacted here too (the page never holds one). */
 export async function listOutbox(limit = 100) {
   await ensureDatabase();
   const rows = await MailOutbox.findAll({ order: [["id", "DESC"]], limit });
-  return rows.map((m) => ({ id: m.id, kind: m.kind, to: m.toAddr, subject: m.subject, status: m.status, attempts: m.attempts, createdAt: m.createdAt.toISOString(), sentAt: m.sentAt?.toISOString() ?? null, lastError: m.lastError, text: m.text }));
+  return rows.map((m) => ({ id: m.id, kind: m.kind, to: m.toAddr, subject: m.subject, status: m.status, attempts: m.attempts, createdAt: m.createdAt.toISOString(), sentAt: m.sentAt?.toISOString() ?? null, lastError: m.lastError, text: redactTokens(m.text) }));
 }
 
 /** Makes and families for the admin page. */

@@ -21,6 +21,7 @@ import type SMTPTransport from "nodemailer/lib/smtp-transport";
 import { Op, Transaction, type InferAttributes } from "sequelize";
 import { sequelize } from "~db/index.server.ts";
 import { AuditLog, MailOutbox } from "~db/models/index.ts";
+import { redactTokens } from "~/domain/mail-templates";
 
 export interface OutgoingMail {
   kind: string;
@@ -197,6 +198,9 @@ async function settle(row: Claimed, values: Partial<InferAttributes<MailOutbox>>
   });
 }
 
+/** A settled message keeps its text without live tokens: the outbox only needs one until the message is delivered. */
+const disarmed = (row: Claimed) => ({ text: redactTokens(row.text), html: redactTokens(row.html) });
+
 /** Put claimed rows we did not get to back in the queue, untouched. */
 async function release(rows: Claimed[]) {
   await sequelize.transaction(async (transaction) => {
@@ -231,11 +235,11 @@ export async function deliverDueMail(now: Date = new Date()): Promise<DeliveryCo
       const at = clock();
       const error = describeError(e);
       if (isPermanent(e)) {
-        if (await settle(row, { status: "failed", attempts, leaseUntil: null, lastError: error }, "rejected", at)) counts.failed += 1;
+        if (await settle(row, { status: "failed", attempts, leaseUntil: null, lastError: error, ...disarmed(row) }, "rejected", at)) counts.failed += 1;
         log("warn", `#${row.id} (${row.kind}) rejected by the relay, not retrying: ${error}`);
       } else if (at.getTime() - new Date(row.createdAt).getTime() >= GIVE_UP_AFTER_MS) {
         const lastError = `gave up after 4 days: ${error}`;
-        if (await settle(row, { status: "failed", attempts, leaseUntil: null, lastError }, "gave-up", at)) counts.failed += 1;
+        if (await settle(row, { status: "failed", attempts, leaseUntil: null, lastError, ...disarmed(row) }, "gave-up", at)) counts.failed += 1;
         log("warn", `#${row.id} (${row.kind}) ${lastError}`);
       } else {
         const delay = retryDelay(attempts);
@@ -245,7 +249,7 @@ export async function deliverDueMail(now: Date = new Date()): Promise<DeliveryCo
       }
       continue;
     }
-    if (await settle(row, { status: "sent", attempts, sentAt: clock(), leaseUntil: null, lastError: null })) counts.sent += 1;
+    if (await settle(row, { status: "sent", attempts, sentAt: clock(), leaseUntil: null, lastError: null, ...disarmed(row) })) counts.sent += 1;
     else log("warn", `#${row.id} (${row.kind}) was sent after its lease had been taken over`);
   }
   return counts;

@@ -7,6 +7,8 @@ import sharp from "sharp";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { startServer, type TestServer } from "../support/server";
 import { COOKIE, DEMO, req, signIn, where } from "../support/http";
+import { execSql } from "./helpers";
+import sqlite3 from "sqlite3";
 
 let srv: TestServer;
 let rider: string;
@@ -14,7 +16,7 @@ let contributor: string;
 let moderator: string;
 
 beforeAll(async () => {
-  srv = await startServer();
+  srv = await startServer({ mail: true });
   rider = await signIn(srv, DEMO.rider.email, DEMO.rider.password);
   contributor = await signIn(srv, DEMO.contributor.email, DEMO.contributor.password);
   moderator = await signIn(srv, DEMO.moderator.email, DEMO.moderator.password);
@@ -229,5 +231,64 @@ describe("a huge editor form is refused at once and does not hold up other reque
     const r = await postForm(`/submissions/${s!.id}`, contributor, fields.join("&"));
     expect(r.status, r.text.slice(0, 200)).toBe(400);
     expect(r.ms).toBeLessThan(3_000);
+  });
+});
+
+// ---------------------------------------------------------------------------------------------------------------------
+// Live reset and verify links stored in plain text: the tokens table keeps hashes, but the outbox kept the whole message
+// and /admin showed the link, clickable. A backup or an admin session was enough to take over an account.
+
+function query<T>(sql: string, params: unknown[] = []): Promise<T[]> {
+  return new Promise((resolve, reject) => {
+    const db = new sqlite3.Database(srv.dbPath, sqlite3.OPEN_READONLY, (e) => { if (e) reject(e); });
+    db.all(sql, params, (e, rows) => { db.close(); if (e) reject(e); else resolve(rows as T[]); });
+  });
+}
+async function mailTo(to: string, timeoutMs = 15_000): Promise<{ text: string }> {
+  const deadline = Date.now() + timeoutMs;
+  for (;;) {
+    const list = (await (await fetch(`${srv.mailHttp}/messages?to=${encodeURIComponent(to)}`)).json()) as { text: string }[];
+    if (list.length) return list[0];
+    if (Date.now() > deadline) throw new Error(`no mail to ${to}`);
+    await new Promise((r) => setTimeout(r, 100));
+  }
+}
+
+describe("no live single-use link is kept once its message is delivered, nor shown to an admin", () => {
+  it("a reset mail: delivered with its token; the outbox row keeps none; /admin shows none, as text or as a link", async () => {
+    const to = DEMO.rider.email;
+    expect((await req(srv, "/forgot", { form: { email: to } })).status).toBe(200);
+    const mail = await mailTo(to);
+    const token = /\/reset\?token=([A-Za-z0-9_-]+)/.exec(mail.text)?.[1];
+    expect(token, "the delivered message carries the live link").toBeTruthy();
+    // The worker settles the row just after the relay accepts it.
+    let row: { status: string; text: string; html: string } | undefined;
+    for (const deadline = Date.now() + 10_000; Date.now() < deadline; await new Promise((r) => setTimeout(r, 50))) {
+      [row] = await query<{ status: string; text: string; html: string }>("SELECT status, text, html FROM mail_outbox WHERE to_addr = ? AND kind = 'reset' ORDER BY id DESC LIMIT 1", [to]);
+      if (row?.status === "sent") break;
+    }
+    expect(row?.status).toBe("sent");
+    expect(row!.text).not.toContain(token);
+    expect(row!.html).not.toContain(token);
+    expect(row!.text).toMatch(/token=\[redacted\]/);
+    const admin = await signIn(srv, DEMO.admin.email, DEMO.admin.password);
+    const page = await req(srv, "/admin", { session: admin });
+    expect(page.status).toBe(200);
+    expect(page.body, "the admin page (its HTML and its serialised data)").not.toContain(token);
+    // The link still works for its owner: redaction touched only the kept copy.
+    expect((await req(srv, `/reset?token=${token}`)).status).toBe(200);
+  });
+
+  it("a message the worker has not redacted still never shows its token on /admin", async () => {
+    const [{ n }] = await query<{ n: number }>("SELECT count(*) AS n FROM mail_outbox");
+    // A message the worker has not settled, written as the app writes one (marked failed so the worker leaves it be).
+    const live = "LiveTokenNotForAdmins0123456789abcdef";
+    await execSql(srv.dbPath, `INSERT INTO mail_outbox (message_id, kind, to_addr, subject, text, html, status, attempts, next_attempt_at, created_at)
+      VALUES ('<q-${n}@test>', 'verify', 'queued@loomlore.invalid', 'Confirm', 'Open https://x.example/verify?token=${live}', '<a href="https://x.example/verify?token=${live}">confirm</a>', 'failed', 1, datetime('now'), datetime('now'))`);
+    const admin = await signIn(srv, DEMO.admin.email, DEMO.admin.password);
+    const page = await req(srv, "/admin", { session: admin });
+    expect(page.status).toBe(200);
+    expect(page.body).toContain("queued@loomlore.invalid");
+    expect(page.body).not.toContain(live);
   });
 });

@@ -149,3 +149,21 @@ describe("links", () => {
     expect(msg.html).not.toMatch(/href="[^"]*"></);
   });
 });
+
+// A delivered message keeps no live single-use link (OWASP ASVS 4.0.3 V2.5.x: reset tokens are secrets; a kept copy is
+// as good as the token). Checked on the texts our own templates produce.
+describe("redactTokens", () => {
+  const link = "https://loomlore.example/reset?token=Q2x0d0VmTkF2bFpRZ2lHa0x3_-9";
+  it("replaces the token in the text and the HTML of a real message, and nothing else", async () => {
+    const { resetPasswordMessage, redactTokens, REDACTED } = await import("~/domain/mail-templates");
+    const m = resetPasswordMessage({ link });
+    expect(m.text).toContain("Q2x0d0VmTkF2bFpRZ2lHa0x3_-9");
+    for (const part of [m.text, m.html]) {
+      const r = redactTokens(part);
+      expect(r).not.toContain("Q2x0d0VmTkF2bFpRZ2lHa0x3_-9");
+      expect(r).toContain(`token=${REDACTED}`);
+    }
+    expect(redactTokens("see https://x.example/verify?a=1&amp;token=abc#top and /search?q=token")).toBe(`see https://x.example/verify?a=1&amp;token=${REDACTED}#top and /search?q=token`);
+    expect(redactTokens("no links here")).toBe("no links here");
+  });
+});
