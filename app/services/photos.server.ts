@@ -568,7 +568,7 @@ export async function photoForViewer(file: string, viewer: { id: number; role: s
 
 // ---- sweeping ---------------------------------------------------------------------------------------------------
 
-export interface SweepResult { tmpRemoved: number; partsRemoved: number; orphansRemoved: number; kept: number }
+export interface SweepResult { tmpRemoved: number; partsRemoved: number; orphansRemoved: number; removedSwept: number; kept: number }
 
 async function existingIds(ids: string[]): Promise<Set<string>> {
   const found = new Set<string>();
@@ -591,13 +591,14 @@ async function agesOf(files: string[], now: number): Promise<(number | null)[]> 
 /**
  * Remove what interrupted uploads leave behind: tmp/* older than tmpAgeMs (1 h), photos/*.part older than tmpAgeMs,
  * and photos/ files without a Photo row older than orphanAgeMs (24 h). A file whose row exists is never removed
- * (checked again right before unlinking), nor one an upload in this process is working on. Idempotent.
+ * (checked again right before unlinking), nor one an upload in this process is working on; and the files of photos
+ * whose row is marked removed and is on no card. Idempotent.
  */
 export async function sweepPhotos(opts: { now?: Date; tmpAgeMs?: number; orphanAgeMs?: number } = {}): Promise<SweepResult> {
   const now = (opts.now ?? new Date()).getTime();
   const tmpAge = opts.tmpAgeMs ?? HOUR;
   const orphanAge = opts.orphanAgeMs ?? 24 * HOUR;
-  const result: SweepResult = { tmpRemoved: 0, partsRemoved: 0, orphansRemoved: 0, kept: 0 };
+  const result: SweepResult = { tmpRemoved: 0, partsRemoved: 0, orphansRemoved: 0, removedSwept: 0, kept: 0 };
   await ensureDirs();
 
   const tmp: { file: string; id?: string }[] = [];
@@ -646,7 +647,33 @@ export async function sweepPhotos(opts: { now?: Date; tmpAgeMs?: number; orphanA
     if (c.part) result.partsRemoved++;
     else result.orphansRemoved++;
   }
+
+  // Photos removed from a draft (or a declined submission): the row stays, marked; its files go, whatever their age.
+  const removed = await Photo.findAll({ where: { removedAt: { [Op.ne]: null }, connectorId: null }, attributes: ["id"] });
+  const removedIds = new Set(removed.map((r) => r.id));
+  for (const c of listed) {
+    if (c.part || !removedIds.has(c.id) || inFlight.has(c.id)) continue;
+    await rm(c.file, { force: true });
+    result.removedSwept++;
+  }
   return result;
+}
+
+/**
+ * Delete the files of photos whose rows are marked removed and on no card (called once the removal has committed; a
+ * crash before it leaves them to sweepPhotos). Returns how many files went.
+ */
+export async function deleteRemovedPhotoFiles(ids: string[]): Promise<number> {
+  if (!ids.length) return 0;
+  const rows = await Photo.findAll({ where: { id: { [Op.in]: ids }, removedAt: { [Op.ne]: null }, connectorId: null }, attributes: ["id"] });
+  let n = 0;
+  for (const r of rows) {
+    for (const file of [`${r.id}.webp`, `${r.id}.thumb.webp`]) {
+      await rm(path.join(PHOTOS_DIR, file), { force: true });
+      n++;
+    }
+  }
+  return n;
 }
 
 let sweeper: NodeJS.Timeout | null = null;

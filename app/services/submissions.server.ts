@@ -29,6 +29,7 @@ import { forgetFinderIndex } from "./finder.server";
 import type { ApiErrorCode } from "./http.server";
 import { apiError } from "./http.server";
 import { enqueueMail } from "./mail.server";
+import { deleteRemovedPhotoFiles } from "./photos.server";
 
 interface Actor { id: number; role: Role; displayName?: string }
 
@@ -222,9 +223,27 @@ async function checkPhotos(s: Pick<Submission, "id" | "authorId" | "connectorId"
   }
 }
 
+/**
+ * Photos uploaded to this submission and never published that its proposal no longer lists are removed: the row is
+ * marked (`removedAt`, so they stop counting against the uploader's quota and are no longer served) and the sweeper
+ * deletes their files. A photo on a card is never touched here.
+ */
+async function releaseDroppedPhotos(submissionId: number, keep: string[], transaction: Transaction): Promise<string[]> {
+  const where = { submissionId, connectorId: null, removedAt: null, ...(keep.length ? { id: { [Op.notIn]: keep } } : {}) };
+  const dropped = (await Photo.findAll({ where, attributes: ["id"], transaction })).map((r) => r.id);
+  if (dropped.length) await Photo.update({ removedAt: new Date() }, { where: { ...where, id: { [Op.in]: dropped } }, transaction });
+  return dropped;
+}
+
+/** After the commit: the released photos' files go now (the sweeper catches what a crash leaves). */
+function afterRelease(ids: string[]) {
+  if (ids.length) void deleteRemovedPhotoFiles(ids).catch((e) => console.error(`[photos] could not delete removed files: ${(e as Error)?.message ?? e}`));
+}
+
 /** Save a draft or a returned submission, submit it for review, or answer a moderator's question and resubmit. */
 export async function updateSubmission(actor: Actor, id: number, input: UpdateInput): Promise<void> {
   await ensureDatabase();
+  let released: string[] = [];
   await sequelize.transaction(async (transaction) => {
     const s = await Submission.findByPk(id, { transaction });
     if (!s || s.authorId !== actor.id) throw notFound();
@@ -235,6 +254,7 @@ export async function updateSubmission(actor: Actor, id: number, input: UpdateIn
     const changes: Partial<Submission> = {};
     if (input.content) {
       await checkPhotos(s, input.content, transaction);
+      released = await releaseDroppedPhotos(s.id, input.content.photos.map((p) => p.id), transaction);
       changes.content = input.content;
     }
     if (input.sourceKind !== undefined) changes.sourceKind = input.sourceKind;
@@ -243,6 +263,7 @@ export async function updateSubmission(actor: Actor, id: number, input: UpdateIn
     await writeSubmission(s, { ...changes, updatedAt: new Date() }, transaction);
     if (input.action === "submit") await transition(actor, s, "submit", { answer: input.answer }, transaction);
   });
+  afterRelease(released);
 }
 
 /** Conditional update on the version the caller read: exactly one row or a 409 (no write bypasses the check). */
@@ -413,6 +434,7 @@ export async function decide(actor: Actor, id: number, d: Decision): Promise<{ s
   if (!can(actor.role, "review.work")) throw new SubmissionError(403, "forbidden", "This needs the moderator role.");
   await ensureDatabase();
   let familySlug: string | null = null;
+  let released: string[] = [];
   const result = await sequelize.transaction(async (transaction) => {
     const s = await Submission.findByPk(id, { transaction });
     if (!s) throw notFound();
@@ -429,6 +451,8 @@ export async function decide(actor: Actor, id: number, d: Decision): Promise<{ s
       familySlug = published.familySlug;
       await Submission.update({ connectorId: published.connector.id, familyId: published.connector.familyId, publishedRevision: published.revision }, { where: { id: s.id }, transaction });
     }
+    // A declined submission is final: its unpublished photos are released.
+    if (d.decision === "decline") released = await releaseDroppedPhotos(s.id, [], transaction);
     if (d.message.trim() || d.decision !== "approve") {
       await SubmissionMessage.create({ submissionId: s.id, authorId: actor.id, kind: d.decision === "approve" ? "approve" : d.decision === "return" ? "question" : "decline", text: d.message.trim(), createdAt: now }, { transaction });
       wrote("message");
@@ -454,6 +478,7 @@ export async function decide(actor: Actor, id: number, d: Decision): Promise<{ s
     forgetFamilyGraph(familySlug);
     forgetFinderIndex();
   }
+  afterRelease(released);
   return result;
 }
 

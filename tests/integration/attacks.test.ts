@@ -292,3 +292,78 @@ describe("no live single-use link is kept once its message is delivered, nor sho
     expect(page.body).not.toContain(live);
   });
 });
+
+// ---------------------------------------------------------------------------------------------------------------------
+// The photo quota never freed: nothing set removed_at, so the cap counted every photo ever uploaded.
+
+describe("photos removed from a draft, or on a declined submission, stop counting and are deleted", () => {
+  let small: TestServer;
+  let who: string;
+  let mod: string;
+  beforeAll(async () => {
+    small = await startServer({ env: { PHOTO_USER_COUNT: "2" } });
+    who = await signIn(small, DEMO.contributor.email, DEMO.contributor.password);
+    mod = await signIn(small, DEMO.moderator.email, DEMO.moderator.password);
+  }, 60_000);
+  afterAll(async () => { await small?.stop(); });
+
+  async function up(submission: number) {
+    const jpeg = await sharp({ create: { width: 40, height: 30, channels: 3, background: "#8a6a4a" } }).jpeg().toBuffer();
+    const form = new FormData();
+    form.append("photo", new Blob([new Uint8Array(jpeg)], { type: "image/jpeg" }), "p.jpg");
+    form.append("consent", "yes");
+    form.append("submission", String(submission));
+    const r = await fetch(`${small.url}/api/v1/photos`, { method: "POST", body: form, headers: { Cookie: `${COOKIE}=${who}`, Origin: small.url } });
+    const body = await r.text();
+    return { status: r.status, photo: r.status === 201 ? (JSON.parse(body).photo as { id: string; url: string }) : null, body };
+  }
+  const view = async (id: number) => json(await req(small, `/api/v1/submissions/${id}`, { session: who })).submission as Sub;
+  const files = (dir: string, id: string) => import("node:fs").then((fs) => fs.readdirSync(dir).filter((f) => f.startsWith(id)));
+  const photosDir = () => import("node:path").then((p) => p.join(p.dirname(small.dbPath), "uploads", "photos"));
+
+  it("the quota frees when a photo is taken off a draft; the photo is no longer served and its files go", async () => {
+    const r0 = await req(small, "/api/v1/submissions", { json: { connector: "rx750-four-ignition-unit-plug" }, session: who });
+    const sub = json(r0).submission as Sub;
+    const a = await up(sub.id);
+    const b = await up(sub.id);
+    expect([a.status, b.status], a.body + b.body).toEqual([201, 201]);
+    expect((await up(sub.id)).status, "the third is over the quota of 2").toBe(429);
+    const dir = await photosDir();
+    expect(await files(dir, a.photo!.id)).toHaveLength(2);
+
+    const now = await view(sub.id);
+    const u = await req(small, `/api/v1/submissions/${sub.id}`, { method: "PATCH", json: { version: now.version, content: { ...now.content, photos: now.content.photos.filter((p) => p.id !== a.photo!.id) } }, session: who });
+    expect(u.status, where(u)).toBe(200);
+    expect((await req(small, a.photo!.url, { session: who })).status, "a removed photo is not served").toBe(404);
+    for (const deadline = Date.now() + 5_000; (await files(dir, a.photo!.id)).length && Date.now() < deadline;) await new Promise((r) => setTimeout(r, 50));
+    expect(await files(dir, a.photo!.id), "its files are deleted").toEqual([]);
+    expect(await files(dir, b.photo!.id)).toHaveLength(2);
+    // The freed place takes a new photo; a removed one cannot be put back.
+    expect((await up(sub.id)).status).toBe(201);
+    const again = await view(sub.id);
+    const back = await req(small, `/api/v1/submissions/${sub.id}`, { method: "PATCH", json: { version: again.version, content: { ...again.content, photos: [...again.content.photos, { id: a.photo!.id, caption: "", credit: "" }] } }, session: who });
+    expect(back.status).toBe(400);
+  });
+
+  it("declining a submission frees its photos", async () => {
+    const r0 = await req(small, "/api/v1/submissions", { json: { connector: "rx400-four-ignition-unit-plug" }, session: who });
+    let sub = json(r0).submission as Sub;
+    // Make room: the first test left the contributor at the cap of 2.
+    const mine = json(await req(small, "/api/v1/submissions?mine=1", { session: who })).submissions as { id: number }[];
+    for (const s of mine.filter((x) => x.id !== sub.id)) {
+      const v = await view(s.id);
+      expect((await req(small, `/api/v1/submissions/${s.id}`, { method: "PATCH", json: { version: v.version, content: { ...v.content, photos: [] } }, session: who })).status).toBe(200);
+    }
+    const p = await up(sub.id);
+    expect(p.status, p.body).toBe(201);
+    sub = await view(sub.id);
+    let r = await req(small, `/api/v1/submissions/${sub.id}`, { method: "PATCH", json: { version: sub.version, sourceKind: "measured", sourceDetail: "", summary: "A photo", action: "submit" }, session: who });
+    expect(r.status, where(r)).toBe(200);
+    r = await req(small, `/api/v1/submissions/${sub.id}/review`, { json: { version: json(r).submission.version, decision: "decline", message: "Blurred." }, session: mod });
+    expect(r.status, where(r)).toBe(200);
+    expect((await req(small, p.photo!.url, { session: who })).status).toBe(404);
+    // Two free places again.
+    const next = json(await req(small, "/api/v1/submissions", { json: { connector: "rx750-four-coil-1-plug" }, session: who })).submission as Sub;
+    expect([(await up(next.id)).status, (await up(next.id)).status]).toEqual([201, 201]);
+  });
+});
