@@ -281,10 +281,14 @@ const SECURITY_HEADERS: Record<string, string> = {
   // HTML documents get the stricter policy with a script nonce from app/entry.server.tsx
   "Content-Security-Policy": BASE_CSP,
 };
-app.use((_req, res, next) => {
+// Over HTTPS (directly, or X-Forwarded-Proto from a trusted proxy) browsers are told to stay on HTTPS (ASVS V14.4.5,
+// RFC 6797): a year, this host only.
+const HSTS = "max-age=31536000";
+app.use((req, res, next) => {
   const writeHead = res.writeHead;
   res.writeHead = function (this: typeof res, ...args: Parameters<typeof res.writeHead>) {
     for (const [k, v] of Object.entries(SECURITY_HEADERS)) if (!this.hasHeader(k)) this.setHeader(k, v);
+    if (req.secure && !this.hasHeader("Strict-Transport-Security")) this.setHeader("Strict-Transport-Security", HSTS);
     return writeHead.apply(this, args);
   } as typeof res.writeHead;
   next();
@@ -298,6 +302,17 @@ app.use((req, res, next) => {
   if (METHODS.includes(req.method)) return next();
   const error = { code: "method_not_allowed", message: `${req.method} is not a method this site answers.` };
   res.status(405).set("Allow", METHODS.join(", "));
+  if (req.path.startsWith("/api/")) res.json({ error });
+  else res.type("text/plain").send(error.message);
+});
+
+// A state-changing request that a browser marks as cross-site is refused even without an Origin header (React Router's
+// check of page actions only compares an Origin that is present; API routes run assertSameOrigin). OWASP CSRF cheat
+// sheet, Fetch Metadata: refuse Sec-Fetch-Site: cross-site on unsafe methods.
+app.use((req, res, next) => {
+  if (["GET", "HEAD", "OPTIONS"].includes(req.method) || req.get("Origin") || req.get("Sec-Fetch-Site") !== "cross-site") return next();
+  const error = { code: "forbidden", message: "Requests from other sites are not accepted." };
+  res.status(403);
   if (req.path.startsWith("/api/")) res.json({ error });
   else res.type("text/plain").send(error.message);
 });

@@ -16,6 +16,9 @@ export { BCRYPT_COST, hashPassword, verifyPassword } from "./password-hash.serve
 
 const SESSION_DAYS = 30;
 const TOUCH_EVERY_MS = 60_000;
+/** A session not used for this long ends, whatever its absolute expiry (ASVS V3.3.2; the issue asked for ~14 days). */
+const SESSION_IDLE_DAYS = 14;
+const SESSION_IDLE_MS = SESSION_IDLE_DAYS * 86400_000;
 const production = process.env.NODE_ENV === "production";
 /** The session cookie: __Host- prefixed (Secure, Path=/, no Domain) in production (ASVS V3.4.4). */
 export const SESSION_COOKIE = production ? "__Host-loomlore" : "loomlore_session";
@@ -71,6 +74,8 @@ export async function currentSession(request: Request): Promise<{ user: SessionU
   await ensureDatabase();
   const session = await Session.findOne({ where: { tokenHash: sha256(token), revokedAt: null, expiresAt: { [Op.gt]: new Date() } } });
   if (!session) return null;
+  // Idle timeout beside the absolute one (ASVS V3.3.2): a session unused for SESSION_IDLE_DAYS ends.
+  if (Date.now() - session.lastSeenAt.getTime() > SESSION_IDLE_MS) return null;
   const user = await User.findByPk(session.userId);
   if (!user || user.disabledAt) return null;
   // Writes go through a transaction (its own handle), never the shared one that every read of the process queues on.

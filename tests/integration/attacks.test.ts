@@ -367,3 +367,46 @@ describe("photos removed from a draft, or on a declined submission, stop countin
     expect([(await up(next.id)).status, (await up(next.id)).status]).toEqual([201, 201]);
   });
 });
+
+// ---------------------------------------------------------------------------------------------------------------------
+// Smaller findings: a cross-site page post without Origin, no idle timeout for sessions, no HSTS over HTTPS.
+
+describe("smaller holes", () => {
+  it("a page post the browser marks Sec-Fetch-Site: cross-site is refused even without an Origin header", async () => {
+    for (const path of ["/login", "/garage", "/account", "/api/v1/submissions"]) {
+      const r = await req(srv, path, { form: { email: DEMO.rider.email, password: DEMO.rider.password }, origin: null, session: rider, headers: { "Sec-Fetch-Site": "cross-site" } });
+      expect(r.status, `${path}: ${where(r)}`).toBe(403);
+      expect(r.setCookie ?? null).toBeNull();
+    }
+    // The same post from our own pages (same-origin, or no fetch metadata at all from an old browser) still works.
+    for (const site of ["same-origin", null]) {
+      const r = await req(srv, "/login", { form: { email: DEMO.rider.email, password: DEMO.rider.password }, origin: null, headers: site ? { "Sec-Fetch-Site": site } : {} });
+      expect(r.status, where(r)).toBe(302);
+    }
+  });
+
+  it("a session unused for more than 14 days ends, though its 30-day expiry is still ahead (ASVS V3.3.2)", async () => {
+    const s = await signIn(srv, DEMO.rider.email, DEMO.rider.password);
+    expect((await req(srv, "/api/v1/me", { session: s })).status).toBe(200);
+    const hash = (await import("node:crypto")).createHash("sha256").update(s, "utf8").digest("hex");
+    const [row] = await query<{ id: number }>("SELECT id FROM sessions WHERE token_hash = ?", [hash]);
+    expect(row, "the session row of this cookie").toBeTruthy();
+    await execSql(srv.dbPath, `UPDATE sessions SET last_seen_at = datetime('now', '-13 days') WHERE id = ${row.id}`);
+    expect((await req(srv, "/api/v1/me", { session: s })).status, "13 days idle: still signed in").toBe(200);
+    await execSql(srv.dbPath, `UPDATE sessions SET last_seen_at = datetime('now', '-15 days') WHERE id = ${row.id}`);
+    expect((await req(srv, "/api/v1/me", { session: s })).status, "15 days idle: signed out").toBe(401);
+  });
+
+  it("HSTS is sent over HTTPS (behind a trusted proxy) and never over plain HTTP", async () => {
+    const proxied = await startServer({ env: { TRUST_PROXY: "loopback", APP_URL: "https://loomlore.test" } });
+    try {
+      const https = await fetch(`${proxied.url}/`, { headers: { "X-Forwarded-Proto": "https", "X-Forwarded-Host": "loomlore.test" } });
+      expect(https.headers.get("strict-transport-security")).toMatch(/^max-age=\d{7,}/);
+      const plain = await fetch(`${proxied.url}/`);
+      expect(plain.headers.get("strict-transport-security")).toBeNull();
+    } finally {
+      await proxied.stop();
+    }
+    expect((await fetch(`${srv.url}/`)).headers.get("strict-transport-security")).toBeNull();
+  });
+});
