@@ -4,6 +4,7 @@ import { FormMessage } from "~/components/field";
 import { addBike, listGarage, removeItem } from "~/services/garage.server";
 import { requireCan } from "~/services/guards.server";
 import { listFamilies } from "~/services/library.server";
+import { takeAction } from "~/services/rate-limit.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Your garage · Loomlore" }];
 
@@ -12,6 +13,9 @@ export async function loader({ request }: Route.LoaderArgs) {
   const [garage, { families }] = await Promise.all([listGarage(user.id), listFamilies({ limit: 100, offset: 0 })]);
   return { user, garage, families };
 }
+
+// Retry-After (and any other header an action sets) reaches the browser on a document request too.
+export const headers: Route.HeadersFunction = ({ actionHeaders, loaderHeaders }) => (actionHeaders.has("Retry-After") ? actionHeaders : loaderHeaders);
 
 export async function action({ request }: Route.ActionArgs) {
   const { user } = await requireCan(request, "garage.save");
@@ -23,6 +27,10 @@ export async function action({ request }: Route.ActionArgs) {
   }
   if (intent === "bike") {
     const values = { family: String(form.get("family") ?? ""), year: String(form.get("year") ?? ""), label: String(form.get("label") ?? "") };
+    const limited = await takeAction("garage-add", user.id);
+    if (!limited.ok) {
+      return data({ errors: { form: `You have added many bikes this hour. Try again in ${Math.ceil(limited.retryAfterS / 60)} minute(s).` } as Record<string, string>, values }, { status: 429, headers: { "Retry-After": String(limited.retryAfterS) } });
+    }
     const year = values.year.trim() ? Number(values.year) : null;
     if (year !== null && !Number.isInteger(year)) return data({ errors: { year: "Enter a year like 1979." } as Record<string, string>, values }, { status: 400 });
     const r = await addBike(user.id, values.family, year, values.label.trim());

@@ -11,7 +11,7 @@ import {
 } from "./auth.server";
 import { ensureDatabase } from "./database.server";
 import { enqueueMail } from "./mail.server";
-import { clearLoginAttempts, takeLoginAttempt, takeMailRequest } from "./rate-limit.server";
+import { loginSucceeded, takeLoginAttempt, takeMailRequest } from "./rate-limit.server";
 
 const VERIFY_TTL_MIN = 48 * 60;
 const RESET_TTL_MIN = 30;
@@ -32,7 +32,6 @@ authenticator.use(
     const user = await User.findOne({ where: { email: parsed.data.email } });
     const ok = user ? await verifyPassword(parsed.data.password, user.passwordHash) : await dummyVerify(parsed.data.password);
     if (!user || !ok || user.disabledAt) throw new LoginError("That e-mail address and password don't match an account.");
-    await clearLoginAttempts(parsed.data.email);
     return { id: user.id, email: user.email, displayName: user.displayName, role: user.role, verified: !!user.emailVerifiedAt };
   }),
   "password",
@@ -51,6 +50,7 @@ export async function signIn(request: Request, ip: string): Promise<{ ok: true; 
   }
   try {
     const user = await authenticator.authenticate("password", request);
+    await loginSucceeded((fields.email ?? "").trim().toLowerCase(), ip);
     const setCookie = await startSession(request, user.id);
     await audit(user.id, "session.start", "user", user.id);
     return { ok: true, setCookie, user };

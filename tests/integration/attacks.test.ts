@@ -410,3 +410,69 @@ describe("smaller holes", () => {
     expect((await fetch(`${srv.url}/`)).headers.get("strict-transport-security")).toBeNull();
   });
 });
+
+// ---------------------------------------------------------------------------------------------------------------------
+// Lock-outs and missing throttles. Source: OWASP ASVS 4.0.3 V2.2.1 (≤ 100 failed attempts per hour per account; soft
+// lock-out), OWASP Authentication Cheat Sheet (lock-outs must not become a denial of service against the owner).
+
+describe("lock-outs an attacker cannot turn against the owner, and throttles with Retry-After", () => {
+  let proxied: TestServer;
+  const from = (address: string) => ({ "X-Forwarded-For": address });
+  beforeAll(async () => { proxied = await startServer({ env: { TRUST_PROXY: "loopback" } }); }, 60_000);
+  afterAll(async () => { await proxied?.stop(); });
+
+  it("150 wrong passwords from ten addresses: each address is stopped, the owner on their usual address still gets in", async () => {
+    const victim = DEMO.contributor;
+    const home = "198.51.100.7";
+    // The owner has signed in from home before.
+    expect((await req(proxied, "/login", { form: { email: victim.email, password: victim.password }, headers: from(home) })).status).toBe(302);
+    const counts: Record<number, number> = {};
+    for (let i = 0; i < 150; i++) {
+      const r = await req(proxied, "/login", { form: { email: victim.email, password: `guess-${i}` }, headers: from(`203.0.113.${i % 10}`) });
+      counts[r.status] = (counts[r.status] ?? 0) + 1;
+      if (r.status === 429) expect(r.headers.get("retry-after")).toMatch(/^\d+$/);
+    }
+    expect(counts[401], "at most 100 guesses evaluated in the hour (ASVS V2.2.1)").toBeLessThanOrEqual(100);
+    expect(counts[429]).toBeGreaterThanOrEqual(50);
+    // One of the attacker's addresses, even with the right password, is refused; a brand-new address too (the account
+    // is limited for unknown addresses) ...
+    expect((await req(proxied, "/login", { form: { email: victim.email, password: victim.password }, headers: from("203.0.113.3") })).status).toBe(429);
+    expect((await req(proxied, "/login", { form: { email: victim.email, password: victim.password }, headers: from("192.0.2.99") })).status).toBe(429);
+    // ... but the owner at home signs in.
+    const owner = await req(proxied, "/login", { form: { email: victim.email, password: victim.password }, headers: from(home) });
+    expect(owner.status, where(owner)).toBe(302);
+    expect(owner.session).toBeTruthy();
+  }, 120_000);
+
+  it("one address guessing one account is stopped after 20 tries, though the account-wide limit is far off", async () => {
+    let first429 = -1;
+    for (let i = 0; i < 25 && first429 < 0; i++) {
+      const r = await req(proxied, "/login", { form: { email: DEMO.moderator.email, password: `wrong-${i}` }, headers: from("203.0.113.200") });
+      if (r.status === 429) first429 = i;
+    }
+    expect(first429).toBe(20);
+  });
+
+  it("the current-password check on /account is throttled before any bcrypt work", async () => {
+    const s = await signIn(proxied, DEMO.rider.email, DEMO.rider.password);
+    const statuses: number[] = [];
+    for (let i = 0; i < 12; i++) {
+      const r = await req(proxied, "/account", { form: { intent: "password", current: `not-it-${i}`, password: "a-new-long-passphrase-here" }, session: s });
+      statuses.push(r.status);
+      if (r.status === 429) expect(r.headers.get("retry-after")).toMatch(/^\d+$/);
+    }
+    expect(statuses.slice(0, 10).every((x) => x === 400), statuses.join(",")).toBe(true);
+    expect(statuses.slice(10)).toEqual([429, 429]);
+  });
+
+  it("mistake reports are throttled per rider with Retry-After", async () => {
+    const s = await signIn(proxied, DEMO.admin.email, DEMO.admin.password);
+    const statuses: number[] = [];
+    for (let i = 0; i < 22; i++) {
+      const r = await req(proxied, "/connectors/rx750-four-ignition-unit-plug", { form: { intent: "report", text: `Cavity 3 looks different on mine (${i}).` }, session: s });
+      statuses.push(r.status);
+    }
+    expect(statuses.filter((x) => x === 200)).toHaveLength(20);
+    expect(statuses.slice(20)).toEqual([429, 429]);
+  });
+});
