@@ -85,8 +85,41 @@ function createSequelize(storage: string): Sequelize {
   // the life of the process, one per 503. Close it like a finished transaction's (QUALITY D9/F9).
   const handles = s.connectionManager as unknown as { destroyConnection: (conn: object) => Promise<void>; releaseConnection: (conn: object) => void };
   handles.destroyConnection = async (conn: object) => handles.releaseConnection(conn);
+  serialiseWrites(s);
   return s;
 }
+
+/**
+ * SQLite has one writer. Every managed transaction is IMMEDIATE (takes the write lock at BEGIN), so two of this process
+ * at once made the second wait on the busy timeout, polling, and under a burst of sixteen gave SQLITE_BUSY 500s and a
+ * 25 s freeze. Instead the process queues its own transactions (FIFO, one at a time): contention waits for the one
+ * before it, milliseconds, and the busy timeout is left for other processes. A transaction begun inside another's
+ * callback (same async context) runs at once rather than queue behind itself. Keep the work inside short: no bcrypt,
+ * sharp or mail sending in a transaction.
+ */
+function serialiseWrites(s: Sequelize) {
+  const inside = new AsyncLocalStorage<true>();
+  let tail: Promise<unknown> = Promise.resolve();
+  let waiting = 0;
+  const original = s.transaction.bind(s) as (options?: unknown, callback?: unknown) => Promise<unknown>;
+  const queued = function (options?: unknown, callback?: unknown) {
+    if (typeof options === "function") [callback, options] = [options, undefined];
+    if (typeof callback !== "function" || inside.getStore()) return original(options, callback);
+    const work = callback as (t: Transaction) => Promise<unknown>;
+    waiting++;
+    const run = tail.then(() => {
+      waiting--;
+      return inside.run(true, () => original(options, work));
+    });
+    tail = run.catch(() => {});
+    return run;
+  };
+  s.transaction = queued as typeof s.transaction;
+  writeQueueDepth = () => waiting;
+}
+
+/** How many of this process's transactions are waiting for the one before them (for benchmarks and health). */
+export let writeQueueDepth: () => number = () => 0;
 
 const globalKey = Symbol.for("loomlore.sequelize");
 type Holder = { [globalKey]?: Sequelize };

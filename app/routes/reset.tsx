@@ -11,11 +11,16 @@ export function loader({ request }: Route.LoaderArgs) {
   return { token: new URL(request.url).searchParams.get("token") ?? "" };
 }
 
-export async function action({ request }: Route.ActionArgs) {
+// Retry-After (and any other header an action sets) reaches the browser on a document request too.
+export const headers: Route.HeadersFunction = ({ actionHeaders, loaderHeaders }) => (actionHeaders.has("Retry-After") ? actionHeaders : loaderHeaders);
+
+export async function action({ request, context }: Route.ActionArgs) {
   const parsed = resetForm.safeParse(formFields(await request.formData()));
   if (!parsed.success) return data({ errors: fieldErrors(parsed.error.issues) }, { status: 400 });
-  const r = await resetPassword(parsed.data.token, parsed.data.password);
-  if (!r.ok) return data({ errors: { [r.field ?? "form"]: r.error } as Record<string, string> }, { status: 400 });
+  const r = await resetPassword(parsed.data.token, parsed.data.password, context?.ip ?? "unknown");
+  if (!r.ok) {
+    return data({ errors: { [r.field ?? "form"]: r.error } as Record<string, string> }, { status: r.status ?? 400, headers: r.retryAfterS ? { "Retry-After": String(r.retryAfterS) } : undefined });
+  }
   throw redirect("/login?notice=reset");
 }
 

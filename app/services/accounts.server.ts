@@ -6,12 +6,12 @@ import { passwordProblem } from "~/domain/passwords";
 import { roleAfterVerification } from "~/domain/roles";
 import { fieldErrors, formFields, joinForm, loginForm } from "~/validation/accounts";
 import {
-  audit, consumeToken, currentSession, dummyVerify, hashPassword, issueToken, revokeSessions, sequelize, startSession, User, verifyPassword,
+  audit, consumeToken, currentSession, dummyVerify, hashPassword, issueToken, revokeSessions, sequelize, startSession, tokenIsLive, User, verifyPassword,
   type SessionUser,
 } from "./auth.server";
 import { ensureDatabase } from "./database.server";
 import { enqueueMail } from "./mail.server";
-import { loginSucceeded, takeLoginAttempt, takeMailRequest } from "./rate-limit.server";
+import { loginSucceeded, takeLoginAttempt, takeMailRequest, takeResetAttempt } from "./rate-limit.server";
 
 const VERIFY_TTL_MIN = 48 * 60;
 const RESET_TTL_MIN = 30;
@@ -130,14 +130,21 @@ export async function requestReset(email: string, ip: string): Promise<{ ok: boo
 }
 
 /** Set a new password from a reset link: single use, short-lived; every session of the account ends. */
-export async function resetPassword(token: string, password: string): Promise<{ ok: true } | { ok: false; error: string; field?: string }> {
+export async function resetPassword(token: string, password: string, ip = "unknown"): Promise<{ ok: true } | { ok: false; error: string; field?: string; status?: number; retryAfterS?: number }> {
   await ensureDatabase();
+  // Limits and the token first: a made-up token costs a lookup, never a bcrypt hash or a write lock.
+  const limited = await takeResetAttempt(token, ip);
+  if (!limited.ok) return { ok: false, status: 429, retryAfterS: limited.retryAfterS, error: `Too many attempts. Try again in ${Math.ceil(limited.retryAfterS / 60)} minute(s).` };
+  const expired = { ok: false as const, error: "This link has expired or was already used. Ask for a new one." };
+  if (!(await tokenIsLive(token, "reset"))) return expired;
+  const problem = passwordProblem(password, {});
+  if (problem) return { ok: false, error: problem, field: "password" };
   const hash = await hashPassword(password);
   return sequelize.transaction(async (transaction) => {
     const user = await consumeToken(token, "reset", transaction);
-    if (!user) return { ok: false as const, error: "This link has expired or was already used. Ask for a new one." };
-    const problem = passwordProblem(password, { email: user.email, displayName: user.displayName });
-    if (problem) throw new PasswordRejected(problem);
+    if (!user) return expired;
+    const personal = passwordProblem(password, { email: user.email, displayName: user.displayName });
+    if (personal) throw new PasswordRejected(personal);
     await user.update({ passwordHash: hash, passwordChangedAt: new Date() }, { transaction });
     await revokeSessions(user.id, undefined, transaction);
     await audit(user.id, "user.password-reset", "user", user.id, {}, transaction);

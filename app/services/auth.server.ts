@@ -112,6 +112,13 @@ export async function issueToken(userId: number, kind: "verify" | "reset", ttlMi
 }
 
 /** Use a token once: the user it belongs to, or null when unknown, used or expired. Marks it used atomically. */
+/** Whether a single-use token is live, without using it: a read on the shared handle, no lock, no bcrypt. */
+export async function tokenIsLive(token: string, kind: "verify" | "reset"): Promise<boolean> {
+  if (!token || token.length > 200) return false;
+  const row = await Token.findOne({ where: { tokenHash: sha256(token), kind }, attributes: ["usedAt", "expiresAt"] });
+  return !!row && !row.usedAt && row.expiresAt >= new Date();
+}
+
 export async function consumeToken(token: string, kind: "verify" | "reset", transaction: Transaction): Promise<User | null> {
   if (!token || token.length > 200) return null;
   const row = await Token.findOne({ where: { tokenHash: sha256(token), kind }, transaction });

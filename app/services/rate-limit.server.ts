@@ -54,6 +54,17 @@ export async function loginSucceeded(email: string, address: string) {
   if (mine.size > KNOWN_MAX_PER_ACCOUNT) mine.delete(mine.keys().next().value!);
 }
 
+// Password resets: per address (made-up tokens in bulk) and per token (one link tried over and over).
+const resetPerAddress = new RateLimiterMemory({ keyPrefix: "reset-address", points: 30, duration: 3600 });
+const resetPerToken = new RateLimiterMemory({ keyPrefix: "reset-token", points: 10, duration: 3600 });
+
+/** One reset attempt: both limits must allow it (checked before the token is looked up, and long before any bcrypt). */
+export async function takeResetAttempt(token: string, address: string): Promise<Limited> {
+  const a = await take(resetPerAddress, address);
+  if (!a.ok) return a;
+  return take(resetPerToken, token.slice(0, 200));
+}
+
 // Other actions a signed-in user can repeat (ASVS V11.1.4 anti-automation): each gets its own hourly budget per user.
 const ACTION_LIMITS = {
   "password-check": 10, // the current-password check on /account: a guessing oracle otherwise

@@ -476,3 +476,43 @@ describe("lock-outs an attacker cannot turn against the owner, and throttles wit
     expect(statuses.slice(20)).toEqual([429, 429]);
   });
 });
+
+// ---------------------------------------------------------------------------------------------------------------------
+// Parallel writes stalled, then failed: SQLITE_BUSY on BEGIN IMMEDIATE under a burst (sixteen made-up resets gave
+// thirteen 500s and a 25 s freeze; twenty parallel approvals gave seven 503s). Bounds are generous (shared machine).
+
+describe("parallel writes wait their turn: no 500, no 503", () => {
+  it("sixteen parallel resets with made-up tokens: all refused at once; a correct sign-in meanwhile is not held up", async () => {
+    const t0 = performance.now();
+    const [resets, signin] = await Promise.all([
+      Promise.all(Array.from({ length: 16 }, (_, i) => req(srv, "/reset", { form: { token: `made-up-token-${i}-${"x".repeat(30)}`, password: "a-long-enough-passphrase" }, headers: { "X-Test": String(i) } }))),
+      (async () => { await new Promise((r) => setTimeout(r, 30)); const t = performance.now(); const r = await req(srv, "/login", { form: { email: DEMO.moderator.email, password: DEMO.moderator.password } }); return { r, ms: performance.now() - t }; })(),
+    ]);
+    const statuses = resets.map((r) => r.status);
+    expect(statuses.filter((s) => s >= 500), statuses.join(",")).toEqual([]);
+    expect(statuses.every((s) => s === 400 || s === 429), statuses.join(",")).toBe(true);
+    expect(signin.r.status, where(signin.r)).toBe(302);
+    console.info(`[resets] 16 made-up tokens in ${(performance.now() - t0).toFixed(0)} ms; a sign-in meanwhile ${signin.ms.toFixed(0)} ms`);
+    expect(signin.ms).toBeLessThan(5_000);
+  });
+
+  it("twenty parallel approvals of one item: one winner, every other a 409, none a 503", async () => {
+    const { s } = await startSub(contributor, { connector: "rx400-four-coil-1-plug", idempotencyKey: "parallel-approve" });
+    const content = { ...s!.content, notes: `${String(s!.content.notes ?? "")}\n\nChecked twice.` };
+    const r = await req(srv, `/api/v1/submissions/${s!.id}`, { method: "PATCH", json: { version: s!.version, content, sourceKind: "measured", sourceDetail: "", summary: "Notes", action: "submit" }, session: contributor });
+    expect(r.status, where(r)).toBe(200);
+    const version = json(r).submission.version;
+    const t0 = performance.now();
+    const all = await Promise.all(Array.from({ length: 20 }, () => req(srv, `/api/v1/submissions/${s!.id}/review`, { json: { version, decision: "approve" }, session: moderator })));
+    const statuses = all.map((x) => x.status).sort();
+    console.info(`[approvals] 20 in ${(performance.now() - t0).toFixed(0)} ms: ${statuses.join(",")}`);
+    expect(statuses.filter((x) => x === 200)).toHaveLength(1);
+    expect(statuses.filter((x) => x === 409)).toHaveLength(19);
+  });
+
+  it("eight parallel 'add bike' posts from one rider: every one answered, none a 500", async () => {
+    const all = await Promise.all(Array.from({ length: 8 }, (_, i) => req(srv, "/garage", { form: { intent: "bike", family: "rx750-four", year: String(1977 + (i % 5)), label: `Bike ${i}` }, session: rider })));
+    const statuses = all.map((x) => x.status);
+    expect(statuses.filter((x) => x >= 500), statuses.join(",")).toEqual([]);
+  });
+});

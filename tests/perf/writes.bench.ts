@@ -1,0 +1,58 @@
+// Write latency under contention (issue "Hold under attack and contention"): npm run bench:writes
+// Boots the production server (tests/support/server.ts, its own SQLite file) and runs 50 parallel writers of mixed
+// kinds for a fixed number of rounds each: made-up password resets, card saves to a garage, bike adds, draft saves of a
+// submission, mistake reports, sign-ins. Prints write p50/p99 per kind and overall, and the count of each status, so a
+// 500 or 503 shows up at once. Prints figures; asserts nothing (these machines are shared and noisy).
+
+import { loadavg, cpus } from "node:os";
+import { performance } from "node:perf_hooks";
+import { startServer } from "../support/server.ts";
+import { DEMO, req, signIn } from "../support/http.ts";
+
+const WRITERS = 50;
+const ROUNDS = 6;
+
+const pct = (xs: number[], p: number) => {
+  const s = [...xs].sort((a, b) => a - b);
+  return s.length ? s[Math.min(s.length - 1, Math.floor((p / 100) * s.length))] : NaN;
+};
+
+const srv = await startServer();
+try {
+  const rider = await signIn(srv, DEMO.rider.email, DEMO.rider.password);
+  const contributor = await signIn(srv, DEMO.contributor.email, DEMO.contributor.password);
+  const started = await req(srv, "/api/v1/submissions", { json: { connector: "rx750-four-ignition-unit-plug" }, session: contributor });
+  const sub = JSON.parse(started.body).submission as { id: number };
+  const kinds: Record<string, (i: number) => Promise<number>> = {
+    reset: async (i) => (await req(srv, "/reset", { form: { token: `made-up-${i}-${Math.random()}`, password: "a-long-enough-passphrase" } })).status,
+    "garage save": async () => (await req(srv, "/connectors/rx750-four-coil-1-plug", { form: { intent: "save" }, session: rider })).status,
+    "bike add": async (i) => (await req(srv, "/garage", { form: { intent: "bike", family: "rx750-four", year: String(1977 + (i % 6)), label: `Bench ${i}` }, session: rider })).status,
+    "draft save": async (i) => {
+      const cur = JSON.parse((await req(srv, `/api/v1/submissions/${sub.id}`, { session: contributor })).body).submission as { version: number };
+      return (await req(srv, `/api/v1/submissions/${sub.id}`, { method: "PATCH", json: { version: cur.version, summary: `Round ${i}` }, session: contributor })).status;
+    },
+    report: async (i) => (await req(srv, "/connectors/rx750-four-coil-2-plug", { form: { intent: "report", text: `Looks different on mine (${i}).` }, session: rider })).status,
+    "sign-in": async () => (await req(srv, "/login", { form: { email: DEMO.moderator.email, password: DEMO.moderator.password } })).status,
+  };
+  const names = Object.keys(kinds);
+  const times: Record<string, number[]> = Object.fromEntries(names.map((n) => [n, []]));
+  const statuses: Record<string, number> = {};
+  const t0 = performance.now();
+  await Promise.all(Array.from({ length: WRITERS }, async (_, w) => {
+    for (let r = 0; r < ROUNDS; r++) {
+      const kind = names[(w + r) % names.length];
+      const t = performance.now();
+      const status = await kinds[kind](w * ROUNDS + r);
+      times[kind].push(performance.now() - t);
+      statuses[status] = (statuses[status] ?? 0) + 1;
+    }
+  }));
+  const wall = performance.now() - t0;
+  const all = Object.values(times).flat();
+  console.log(`writes: ${WRITERS} parallel writers × ${ROUNDS} rounds = ${all.length} requests in ${(wall / 1000).toFixed(1)} s (load ${loadavg()[0].toFixed(1)}, ${cpus().length} cores)`);
+  for (const n of names) console.log(`  ${n.padEnd(12)} n=${String(times[n].length).padStart(3)}  p50 ${pct(times[n], 50).toFixed(0).padStart(5)} ms  p99 ${pct(times[n], 99).toFixed(0).padStart(5)} ms`);
+  console.log(`  ${"all".padEnd(12)} n=${String(all.length).padStart(3)}  p50 ${pct(all, 50).toFixed(0).padStart(5)} ms  p99 ${pct(all, 99).toFixed(0).padStart(5)} ms`);
+  console.log(`  statuses: ${Object.entries(statuses).map(([s, n]) => `${s}×${n}`).join(", ")}; 5xx: ${Object.entries(statuses).filter(([s]) => Number(s) >= 500).reduce((a, [, n]) => a + n, 0)}`);
+} finally {
+  await srv.stop();
+}
