@@ -311,10 +311,8 @@ app.use((req, res, next) => {
 // sheet, Fetch Metadata: refuse Sec-Fetch-Site: cross-site on unsafe methods.
 app.use((req, res, next) => {
   if (["GET", "HEAD", "OPTIONS"].includes(req.method) || req.get("Origin") || req.get("Sec-Fetch-Site") !== "cross-site") return next();
-  const error = { code: "forbidden", message: "Requests from other sites are not accepted." };
-  res.status(403);
-  if (req.path.startsWith("/api/")) res.json({ error });
-  else res.type("text/plain").send(error.message);
+  // The API's error shape, as the resource routes' own origin check answers (assertSameOrigin).
+  res.status(403).json({ error: { code: "forbidden", message: "Requests from other sites are not accepted." } });
 });
 
 // A malformed percent-encoding (%ff) would reach Express's param decoding and come back as its HTML page;

@@ -3,9 +3,9 @@ import { RateLimiterMemory, RateLimiterRes } from "rate-limiter-flexible";
 
 // ASVS 4.0.3 V2.2.1: no more than 100 failed attempts per hour on a single account, and soft lock-outs that an attacker
 // cannot turn against the owner (OWASP Authentication Cheat Sheet, "account lockout"). So: a tight limit per account
-// and address (an attacker's own address is stopped after 20 tries), and the account-wide 100 per hour only for
+// and address (an attacker's own address is stopped after 40 tries), and the account-wide 100 per hour only for
 // addresses the account has not signed in from: the owner on their usual address still gets in.
-const perAccountAddress = new RateLimiterMemory({ keyPrefix: "login-account-address", points: 20, duration: 3600 });
+const perAccountAddress = new RateLimiterMemory({ keyPrefix: "login-account-address", points: 40, duration: 3600 });
 const perAccount = new RateLimiterMemory({ keyPrefix: "login-account", points: 100, duration: 3600 });
 /** Addresses each account has signed in from lately (in memory, as the limiters are; bounded). */
 const knownAddresses = new Map<string, Map<string, number>>();
