@@ -10,6 +10,7 @@ import { createRequestHandler } from "@react-router/express";
 import compression from "compression";
 import express, { type NextFunction, type Request as ExpressRequest, type Response as ExpressResponse } from "express";
 import { BASE_CSP, newNonce } from "./services/csp.server.ts";
+import { EDITOR_FORM_MAX_BYTES } from "./services/http.server.ts";
 
 const root = path.resolve(import.meta.dirname, "..");
 const build = await import(pathToFileURL(path.join(root, "build/server/index.js")).href);
@@ -45,7 +46,6 @@ const RATE_CHECK_MS = Math.min(1_000, UPLOAD_GRACE_MS);
  * 20 000 characters of notes, a pasted table) gets 1 MiB. QUALITY F6: "1 MB body to login/search … 413".
  */
 const FORM_MAX_BYTES = envInt("FORM_MAX_BYTES", 64 * KiB);
-const EDITOR_MAX_BYTES = envInt("EDITOR_FORM_MAX_BYTES", MiB);
 /** After an early answer: read and discard at most this much, for at most this long, then close (well inside F6's "limit + 1 MB"). */
 const LINGER_BYTES = 256 * KiB;
 const LINGER_MS = 1_000;
@@ -205,7 +205,7 @@ function watchBody(req: ExpressRequest, res: ExpressResponse, next: NextFunction
   const upload = isUpload(req);
   const socket = req.socket;
   const w: BodyWatch = {
-    req, res, socket, upload, max: upload ? Infinity : UPLOAD_PAGE.test(routePath(req)) ? EDITOR_MAX_BYTES : FORM_MAX_BYTES,
+    req, res, socket, upload, max: upload ? Infinity : UPLOAD_PAGE.test(routePath(req)) ? EDITOR_FORM_MAX_BYTES : FORM_MAX_BYTES,
     start: performance.now(), bytes: 0, declared, armed: false, lingering: false, closing: false, logged: false, reason: "answered-early",
     rateTimer: null, lingerTimer: null, destroy: req.destroy,
   };

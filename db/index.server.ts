@@ -100,26 +100,17 @@ function createSequelize(storage: string): Sequelize {
 function serialiseWrites(s: Sequelize) {
   const inside = new AsyncLocalStorage<true>();
   let tail: Promise<unknown> = Promise.resolve();
-  let waiting = 0;
   const original = s.transaction.bind(s) as (options?: unknown, callback?: unknown) => Promise<unknown>;
   const queued = function (options?: unknown, callback?: unknown) {
     if (typeof options === "function") [callback, options] = [options, undefined];
     if (typeof callback !== "function" || inside.getStore()) return original(options, callback);
     const work = callback as (t: Transaction) => Promise<unknown>;
-    waiting++;
-    const run = tail.then(() => {
-      waiting--;
-      return inside.run(true, () => original(options, work));
-    });
+    const run = tail.then(() => inside.run(true, () => original(options, work)));
     tail = run.catch(() => {});
     return run;
   };
   s.transaction = queued as typeof s.transaction;
-  writeQueueDepth = () => waiting;
 }
-
-/** How many of this process's transactions are waiting for the one before them (for benchmarks and health). */
-export let writeQueueDepth: () => number = () => 0;
 
 const globalKey = Symbol.for("loomlore.sequelize");
 type Holder = { [globalKey]?: Sequelize };

@@ -184,7 +184,7 @@ export function behaviour(e: Element, state: OperatingState, net: Network, batte
     case "load":
       if (p.role === "charging-output") {
         if (engine !== "running" || !p.outputA) return { t: "open" };
-        // Norton source: rated output at the battery's voltage, three times the system voltage with nothing connected.
+        // A current source with a parallel resistance: rated output at the battery's voltage, three times the system voltage with nothing connected.
         const vMax = 3 * net.systemV;
         const isc = (p.outputA * vMax) / Math.max(1, vMax - batteryV);
         return { t: "current", amps: isc, ohms: vMax / isc };

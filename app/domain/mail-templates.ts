@@ -15,7 +15,6 @@ export type ReviewOutcome = "published" | "returned" | "declined";
 
 const SITE = "Loomlore";
 
-/** Escape for HTML text and double-quoted attribute values. */
 /** What stands in for a single-use token once its message is delivered, and on the admin page. */
 export const REDACTED = "[redacted]";
 
@@ -28,6 +27,7 @@ export function redactTokens(message: string): string {
   return message.replace(/([?&](?:amp;)?token=)[^&\s"'<>#]+/gi, `$1${REDACTED}`);
 }
 
+/** Escape for HTML text and double-quoted attribute values. */
 export function escapeHtml(value: string): string {
   return value.replace(/[&<>"']/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c]!);
 }

@@ -5,6 +5,7 @@ import { MIN_PASSWORD_CHARS } from "~/domain/passwords";
 import { changePassword, resendVerification } from "~/services/accounts.server";
 import { requireUser } from "~/services/guards.server";
 import { changePasswordForm, fieldErrors, formFields } from "~/validation/accounts";
+import { tooMany } from "~/services/http.server";
 import { takeAction } from "~/services/rate-limit.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Your account · Loomlore" }];
@@ -30,7 +31,7 @@ export async function action({ request, context }: Route.ActionArgs) {
     // Before any bcrypt work: the current-password check is a guessing oracle for whoever holds the session.
     const limited = await takeAction("password-check", user.id);
     if (!limited.ok) {
-      return data({ notice: "", errors: { form: `Too many attempts. Try again in ${Math.ceil(limited.retryAfterS / 60)} minute(s), or sign out and reset your password.` } as Record<string, string> }, { status: 429, headers: { "Retry-After": String(limited.retryAfterS) } });
+      return data({ notice: "", errors: { form: `Too many attempts. Try again in ${Math.ceil(limited.retryAfterS / 60)} minute(s), or sign out and reset your password.` } as Record<string, string> }, tooMany(limited.retryAfterS));
     }
     const parsed = changePasswordForm.safeParse(formFields(form));
     if (!parsed.success) return data({ notice: "", errors: fieldErrors(parsed.error.issues) }, { status: 400 });

@@ -1,7 +1,7 @@
 import { data, Form } from "react-router";
 import type { Route } from "./+types/admin";
 import { FormMessage } from "~/components/field";
-import { REDACTED, redactTokens } from "~/domain/mail-templates";
+import { REDACTED } from "~/domain/mail-templates";
 import { ROLES } from "~/domain/roles";
 import { createMake, listAudit, listLibrary, listOutbox, listUsers, revokeUser, setRole, updateFamily } from "~/services/admin.server";
 import { familyForm, fieldErrors, formFields, makeForm } from "~/validation/accounts";
@@ -125,8 +125,10 @@ export default function AdminPage({ loaderData, actionData }: Route.ComponentPro
   );
 }
 
-/** Plain-text mail with its links clickable (text is React-escaped; only http(s) links become anchors). */
-/** Links in a captured message, with single-use tokens redacted: the admin page never shows a live reset or verify link. */
+/**
+ * Plain-text mail with its links clickable (text is React-escaped; only http(s) links become anchors). The text comes
+ * with its single-use tokens already redacted (capturedMail); a redacted link stays plain text.
+ */
 function linkify(text: string) {
-  return redactTokens(text).split(/(https?:\/\/[^\s<>"]+)/g).map((part, i) => (/^https?:\/\//.test(part) && !part.includes(REDACTED) ? <a key={i} href={part} className="text-signal-dark underline">{part}</a> : part));
+  return text.split(/(https?:\/\/[^\s<>"]+)/g).map((part, i) => (/^https?:\/\//.test(part) && !part.includes(REDACTED) ? <a key={i} href={part} className="text-signal-dark underline">{part}</a> : part));
 }

@@ -5,6 +5,7 @@ import { ColourChip } from "~/components/colour-chip";
 import { FaceView } from "~/components/face-view";
 import { faceGeometry } from "~/domain/connector-face";
 import { SPEC_KIND_LABELS, specKindOf, splitSharedConditions } from "~/domain/specs";
+import { tooMany } from "~/services/http.server";
 import { takeAction } from "~/services/rate-limit.server";
 import { can } from "~/domain/roles";
 import { checkCard, reportMistake, riderCardState, saveCard } from "~/services/garage.server";
@@ -39,8 +40,8 @@ export async function loader({ params, request }: Route.LoaderArgs) {
 export const headers: Route.HeadersFunction = ({ actionHeaders, loaderHeaders }) => (actionHeaders.has("Retry-After") ? actionHeaders : loaderHeaders);
 
 /** A rider's refused repeat of a limited action: 429 with Retry-After. */
-const tooMany = (retryAfterS: number) =>
-  data({ done: "", error: `You have done that many times this hour. Try again in ${Math.ceil(retryAfterS / 60)} minute(s).` }, { status: 429, headers: { "Retry-After": String(retryAfterS) } });
+const limitedAnswer = (retryAfterS: number) =>
+  data({ done: "", error: `You have done that many times this hour. Try again in ${Math.ceil(retryAfterS / 60)} minute(s).` }, tooMany(retryAfterS));
 
 /** A rider's actions on a card: save it, confirm it on their bike, report a mistake. Each checks its own role and its limit. */
 export async function action({ request, params }: Route.ActionArgs) {
@@ -49,13 +50,13 @@ export async function action({ request, params }: Route.ActionArgs) {
   if (intent === "save") {
     const { user } = await requireCan(request, "garage.save");
     const limited = await takeAction("garage-add", user.id);
-    if (!limited.ok) return tooMany(limited.retryAfterS);
+    if (!limited.ok) return limitedAnswer(limited.retryAfterS);
     return (await saveCard(user.id, params.connector)) ? { done: "Saved to your garage.", error: "" } : data({ done: "", error: "No such card." }, { status: 404 });
   }
   if (intent === "check") {
     const { user } = await requireCan(request, "card.check");
     const limited = await takeAction("bike-check", user.id);
-    if (!limited.ok) return tooMany(limited.retryAfterS);
+    if (!limited.ok) return limitedAnswer(limited.retryAfterS);
     const raw = String(form.get("year") ?? "").trim();
     const year = raw ? Number(raw) : null;
     if (year !== null && (!Number.isInteger(year) || year < 1900 || year > 2100)) return data({ done: "", error: "Enter your bike's model year, like 1979." }, { status: 400 });
@@ -64,7 +65,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   if (intent === "report") {
     const { user } = await requireCan(request, "card.report");
     const limited = await takeAction("report", user.id);
-    if (!limited.ok) return tooMany(limited.retryAfterS);
+    if (!limited.ok) return limitedAnswer(limited.retryAfterS);
     const text = String(form.get("text") ?? "").trim();
     if (text.length < 5 || text.length > 2000) return data({ done: "", error: "Say what is wrong in a sentence or two (at most 2000 characters)." }, { status: 400 });
     return (await reportMistake(user.id, params.connector, text)) ? { done: "Thanks: a moderator will look at your report.", error: "" } : data({ done: "", error: "No such card." }, { status: 404 });

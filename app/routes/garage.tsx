@@ -4,6 +4,7 @@ import { FormMessage } from "~/components/field";
 import { addBike, listGarage, removeItem } from "~/services/garage.server";
 import { requireCan } from "~/services/guards.server";
 import { listFamilies } from "~/services/library.server";
+import { tooMany } from "~/services/http.server";
 import { takeAction } from "~/services/rate-limit.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Your garage · Loomlore" }];
@@ -29,7 +30,7 @@ export async function action({ request }: Route.ActionArgs) {
     const values = { family: String(form.get("family") ?? ""), year: String(form.get("year") ?? ""), label: String(form.get("label") ?? "") };
     const limited = await takeAction("garage-add", user.id);
     if (!limited.ok) {
-      return data({ errors: { form: `You have added many bikes this hour. Try again in ${Math.ceil(limited.retryAfterS / 60)} minute(s).` } as Record<string, string>, values }, { status: 429, headers: { "Retry-After": String(limited.retryAfterS) } });
+      return data({ errors: { form: `You have added many bikes this hour. Try again in ${Math.ceil(limited.retryAfterS / 60)} minute(s).` } as Record<string, string>, values }, tooMany(limited.retryAfterS));
     }
     const year = values.year.trim() ? Number(values.year) : null;
     if (year !== null && !Number.isInteger(year)) return data({ errors: { year: "Enter a year like 1979." } as Record<string, string>, values }, { status: 400 });

@@ -112,17 +112,21 @@ export async function issueToken(userId: number, kind: "verify" | "reset", ttlMi
 }
 
 /** Use a token once: the user it belongs to, or null when unknown, used or expired. Marks it used atomically. */
+/** The row of a single-use token that is still live (unused, unexpired), or null. */
+async function liveToken(token: string, kind: "verify" | "reset", transaction?: Transaction) {
+  if (!token || token.length > 200) return null;
+  const row = await Token.findOne({ where: { tokenHash: sha256(token), kind }, transaction });
+  return row && !row.usedAt && row.expiresAt >= new Date() ? row : null;
+}
+
 /** Whether a single-use token is live, without using it: a read on the shared handle, no lock, no bcrypt. */
 export async function tokenIsLive(token: string, kind: "verify" | "reset"): Promise<boolean> {
-  if (!token || token.length > 200) return false;
-  const row = await Token.findOne({ where: { tokenHash: sha256(token), kind }, attributes: ["usedAt", "expiresAt"] });
-  return !!row && !row.usedAt && row.expiresAt >= new Date();
+  return (await liveToken(token, kind)) !== null;
 }
 
 export async function consumeToken(token: string, kind: "verify" | "reset", transaction: Transaction): Promise<User | null> {
-  if (!token || token.length > 200) return null;
-  const row = await Token.findOne({ where: { tokenHash: sha256(token), kind }, transaction });
-  if (!row || row.usedAt || row.expiresAt < new Date()) return null;
+  const row = await liveToken(token, kind, transaction);
+  if (!row) return null;
   // Check-and-act in one statement, so two clicks of the same link cannot both succeed (ASVS 5.0 V15.4.2).
   const [n] = await Token.update({ usedAt: new Date() }, { where: { id: row.id, usedAt: null }, transaction });
   if (n !== 1) return null;

@@ -72,31 +72,27 @@ export function domainError(e: unknown): Response {
  * process for seconds.)
  */
 export class FormFields {
-  private readonly map = new Map<string, string[]>();
-  readonly count: number;
+  private readonly map = new Map<string, string>();
   constructor(entries: Iterable<[string, string]>) {
-    let n = 0;
-    for (const [k, v] of entries) {
-      n++;
-      const list = this.map.get(k);
-      if (list) list.push(v);
-      else this.map.set(k, [v]);
-    }
-    this.count = n;
+    // The first value of a repeated name, as FormData#get gives.
+    for (const [k, v] of entries) if (!this.map.has(k)) this.map.set(k, v);
   }
   get(key: string): string | null {
-    return this.map.get(key)?.[0] ?? null;
-  }
-  getAll(key: string): string[] {
-    return this.map.get(key) ?? [];
+    return this.map.get(key) ?? null;
   }
   keys(): IterableIterator<string> {
     return this.map.keys();
   }
 }
 
-/** The editor's form: 1 MiB (a pasted table, 20 000 characters of notes), as the server's body watch holds it. */
-export const EDITOR_FORM_MAX_BYTES = Number(process.env.EDITOR_FORM_MAX_BYTES) || 1024 * 1024;
+/** The editor's form: 1 MiB (a pasted table, 20 000 characters of notes); the server's body watch holds it to the same. */
+const editorBytes = Math.floor(Number(process.env.EDITOR_FORM_MAX_BYTES));
+export const EDITOR_FORM_MAX_BYTES = editorBytes > 0 ? editorBytes : 1024 * 1024;
+
+/** The status and Retry-After header of a refused repeat (429), for `data(…, tooMany(s))`. */
+export function tooMany(retryAfterS: number): { status: 429; headers: Record<string, string> } {
+  return { status: 429, headers: { "Retry-After": String(retryAfterS) } };
+}
 
 export type FormRead = { ok: true; form: FormFields } | { ok: false; status: 400 | 413 | 415; message: string };
 

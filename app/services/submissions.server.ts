@@ -231,7 +231,7 @@ async function checkPhotos(s: Pick<Submission, "id" | "authorId" | "connectorId"
 async function releaseDroppedPhotos(submissionId: number, keep: string[], transaction: Transaction): Promise<string[]> {
   const where = { submissionId, connectorId: null, removedAt: null, ...(keep.length ? { id: { [Op.notIn]: keep } } : {}) };
   const dropped = (await Photo.findAll({ where, attributes: ["id"], transaction })).map((r) => r.id);
-  if (dropped.length) await Photo.update({ removedAt: new Date() }, { where: { ...where, id: { [Op.in]: dropped } }, transaction });
+  if (dropped.length) await Photo.update({ removedAt: new Date() }, { where: { id: dropped }, transaction });
   return dropped;
 }
 

@@ -109,15 +109,21 @@ type Photo = { id: string; caption: string; credit: string };
 type Sub = { id: number; version: number; state: string; content: { photos: Photo[] } & Record<string, unknown> };
 const json = (r: { body: string }) => JSON.parse(r.body);
 
-async function upload(session: string, submission: number): Promise<string> {
+/** Upload one small JPEG to a submission through the API, as its author. */
+async function postPhoto(server: TestServer, session: string, submission: number) {
   const jpeg = await sharp({ create: { width: 64, height: 48, channels: 3, background: "#6a7a8a" } }).jpeg().toBuffer();
   const form = new FormData();
   form.append("photo", new Blob([new Uint8Array(jpeg)], { type: "image/jpeg" }), "p.jpg");
   form.append("consent", "yes");
   form.append("submission", String(submission));
-  const up = await fetch(`${srv.url}/api/v1/photos`, { method: "POST", body: form, headers: { Cookie: `${COOKIE}=${session}`, Origin: srv.url } });
-  expect(up.status, await up.clone().text()).toBe(201);
-  return ((await up.json()) as { photo: { id: string } }).photo.id;
+  const r = await fetch(`${server.url}/api/v1/photos`, { method: "POST", body: form, headers: { Cookie: `${COOKIE}=${session}`, Origin: server.url } });
+  const body = await r.text();
+  return { status: r.status, photo: r.status === 201 ? (JSON.parse(body).photo as { id: string; url: string }) : null, body };
+}
+async function upload(session: string, submission: number): Promise<string> {
+  const r = await postPhoto(srv, session, submission);
+  expect(r.status, r.body).toBe(201);
+  return r.photo!.id;
 }
 async function startSub(session: string, body: unknown) {
   const r = await req(srv, "/api/v1/submissions", { json: body, session });
@@ -307,16 +313,7 @@ describe("photos removed from a draft, or on a declined submission, stop countin
   }, 60_000);
   afterAll(async () => { await small?.stop(); });
 
-  async function up(submission: number) {
-    const jpeg = await sharp({ create: { width: 40, height: 30, channels: 3, background: "#8a6a4a" } }).jpeg().toBuffer();
-    const form = new FormData();
-    form.append("photo", new Blob([new Uint8Array(jpeg)], { type: "image/jpeg" }), "p.jpg");
-    form.append("consent", "yes");
-    form.append("submission", String(submission));
-    const r = await fetch(`${small.url}/api/v1/photos`, { method: "POST", body: form, headers: { Cookie: `${COOKIE}=${who}`, Origin: small.url } });
-    const body = await r.text();
-    return { status: r.status, photo: r.status === 201 ? (JSON.parse(body).photo as { id: string; url: string }) : null, body };
-  }
+  const up = (submission: number) => postPhoto(small, who, submission);
   const view = async (id: number) => json(await req(small, `/api/v1/submissions/${id}`, { session: who })).submission as Sub;
   const files = (dir: string, id: string) => import("node:fs").then((fs) => fs.readdirSync(dir).filter((f) => f.startsWith(id)));
   const photosDir = () => import("node:path").then((p) => p.join(p.dirname(small.dbPath), "uploads", "photos"));

@@ -33,7 +33,8 @@ export function transistorFour(
 ): FamilySpec {
   const small = h.jp ? 0.5 : 0.5;
   const lamp = h.jp ? 0.85 : 0.75;
-  // Feeds sized so a healthy loom loses at most 0.5 V over any circuit in any state (common practice; the walk's test).
+  // Feeds sized so a healthy loom loses at most 0.5 V on an earth side and 0.8 V on a supply side in any state
+  // (tests/unit/circuit-walk.test.ts; ≤ 0.5 V over a circuit is common practice, the lamp feeds of the era lost more).
   const feed = h.jp ? 2 : 1.5;
   const nets: Record<Exclude<FourNet, keyof FrontCodes>, NetSpec> = {
     batt: { code: c.batt, circuit: "battery feed", hub: "battery.+", terminals: ["battery.+", "main-fuse.in", "starter-relay.30"], lengthMm: 300, sizeMm2: 5, leadsMm2: { "starter-relay.30": 8 } },
