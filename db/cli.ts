@@ -42,7 +42,7 @@ try {
     } else {
       await migrateUp();
       const now = new Date();
-      const [user, created] = await User.findOrCreate({ where: { email }, defaults: { email, displayName: name, role: "admin", passwordHash: await hashPassword(password), emailVerifiedAt: now, passwordChangedAt: now, createdAt: now, disabledAt: null } });
+      const [user, created] = await User.findOrCreate({ where: { email }, defaults: { email, displayName: name, role: "admin", passwordHash: await hashPassword(password, undefined, { wait: true }), emailVerifiedAt: now, passwordChangedAt: now, createdAt: now, disabledAt: null } });
       if (!created) await user.update({ role: "admin" });
       console.log(`${email} is an admin${created ? " (new account)" : ""}`);
     }

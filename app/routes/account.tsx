@@ -36,7 +36,7 @@ export async function action({ request, context }: Route.ActionArgs) {
     const parsed = changePasswordForm.safeParse(formFields(form));
     if (!parsed.success) return data({ notice: "", errors: fieldErrors(parsed.error.issues) }, { status: 400 });
     const r = await changePassword(request, parsed.data.current, parsed.data.password, parsed.data.signOutOthers === "on");
-    if (!r.ok) return data({ notice: "", errors: r.errors }, { status: 400 });
+    if (!r.ok) return data({ notice: "", errors: r.errors }, r.status === 429 ? tooMany(r.retryAfterS ?? 2) : { status: 400 });
     // Redirect with the new session cookie: the page's loader must not run again with the old, ended session.
     throw redirect("/account?notice=password", { headers: { "Set-Cookie": r.setCookie } });
   }

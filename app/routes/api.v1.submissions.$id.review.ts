@@ -15,8 +15,9 @@ export async function action({ request, params }: Route.ActionArgs) {
   const body = await readJson(request, reviewBody);
   if (!body.ok) return body.response;
   const id = /^\d{1,9}$/.test(params.id) ? Number(params.id) : NaN;
+  if (!Number.isSafeInteger(id)) return apiError(404, "not_found", "There is no such submission.");
   try {
-    if (!(await viewSubmission(user, id))) return apiError(404, "not_found", "There is no such submission.");
+    // decide() answers 404 for no such submission; the full view is built once, after the decision.
     const outcome = await decide(user, id, body.data);
     return Response.json({ submission: submissionJson((await viewSubmission(user, id))!), outcome }, { headers: { "Cache-Control": "private, no-store" } });
   } catch (e) {

@@ -24,8 +24,9 @@ export async function action({ request, params }: Route.ActionArgs) {
   const body = await readJson(request, updateSubmissionBody);
   if (!body.ok) return body.response;
   const id = idOf(params.id);
+  if (!Number.isSafeInteger(id)) return apiError(404, "not_found", "There is no such submission.");
   try {
-    if (!(await viewSubmission(user, id))?.mine) return apiError(404, "not_found", "There is no such submission.");
+    // The service answers 404 for a submission that is not the caller's own (as for none at all): one full view, after.
     await updateSubmission(user, id, body.data);
     return Response.json({ submission: submissionJson((await viewSubmission(user, id))!) }, { headers: noStore });
   } catch (e) {

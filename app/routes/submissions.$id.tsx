@@ -12,7 +12,7 @@ import { photoUrls } from "~/domain/photo-urls";
 import { PhotoError, receivePhotos } from "~/services/photos.server";
 import { submissionApiError } from "~/services/submission-http.server";
 import { EDITOR_FORM_MAX_BYTES, readForm } from "~/services/http.server";
-import { SubmissionError, updateSubmission, viewSubmission } from "~/services/submissions.server";
+import { ownsSubmission, SubmissionError, updateSubmission, viewSubmission } from "~/services/submissions.server";
 import { EDITOR_FORM_MAX_FIELDS, LIMITS, proposalFromForm, proposalSchema } from "~/validation/submissions";
 
 export const meta: Route.MetaFunction = ({ loaderData }) => [
@@ -37,8 +37,7 @@ type ActionResult = { notice?: string; error?: string; problems?: Problem[]; pro
 export async function action({ request, params }: Route.ActionArgs): Promise<ReturnType<typeof data<ActionResult>> | ActionResult> {
   const { user } = await requireCan(request, "submission.create");
   const id = idOf(params.id);
-  const view = await viewSubmission(user, id);
-  if (!view?.mine) throw data("There is no such submission, or it is not yours.", { status: 404 });
+  if (!(await ownsSubmission(user, id))) throw data("There is no such submission, or it is not yours.", { status: 404 });
 
   // The plain photo form (without JavaScript): multipart to this page.
   if ((request.headers.get("Content-Type") ?? "").startsWith("multipart/form-data")) {

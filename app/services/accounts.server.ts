@@ -10,6 +10,7 @@ import {
   type SessionUser,
 } from "./auth.server";
 import { ensureDatabase } from "./database.server";
+import { HashingBusy } from "./password-hash.server";
 import { enqueueMail } from "./mail.server";
 import { loginSucceeded, takeLoginAttempt, takeMailRequest, takeResetAttempt } from "./rate-limit.server";
 
@@ -39,6 +40,11 @@ authenticator.use(
 
 export type FormResult = { ok: false; status: number; errors: Record<string, string>; values: Record<string, string>; retryAfterS?: number };
 
+/** The answer when password hashing is at its queue's bound (HashingBusy): a 429 to try again shortly, the form kept. */
+function busy(e: HashingBusy, values: Record<string, string>): FormResult {
+  return { ok: false, status: 429, values, retryAfterS: e.retryAfterS, errors: { form: `Many people are signing in at this moment. Try again in ${e.retryAfterS} seconds.` } };
+}
+
 /** Sign in from the login form: limits first (before bcrypt), then the strategy, then a fresh session. */
 export async function signIn(request: Request, ip: string): Promise<{ ok: true; setCookie: string; user: SessionUser } | FormResult> {
   await ensureDatabase();
@@ -56,6 +62,7 @@ export async function signIn(request: Request, ip: string): Promise<{ ok: true; 
     return { ok: true, setCookie, user };
   } catch (e) {
     if (e instanceof LoginError) return { ok: false, status: 401, values, errors: { form: e.message } };
+    if (e instanceof HashingBusy) return busy(e, values);
     throw e;
   }
 }
@@ -75,7 +82,13 @@ export async function join(request: Request, ip: string): Promise<{ ok: true; em
   if (problem) return { ok: false, status: 400, values, errors: { password: problem } };
   const limited = await takeMailRequest(ip, email);
   if (!limited.ok) return { ok: false, status: 429, values, retryAfterS: limited.retryAfterS, errors: { form: "Too many requests from here. Try again later." } };
-  const hash = await hashPassword(password);
+  let hash: string;
+  try {
+    hash = await hashPassword(password);
+  } catch (e) {
+    if (e instanceof HashingBusy) return busy(e, values);
+    throw e;
+  }
   await sequelize.transaction(async (transaction) => {
     const existing = await User.findOne({ where: { email }, transaction });
     if (existing) {
@@ -139,7 +152,13 @@ export async function resetPassword(token: string, password: string, ip = "unkno
   if (!(await tokenIsLive(token, "reset"))) return expired;
   const problem = passwordProblem(password, {});
   if (problem) return { ok: false, error: problem, field: "password" };
-  const hash = await hashPassword(password);
+  let hash: string;
+  try {
+    hash = await hashPassword(password);
+  } catch (e) {
+    if (e instanceof HashingBusy) return { ok: false, status: 429, retryAfterS: e.retryAfterS, error: `Many people are signing in at this moment. Try again in ${e.retryAfterS} seconds.` };
+    throw e;
+  }
   return sequelize.transaction(async (transaction) => {
     const user = await consumeToken(token, "reset", transaction);
     if (!user) return expired;
@@ -159,14 +178,20 @@ class PasswordRejected extends Error {}
 
 /** Change the password of the signed-in user; optionally end their other sessions (ASVS V3.3.3). Rotates the current one. */
 export async function changePassword(request: Request, current: string, next: string, signOutOthers: boolean):
-  Promise<{ ok: true; setCookie: string } | { ok: false; errors: Record<string, string> }> {
+  Promise<{ ok: true; setCookie: string } | { ok: false; errors: Record<string, string>; status?: number; retryAfterS?: number }> {
   const s = await currentSession(request);
   if (!s) return { ok: false, errors: { form: "Sign in first." } };
   const user = await User.findByPk(s.user.id, { rejectOnEmpty: true });
-  if (!(await verifyPassword(current, user.passwordHash))) return { ok: false, errors: { current: "That is not your current password." } };
-  const problem = passwordProblem(next, { email: user.email, displayName: user.displayName });
-  if (problem) return { ok: false, errors: { password: problem } };
-  const hash = await hashPassword(next);
+  let hash: string;
+  try {
+    if (!(await verifyPassword(current, user.passwordHash))) return { ok: false, errors: { current: "That is not your current password." } };
+    const problem = passwordProblem(next, { email: user.email, displayName: user.displayName });
+    if (problem) return { ok: false, errors: { password: problem } };
+    hash = await hashPassword(next);
+  } catch (e) {
+    if (e instanceof HashingBusy) return busy(e, {});
+    throw e;
+  }
   const setCookie = await sequelize.transaction(async (transaction) => {
     await user.update({ passwordHash: hash, passwordChangedAt: new Date() }, { transaction });
     // Other devices stay signed in unless asked; this one always gets a fresh session id (startSession ends the old).

@@ -29,7 +29,11 @@ const randomToken = () => randomBytes(32).toString("base64url");
 let dummyHash: Promise<string> | null = null;
 /** Spend the same time as a real check when there is no account, so timing does not tell (ASVS 5.0 V6.3.8). */
 export async function dummyVerify(password: string): Promise<false> {
-  dummyHash ??= hashPassword("no account has this password");
+  // A refused first hash (HashingBusy) must not stay cached as a rejection: the next sign-in tries again.
+  dummyHash ??= hashPassword("no account has this password").catch((e) => {
+    dummyHash = null;
+    throw e;
+  });
   await verifyPassword(password, await dummyHash);
   return false;
 }

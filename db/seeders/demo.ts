@@ -23,7 +23,7 @@ export const DEMO_ACCOUNTS = [
 /** Insert the invented demo library in one transaction; the caller decides whether the database is empty. */
 export async function seedDemo() {
   // Hash before the transaction: bcrypt takes a quarter of a second each and needs no lock.
-  const hashes = await Promise.all(DEMO_ACCOUNTS.map((a) => hashPassword(a.password)));
+  const hashes = await Promise.all(DEMO_ACCOUNTS.map((a) => hashPassword(a.password, undefined, { wait: true })));
   await sequelize.transaction(async (transaction) => {
     const now = new Date(PUBLISHED);
     for (const [i, a] of DEMO_ACCOUNTS.entries()) {

@@ -507,6 +507,44 @@ describe("parallel writes wait their turn: no 500, no 503", () => {
     expect(statuses.filter((x) => x === 409)).toHaveLength(19);
   });
 
+  it("twenty parallel sign-ins: the hashing queue is bounded, so each is signed in or told to retry at once (429, Retry-After, address kept); reads stay quick", async () => {
+    // bcrypt at cost 12 is ≈ 250 ms of a core (QUALITY P7); queued without a bound the last of fifty waited 12 s.
+    const t0 = performance.now();
+    const reads: number[] = [];
+    let burst = true;
+    const reading = (async () => {
+      while (burst) {
+        const t = performance.now();
+        await req(srv, "/api/v1/health");
+        reads.push(performance.now() - t);
+        await new Promise((r) => setTimeout(r, 20));
+      }
+    })();
+    const all = await Promise.all(Array.from({ length: 20 }, async () => {
+      const t = performance.now();
+      const r = await req(srv, "/login", { form: { email: DEMO.moderator.email, password: DEMO.moderator.password } });
+      return { r, ms: performance.now() - t };
+    }));
+    burst = false;
+    await reading;
+    const statuses = all.map((x) => x.r.status);
+    console.info(`[sign-ins] 20 in ${(performance.now() - t0).toFixed(0)} ms: ${statuses.join(",")}; slowest ${Math.max(...all.map((x) => x.ms)).toFixed(0)} ms; slowest read meanwhile ${Math.max(...reads).toFixed(0)} ms`);
+    expect(statuses.every((s) => s === 302 || s === 429), statuses.join(",")).toBe(true);
+    expect(statuses.filter((s) => s === 302).length).toBeGreaterThanOrEqual(1);
+    const refused = all.filter((x) => x.r.status === 429);
+    expect(refused.length).toBeGreaterThanOrEqual(1);
+    for (const x of refused) {
+      expect(Number(x.r.headers.get("retry-after"))).toBeGreaterThan(0);
+      expect(x.r.body).toContain("Try again in");
+      expect(x.r.body).toContain(`value="${DEMO.moderator.email}"`);
+    }
+    // Bounded wait: three admitted per worker, not twenty in a row (generous for a shared machine).
+    expect(Math.max(...all.map((x) => x.ms))).toBeLessThan(4_000);
+    // After the burst the same sign-in goes straight through.
+    const after = await req(srv, "/login", { form: { email: DEMO.moderator.email, password: DEMO.moderator.password } });
+    expect(after.status, where(after)).toBe(302);
+  });
+
   it("eight parallel 'add bike' posts from one rider: every one answered, none a 500", async () => {
     const all = await Promise.all(Array.from({ length: 8 }, (_, i) => req(srv, "/garage", { form: { intent: "bike", family: "rx750-four", year: String(1977 + (i % 5)), label: `Bike ${i}` }, session: rider })));
     const statuses = all.map((x) => x.status);

@@ -11,7 +11,7 @@ for (const cost of [10, 11, 12, 13]) {
   const times: number[] = [];
   for (let i = 0; i < runs; i++) {
     const t = performance.now();
-    await hashPassword("correct horse battery staple", cost);
+    await hashPassword("correct horse battery staple", cost, { wait: true });
     times.push(performance.now() - t);
   }
   const p50 = median(times);

@@ -75,7 +75,9 @@ export async function startServer(arg: StartOptions | Record<string, string> = {
     ? { SMTP_URL: `smtp://127.0.0.1:${standIn.smtpPort}`, MAIL_HTTP_URL: mailHttp! }
     : { SMTP_URL: "smtp://127.0.0.1:1", MAIL_HTTP_URL: "http://127.0.0.1:1" };
   let log = "";
-  const child: ChildProcess = spawn(process.execPath, ["--import", "tsx", path.join(root, "app/serve.server.ts")], {
+  // SERVER_NODE_ARGS (e.g. "--cpu-prof --cpu-prof-dir=/tmp/prof") passes flags to the server's node, for profiling a bench.
+  const nodeArgs = (process.env.SERVER_NODE_ARGS ?? "").split(" ").filter(Boolean);
+  const child: ChildProcess = spawn(process.execPath, [...nodeArgs, "--import", "tsx", path.join(root, "app/serve.server.ts")], {
     cwd: root,
     env: { ...process.env, NODE_ENV: "production", PORT: String(port), HOST: "127.0.0.1", DB_PATH: dbPath, UPLOADS_DIR: path.join(dir, "uploads"), SEARCH_URL: searchUrl ?? "http://127.0.0.1:1", ...mailEnv, ...env },
     stdio: ["ignore", "pipe", "pipe"],
