@@ -1,6 +1,6 @@
 import type { Route } from "./+types/api.v1.submissions.$id.review";
 import { assertSameOrigin, requireCan } from "~/services/guards.server";
-import { apiError, methodNotAllowed, readJson } from "~/services/http.server";
+import { methodNotAllowed, readJson } from "~/services/http.server";
 import { submissionApiError } from "~/services/submission-http.server";
 import { decide, submissionJson, viewSubmission } from "~/services/submissions.server";
 import { reviewBody } from "~/validation/submissions";
@@ -15,7 +15,6 @@ export async function action({ request, params }: Route.ActionArgs) {
   const body = await readJson(request, reviewBody);
   if (!body.ok) return body.response;
   const id = /^\d{1,9}$/.test(params.id) ? Number(params.id) : NaN;
-  if (!Number.isSafeInteger(id)) return apiError(404, "not_found", "There is no such submission.");
   try {
     // decide() answers 404 for no such submission; the full view is built once, after the decision.
     const outcome = await decide(user, id, body.data);

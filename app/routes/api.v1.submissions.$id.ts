@@ -24,7 +24,6 @@ export async function action({ request, params }: Route.ActionArgs) {
   const body = await readJson(request, updateSubmissionBody);
   if (!body.ok) return body.response;
   const id = idOf(params.id);
-  if (!Number.isSafeInteger(id)) return apiError(404, "not_found", "There is no such submission.");
   try {
     // The service answers 404 for a submission that is not the caller's own (as for none at all): one full view, after.
     await updateSubmission(user, id, body.data);

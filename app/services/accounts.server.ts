@@ -40,9 +40,16 @@ authenticator.use(
 
 export type FormResult = { ok: false; status: number; errors: Record<string, string>; values: Record<string, string>; retryAfterS?: number };
 
+/** A hash or check refused at the queue's bound comes back as its HashingBusy (any other failure still throws). */
+const orBusy = <T>(work: Promise<T>): Promise<T | HashingBusy> => work.catch((e) => {
+  if (e instanceof HashingBusy) return e;
+  throw e;
+});
+const busyMessage = (e: HashingBusy) => `Many people are signing in at this moment. Try again in ${e.retryAfterS} seconds.`;
+
 /** The answer when password hashing is at its queue's bound (HashingBusy): a 429 to try again shortly, the form kept. */
 function busy(e: HashingBusy, values: Record<string, string>): FormResult {
-  return { ok: false, status: 429, values, retryAfterS: e.retryAfterS, errors: { form: `Many people are signing in at this moment. Try again in ${e.retryAfterS} seconds.` } };
+  return { ok: false, status: 429, values, retryAfterS: e.retryAfterS, errors: { form: busyMessage(e) } };
 }
 
 /** Sign in from the login form: limits first (before bcrypt), then the strategy, then a fresh session. */
@@ -82,13 +89,8 @@ export async function join(request: Request, ip: string): Promise<{ ok: true; em
   if (problem) return { ok: false, status: 400, values, errors: { password: problem } };
   const limited = await takeMailRequest(ip, email);
   if (!limited.ok) return { ok: false, status: 429, values, retryAfterS: limited.retryAfterS, errors: { form: "Too many requests from here. Try again later." } };
-  let hash: string;
-  try {
-    hash = await hashPassword(password);
-  } catch (e) {
-    if (e instanceof HashingBusy) return busy(e, values);
-    throw e;
-  }
+  const hash = await orBusy(hashPassword(password));
+  if (hash instanceof HashingBusy) return busy(hash, values);
   await sequelize.transaction(async (transaction) => {
     const existing = await User.findOne({ where: { email }, transaction });
     if (existing) {
@@ -152,13 +154,8 @@ export async function resetPassword(token: string, password: string, ip = "unkno
   if (!(await tokenIsLive(token, "reset"))) return expired;
   const problem = passwordProblem(password, {});
   if (problem) return { ok: false, error: problem, field: "password" };
-  let hash: string;
-  try {
-    hash = await hashPassword(password);
-  } catch (e) {
-    if (e instanceof HashingBusy) return { ok: false, status: 429, retryAfterS: e.retryAfterS, error: `Many people are signing in at this moment. Try again in ${e.retryAfterS} seconds.` };
-    throw e;
-  }
+  const hash = await orBusy(hashPassword(password));
+  if (hash instanceof HashingBusy) return { ok: false, status: 429, retryAfterS: hash.retryAfterS, error: busyMessage(hash) };
   return sequelize.transaction(async (transaction) => {
     const user = await consumeToken(token, "reset", transaction);
     if (!user) return expired;
@@ -182,16 +179,13 @@ export async function changePassword(request: Request, current: string, next: st
   const s = await currentSession(request);
   if (!s) return { ok: false, errors: { form: "Sign in first." } };
   const user = await User.findByPk(s.user.id, { rejectOnEmpty: true });
-  let hash: string;
-  try {
-    if (!(await verifyPassword(current, user.passwordHash))) return { ok: false, errors: { current: "That is not your current password." } };
-    const problem = passwordProblem(next, { email: user.email, displayName: user.displayName });
-    if (problem) return { ok: false, errors: { password: problem } };
-    hash = await hashPassword(next);
-  } catch (e) {
-    if (e instanceof HashingBusy) return busy(e, {});
-    throw e;
-  }
+  const matches = await orBusy(verifyPassword(current, user.passwordHash));
+  if (matches instanceof HashingBusy) return busy(matches, {});
+  if (!matches) return { ok: false, errors: { current: "That is not your current password." } };
+  const problem = passwordProblem(next, { email: user.email, displayName: user.displayName });
+  if (problem) return { ok: false, errors: { password: problem } };
+  const hash = await orBusy(hashPassword(next));
+  if (hash instanceof HashingBusy) return busy(hash, {});
   const setCookie = await sequelize.transaction(async (transaction) => {
     await user.update({ passwordHash: hash, passwordChangedAt: new Date() }, { transaction });
     // Other devices stay signed in unless asked; this one always gets a fresh session id (startSession ends the old).

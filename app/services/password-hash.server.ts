@@ -75,17 +75,14 @@ export class HashingBusy extends Error {
   }
 }
 let inFlight = 0;
-function queueMax(workers: number): number {
-  const set = Math.floor(Number(process.env.BCRYPT_QUEUE_MAX));
-  return set > 0 ? set : 2 * Math.max(1, workers);
-}
+const QUEUE_MAX_SET = Math.floor(Number(process.env.BCRYPT_QUEUE_MAX));
+const queueMax = (workers: number) => (QUEUE_MAX_SET > 0 ? QUEUE_MAX_SET : 2 * Math.max(1, workers));
 
 function run<T>(op: "hash" | "compare", a: string, b: string | number, inThread: () => Promise<T>, wait = false): Promise<T> {
   const live = pool();
   if (!wait && inFlight >= queueMax(live.length)) return Promise.reject(new HashingBusy(2));
   inFlight++;
-  const done = () => { inFlight--; };
-  return admitted(live, op, a, b, inThread).finally(done);
+  return admitted(live, op, a, b, inThread).finally(() => { inFlight--; });
 }
 
 function admitted<T>(live: Slot[], op: "hash" | "compare", a: string, b: string | number, inThread: () => Promise<T>): Promise<T> {

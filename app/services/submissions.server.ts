@@ -242,6 +242,7 @@ function afterRelease(ids: string[]) {
 
 /** Save a draft or a returned submission, submit it for review, or answer a moderator's question and resubmit. */
 export async function updateSubmission(actor: Actor, id: number, input: UpdateInput): Promise<void> {
+  if (!Number.isSafeInteger(id)) throw notFound();
   await ensureDatabase();
   let released: string[] = [];
   await sequelize.transaction(async (transaction) => {
@@ -442,6 +443,7 @@ const OUTCOME = { approve: "published", return: "returned", decline: "declined" 
  */
 export async function decide(actor: Actor, id: number, d: Decision): Promise<{ state: SubmissionState; version: number; connector?: string; revision?: number }> {
   if (!can(actor.role, "review.work")) throw new SubmissionError(403, "forbidden", "This needs the moderator role.");
+  if (!Number.isSafeInteger(id)) throw notFound();
   await ensureDatabase();
   let familySlug: string | null = null;
   let released: string[] = [];

@@ -507,7 +507,7 @@ describe("parallel writes wait their turn: no 500, no 503", () => {
     expect(statuses.filter((x) => x === 409)).toHaveLength(19);
   });
 
-  it("twenty parallel sign-ins: the hashing queue is bounded, so each is signed in or told to retry at once (429, Retry-After, address kept); reads stay quick", async () => {
+  it("twenty parallel sign-ins: the hashing queue is bounded, so each is signed in or told to retry at once (429, Retry-After, address kept)", async () => {
     // bcrypt at cost 12 is ≈ 250 ms of a core (QUALITY P7); queued without a bound the last of fifty waited 12 s.
     const t0 = performance.now();
     const reads: number[] = [];
