@@ -39,52 +39,79 @@ function createSequelize(storage: string): Sequelize {
   const s = new Sequelize({
     dialect: "sqlite", storage, logging: false, define: { underscored: true }, transactionType: Transaction.TYPES.IMMEDIATE, retry: { max: 1 },
   });
-  // Sequelize opens a fresh sqlite3 handle per transaction: every handle needs the same pragmas.
+  // Every handle (the shared read handle, the one write handle) needs the same pragmas.
   s.addHook("afterConnect", async (conn: any) => {
     conn.configure("busyTimeout", BUSY_TIMEOUT_MS);
     await run(conn, "PRAGMA foreign_keys = ON");
     if (storage !== ":memory:") await run(conn, "PRAGMA journal_mode = WAL");
     await run(conn, `PRAGMA synchronous = ${SYNCHRONOUS}`);
-    // Test only (QUALITY D9, database full): cap the file so a write fails with SQLITE_FULL. Read per handle, so a test
-    // can set and lift it between transactions; unset in every real run.
-    const cap = Number(process.env.DB_MAX_PAGE_COUNT);
-    if (cap > 0) await run(conn, `PRAGMA max_page_count = ${Math.floor(cap)}`);
   });
   // Sequelize's sqlite connection manager replaces getConnection and never runs the afterConnect hook (the handles got
   // node-sqlite3's defaults: rollback journal, busy timeout 1000 ms, synchronous FULL). Run it once per new handle,
   // before the handle's first query.
+  type Handle = { close: () => void; uuid?: string };
   const manager = s.connectionManager as unknown as {
-    getConnection: (options?: { uuid?: string }) => Promise<{ close: () => void }>;
-    connections: Record<string, unknown>;
+    getConnection: (options?: { uuid?: string }) => Promise<Handle>;
+    releaseConnection: (conn: Handle, force?: boolean) => void;
+    destroyConnection: (conn: Handle) => Promise<void>;
+    connections: Record<string, Handle | undefined>;
   };
   const open = manager.getConnection.bind(manager);
+  const release = manager.releaseConnection.bind(manager);
   const configured = new WeakMap<object, Promise<void>>();
+  // One write handle, kept open. Sequelize's sqlite dialect opens a new handle for every transaction and closes it at
+  // the end: each write paid an open, four pragmas and a fresh schema parse (≈ 5.6 ms of a 1-insert transaction on this
+  // machine) inside the one-writer queue, where every writer behind it waits for it. The queue (serialiseWrites) runs
+  // transactions one at a time, so one handle serves them all; a handle in doubt (a failed COMMIT or ROLLBACK) is closed
+  // and the next transaction opens a new one.
+  const WRITER = "loomlore-writer";
+  let cap = 0; // the write handle's page cap as set (test only, QUALITY D9)
   manager.getConnection = async (options?: { uuid?: string }) => {
-    const conn = await open(options);
+    const writes = !!options?.uuid && options.uuid !== "default" && storage !== ":memory:";
+    const conn = await open(writes ? { ...options, uuid: WRITER } : options);
     let ready = configured.get(conn);
     if (!ready) {
       ready = (s as unknown as { runHooks: (name: string, ...args: unknown[]) => Promise<void> }).runHooks("afterConnect", conn, options ?? {});
       configured.set(conn, ready);
+      if (writes) cap = 0;
     }
     try {
       await ready;
+      // Test only (QUALITY D9, database full): cap the file so a write fails with SQLITE_FULL. Read at each transaction,
+      // so a test can set and lift it between transactions; unset in every real run.
+      const want = Math.max(0, Math.floor(Number(process.env.DB_MAX_PAGE_COUNT) || 0));
+      if (writes && want !== cap) {
+        await run(conn as never, `PRAGMA max_page_count = ${want || 4294967294}`);
+        cap = want;
+      }
     } catch (e) {
       // Not configured (e.g. SQLITE_BUSY while another process recovers the WAL, wal.html): the next query tries again.
       configured.delete(conn);
-      const uuid = options?.uuid;
-      if (uuid && uuid !== "default" && manager.connections[uuid] === conn) {
-        delete manager.connections[uuid];
-        conn.close(); // a transaction's own handle: nobody else will close it
+      if (writes && manager.connections[WRITER] === conn) {
+        delete manager.connections[WRITER];
+        conn.close(); // the write handle: nobody else will close it
       }
       throw e;
     }
     return conn;
   };
-  // When a ROLLBACK fails (SQLite already rolled back after SQLITE_FULL, or BEGIN IMMEDIATE never got the lock), Sequelize
-  // "kills" the transaction's handle through the pool, which the sqlite dialect does not use: the handle stayed open for
-  // the life of the process, one per 503. Close it like a finished transaction's (QUALITY D9/F9).
-  const handles = s.connectionManager as unknown as { destroyConnection: (conn: object) => Promise<void>; releaseConnection: (conn: object) => void };
-  handles.destroyConnection = async (conn: object) => handles.releaseConnection(conn);
+  // A finished transaction leaves the write handle open for the next one.
+  manager.releaseConnection = (conn: Handle, force?: boolean) => {
+    if (conn === manager.connections[WRITER] && force !== true) return;
+    release(conn, force);
+  };
+  // When a COMMIT or ROLLBACK fails (SQLite already rolled back after SQLITE_FULL, or BEGIN IMMEDIATE never got the
+  // lock), Sequelize "kills" the transaction's handle through the pool, which the sqlite dialect does not use: close it,
+  // so the next transaction starts on a clean handle (QUALITY D9/F9).
+  manager.destroyConnection = async (conn: Handle) => {
+    if (conn === manager.connections[WRITER]) {
+      delete manager.connections[WRITER];
+      configured.delete(conn);
+      conn.close();
+      return;
+    }
+    release(conn);
+  };
   serialiseWrites(s);
   return s;
 }

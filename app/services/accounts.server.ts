@@ -64,8 +64,13 @@ export async function signIn(request: Request, ip: string): Promise<{ ok: true; 
   try {
     const user = await authenticator.authenticate("password", request);
     await loginSucceeded((fields.email ?? "").trim().toLowerCase(), ip);
-    const setCookie = await startSession(request, user.id);
-    await audit(user.id, "session.start", "user", user.id);
+    // One queued transaction: written on the shared read handle, the session and its audit row each waited for the write
+    // lock there, and every read of the process waited behind them.
+    const setCookie = await sequelize.transaction(async (transaction) => {
+      const cookie = await startSession(request, user.id, transaction);
+      await audit(user.id, "session.start", "user", user.id, {}, transaction);
+      return cookie;
+    });
     return { ok: true, setCookie, user };
   } catch (e) {
     if (e instanceof LoginError) return { ok: false, status: 401, values, errors: { form: e.message } };
