@@ -6,7 +6,9 @@
 // Two runs, each on a fresh server (the per-rider limits start full): as the site's own pages send a write with
 // JavaScript (React Router's `.data` request: the action alone; the page's data is re-read by a separate GET), and as a
 // browser without JavaScript does (a document POST: the action and then the whole page rendered). A draft save is the
-// PATCH alone (the editor already holds the version; the bench reads it first, untimed).
+// PATCH alone (the editor already holds the version; the bench reads it first, untimed). Before the timed rounds each kind
+// runs once, untimed (a server in service has compiled its code; BENCH_COLD=1 leaves that out); "by round" shows how
+// the figures settle. BENCH_MODES=js (or nojs) runs one of the two.
 
 import { loadavg, cpus } from "node:os";
 import { performance } from "node:perf_hooks";
@@ -45,14 +47,19 @@ async function run(mode: "with JavaScript" | "without JavaScript") {
     // BENCH_KINDS="reset,report" runs only those kinds (to see one kind's cost without the others).
     const only = process.env.BENCH_KINDS?.split(",").map((k) => k.trim());
     const names = Object.keys(kinds).filter((k) => !only || only.includes(k));
+    // A server in service has served each page before: one of each, untimed, so the figures are not the JIT's first
+    // compile (BENCH_COLD=1 leaves this out; round 0 below shows the difference).
+    if (!process.env.BENCH_COLD) for (const n of names) await kinds[n](-1);
     const times: Record<string, number[]> = Object.fromEntries(names.map((n) => [n, []]));
     const statuses: Record<string, number> = {};
+    const byRound: number[][] = [];
     const t0 = performance.now();
     await Promise.all(Array.from({ length: WRITERS }, async (_, w) => {
       for (let r = 0; r < ROUNDS; r++) {
         const kind = names[(w + r) % names.length];
         const { status, ms } = await kinds[kind](w * ROUNDS + r);
         times[kind].push(ms);
+        (byRound[r] ??= []).push(ms);
         statuses[status] = (statuses[status] ?? 0) + 1;
       }
     }));
@@ -61,11 +68,14 @@ async function run(mode: "with JavaScript" | "without JavaScript") {
     console.log(`writes ${mode}: ${WRITERS} parallel writers × ${ROUNDS} rounds = ${all.length} requests in ${(wall / 1000).toFixed(1)} s (load ${loadavg()[0].toFixed(1)}, ${cpus().length} cores)`);
     for (const n of names) console.log(`  ${n.padEnd(12)} n=${String(times[n].length).padStart(3)}  p50 ${pct(times[n], 50).toFixed(0).padStart(5)} ms  p99 ${pct(times[n], 99).toFixed(0).padStart(5)} ms`);
     console.log(`  ${"all".padEnd(12)} n=${String(all.length).padStart(3)}  p50 ${pct(all, 50).toFixed(0).padStart(5)} ms  p99 ${pct(all, 99).toFixed(0).padStart(5)} ms`);
+    console.log(`  by round: ${byRound.map((xs, r) => `${r}: p50 ${pct(xs, 50).toFixed(0)} p99 ${pct(xs, 99).toFixed(0)}`).join("; ")}`);
     console.log(`  statuses: ${Object.entries(statuses).map(([s, n]) => `${s}×${n}`).join(", ")}; 5xx: ${Object.entries(statuses).filter(([s]) => Number(s) >= 500).reduce((a, [, n]) => a + n, 0)}`);
   } finally {
     await srv.stop();
   }
 }
 
-await run("with JavaScript");
-await run("without JavaScript");
+// BENCH_MODES="js" or "nojs" runs one of the two.
+const modes = (process.env.BENCH_MODES ?? "js,nojs").split(",");
+if (modes.includes("js")) await run("with JavaScript");
+if (modes.includes("nojs")) await run("without JavaScript");
