@@ -34,6 +34,7 @@ export function escapeHtml(value: string): string {
 
 /** One line, trimmed, control characters (CR/LF included) turned into spaces; cut to `max` characters. */
 function oneLine(value: string, max = 120): string {
+  // eslint-disable-next-line no-control-regex -- control characters are what this checks for
   const line = value.replace(/[\u0000-\u001f\u007f]+/g, " ").replace(/\s+/g, " ").trim();
   return line.length > max ? `${line.slice(0, max - 1).trimEnd()}…` : line;
 }

@@ -13,6 +13,7 @@ export const DEFAULT_NEXT = "/garage";
 
 // C0 controls, DEL, C1 controls, and every Unicode space (\s covers U+0009–U+000D, U+0020, U+00A0, U+1680,
 // U+2000–U+200A, U+2028, U+2029, U+202F, U+205F, U+3000, U+FEFF).
+// eslint-disable-next-line no-control-regex -- control characters are what this checks for
 const CONTROL_OR_SPACE = /[\u0000-\u001f\u007f-\u009f\s]/u;
 
 export function nextTarget(next: string | null | undefined, origin: string): NextTarget {

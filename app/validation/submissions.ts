@@ -9,6 +9,7 @@ import { LATCH_SIDES, LIMITS, SOURCE_KINDS, SYSTEM_KINDS, type CardProposal } fr
 export { LIMITS };
 
 // Control characters never belong in a card (they break queries, CSV and mail); tabs and newlines only in notes.
+// eslint-disable-next-line no-control-regex -- control characters are what this checks for
 const clean = (s: string) => s.replace(/[\u0000-\u0008\u000b\u000c\u000e-\u001f\u007f]/g, "");
 const line = (max: number = LIMITS.text) => z.string().transform((s) => clean(s).replace(/[\t\r\n]+/g, " ").trim()).pipe(z.string().max(max, `is longer than ${max} characters`));
 const optionalLine = (max = 40) => z.union([z.string(), z.null()]).optional().transform((s) => (s == null ? null : clean(s).replace(/\s+/g, " ").trim() || null))

@@ -5,7 +5,7 @@ import { browserSuite, artifact, skipBrowser, waitForHydration } from "./browser
 
 describe.skipIf(skipBrowser)("colour codes page in Chromium", () => {
   const suite = browserSuite();
-  const { open, gotoHydrated } = suite;
+  const { open } = suite;
 
   it("decodes ws/rt live as it is typed (no submit) and shows white with red", async () => {
     const page = await open();

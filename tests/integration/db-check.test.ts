@@ -13,7 +13,6 @@ import { execSql, stateDigest } from "./helpers";
 
 type Models = typeof import("../../db/models/index.ts");
 type FamilyRow = InstanceType<Models["Family"]>;
-type PinRow = InstanceType<Models["Pin"]>;
 type ConnectorRow = InstanceType<Models["Connector"]>;
 
 const root = path.resolve(import.meta.dirname, "../..");

@@ -30,7 +30,6 @@ let fileRoute: FileRoute;
 let apiRoute: ApiRoute;
 let closeDb: () => Promise<void>;
 let startSession: (request: Request, userId: number) => Promise<string>;
-let cookieName: string;
 let demo: { contributor: User; moderator: User };
 
 beforeAll(async () => {
@@ -53,7 +52,6 @@ beforeAll(async () => {
   apiRoute = await import("../../app/routes/api.v1.photos.ts");
   const auth = await import("../../app/services/auth.server.ts");
   startSession = auth.startSession;
-  cookieName = auth.SESSION_COOKIE;
   const find = async (email: string) => {
     const u = await m.User.findOne({ where: { email } });
     expect(u, `demo account ${email}`).toBeTruthy();
@@ -339,6 +337,7 @@ describe("S11 upload hardening (ASVS 4.0.3 V12.x, OWASP File Upload Cheat Sheet,
       expect(id).toMatch(/^[0-9a-f]{8}-[0-9a-f]{4}-4[0-9a-f]{3}-[89ab][0-9a-f]{3}-[0-9a-f]{12}$/);
       expect(existsSync(photoFile(id)) && existsSync(photoFile(id, true)), what).toBe(true);
       const row = await m.Photo.findByPk(id);
+      // eslint-disable-next-line no-control-regex -- control characters are what this checks for
       expect(row!.originalName).not.toMatch(/[\u0000-\u001f\u007f]/);
       check(row!.originalName);
     }
@@ -642,6 +641,7 @@ describe("F5 malformed multipart (QUALITY F5; SQLite testing: malformed input mu
       seen.push(`${what}: ${r.status} ${r.code ?? ""} (${r.ms.toFixed(0)} ms)`);
       expect(expected, `${what}: got ${r.status} ${r.message}`).toContain(r.status);
       expect(r.ms, what).toBeLessThan(1000);
+      // eslint-disable-next-line no-control-regex -- control characters are what this checks for
       if (r.status === 201) expect(r.photos![0].originalName).not.toMatch(/[\u0000-\u001f]/);
       expect(tmpFiles(), `${what}: tmp/ empty`).toEqual([]);
     }

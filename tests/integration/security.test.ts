@@ -22,7 +22,7 @@ import { DomUtils, parseDocument } from "htmlparser2";
 import sqlite3 from "sqlite3";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { startServer, type TestServer } from "../support/server";
-import { ACTORS, COOKIE, DEMO, req, signIn, where, type Actor, type Reply, type ReqOptions, type Role } from "../support/http";
+import { ACTORS, DEMO, req, signIn, where, type Actor, type Reply, type ReqOptions, type Role } from "../support/http";
 import { execSql } from "./helpers";
 
 const root = path.resolve(import.meta.dirname, "../..");

@@ -51,7 +51,6 @@ export async function req(srv: TestServer, pathAndQuery: string, o: ReqOptions =
     headers["Content-Type"] = "application/json";
     body = JSON.stringify(o.json);
   }
-  const logFrom = srv.output().length;
   const res = await fetch(srv.url + pathAndQuery, { method, headers, body, redirect: "manual" });
   const text = await res.text();
 
