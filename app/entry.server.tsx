@@ -11,7 +11,7 @@ import { renderToPipeableStream } from "react-dom/server";
 import type { AppLoadContext, EntryContext, HandleErrorFunction } from "react-router";
 import { ServerRouter } from "react-router";
 import { documentCsp, newNonce } from "./services/csp.server";
-import { watchEventLoop } from "./services/event-loop.server";
+import { watchEventLoop } from "./infra/event-loop.server";
 
 // The loop's delay is sampled from the moment the server loads (reported by /api/v1/health).
 watchEventLoop();

@@ -22,7 +22,7 @@ function step(label: string, cmd: string, args: string[]) {
 if (!existsSync(path.join(root, "build/server/index.js")) || process.env.REBUILD === "1") {
   step("building the app (first start only; REBUILD=1 forces it)", bin("react-router"), ["build"]);
 }
-step("migrating the database and seeding the demo library if it is empty", bin("tsx"), ["db/cli.ts", "setup"]);
+step("migrating the database and seeding the demo library if it is empty", bin("tsx"), ["app/cli.server.ts", "setup"]);
 
 /**
  * The port a local stand-in should listen on, or null when the service is elsewhere: the URL unset (the app's default

@@ -127,7 +127,7 @@ export function wastedSparkPairs(firingOrder: string, opts: WastedSparkOptions):
   const method = `${METHOD} ${shown} → ${layoutRows} → ${columns.map(([a, b]) => `${a}&${b}`).join(", ")}.`;
 
   // Firing intervals: given, or from the geometry where the layout fixes them.
-  let intervals: number[] | null = null;
+  let intervals: number[] | null;
   let note = "";
   if (given !== null) {
     if (!Array.isArray(given) || given.length !== cylinders || given.some((x) => typeof x !== "number" || !Number.isFinite(x) || x <= 0)) {

@@ -1,5 +1,5 @@
 import { databaseHealthy } from "~/services/database.server";
-import { eventLoopReport } from "~/services/event-loop.server";
+import { eventLoopReport } from "~/infra/event-loop.server";
 import { methodNotAllowed } from "~/services/http.server";
 import { mailHealthy } from "~/services/mail.server";
 import { searchBreaker, searchHealthy } from "~/services/search.server";

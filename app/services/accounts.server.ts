@@ -10,7 +10,7 @@ import {
   type SessionUser,
 } from "./auth.server";
 import { ensureDatabase } from "./database.server";
-import { HashingBusy } from "./password-hash.server";
+import { HashingBusy } from "~/infra/password-hash.server";
 import { enqueueMail } from "./mail.server";
 import { loginSucceeded, takeLoginAttempt, takeMailRequest, takeResetAttempt } from "./rate-limit.server";
 

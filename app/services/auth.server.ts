@@ -5,14 +5,14 @@
  * revocation really ends a session.
  */
 import { createHash, randomBytes } from "node:crypto";
-import { hashPassword, verifyPassword } from "./password-hash.server";
+import { hashPassword, verifyPassword } from "~/infra/password-hash.server";
 import { Op, type Transaction } from "sequelize";
 import { sequelize } from "~db/index.server.ts";
 import { AuditLog, Session, Token, User } from "~db/models/index.ts";
 import type { Role } from "~/domain/roles";
 import { ensureDatabase } from "./database.server";
 
-export { BCRYPT_COST, hashPassword, verifyPassword } from "./password-hash.server";
+export { BCRYPT_COST, hashPassword, verifyPassword } from "~/infra/password-hash.server";
 
 const SESSION_DAYS = 30;
 const TOUCH_EVERY_MS = 60_000;

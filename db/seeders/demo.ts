@@ -1,7 +1,7 @@
 import type { Transaction } from "sequelize";
 import { sequelize } from "../index.server.ts";
 import { Circuit, Component, ComponentLink, Connector, Family, Make, Pin, Revision, SpecValue, System, User, Wire } from "../models/index.ts";
-import { hashPassword } from "../../app/services/password-hash.server.ts";
+import { hashPassword } from "../../app/infra/password-hash.server.ts";
 import { buildFamily } from "./demo/build.ts";
 import { demoMakes } from "./demo/makes.ts";
 import { connectorSnapshot } from "../snapshot.ts";

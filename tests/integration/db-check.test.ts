@@ -211,11 +211,11 @@ describe("faults the check must report (each injected, checked, undone)", () => 
 
 // ---------------------------------------------------------------------------------------------------------------------
 
-describe("the CLI: npx tsx db/cli.ts setup | check", () => {
+describe("the CLI: npx tsx app/cli.server.ts setup | check", () => {
   const cliDir = mkdtempSync(path.join(tmpdir(), "loomlore-cli-"));
   const cliDb = path.join(cliDir, "cli.sqlite");
   const cli = (...args: string[]) =>
-    spawnSync("npx", ["tsx", "db/cli.ts", ...args], { cwd: root, env: { ...process.env, DB_PATH: cliDb }, encoding: "utf8", timeout: 60_000 });
+    spawnSync("npx", ["tsx", "app/cli.server.ts", ...args], { cwd: root, env: { ...process.env, DB_PATH: cliDb }, encoding: "utf8", timeout: 60_000 });
 
   afterAll(() => rmSync(cliDir, { recursive: true, force: true }));
 

@@ -1,7 +1,7 @@
 // Prints bcrypt hash time per work factor on this machine (QUALITY P7: choose the highest cost with p50 ≤ 250 ms,
 // never below 10 — OWASP ASVS V2.4.4). A benchmark prints figures; it asserts nothing.
 import { performance } from "node:perf_hooks";
-import { hashPassword, BCRYPT_COST } from "../../app/services/password-hash.server.ts";
+import { hashPassword, BCRYPT_COST } from "../../app/infra/password-hash.server.ts";
 
 const runs = Number(process.env.RUNS ?? 7);
 const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];

@@ -1,13 +1,13 @@
-/** Database commands: `tsx db/cli.ts migrate|seed|setup|reset|check|create-admin|sweep-photos|search-reindex|search-reconcile`. */
+/** The command line (a composition root beside the server: it may use db/ and the services alike): `tsx app/cli.server.ts migrate|seed|setup|reset|check|create-admin|sweep-photos|search-reindex|search-reconcile`. */
 import { rmSync } from "node:fs";
-import { databasePath, sequelize } from "./index.server.ts";
-import { migrateUp } from "./migrate.ts";
-import { setupDatabase } from "./setup.ts";
-import { checkLibrary } from "./check.ts";
-import { Make, User } from "./models/index.ts";
-import { passwordProblem } from "../app/domain/passwords.ts";
-import { hashPassword } from "../app/services/password-hash.server.ts";
-import { seedDemo } from "./seeders/demo.ts";
+import { databasePath, sequelize } from "../db/index.server.ts";
+import { migrateUp } from "../db/migrate.ts";
+import { setupDatabase } from "../db/setup.ts";
+import { checkLibrary } from "../db/check.ts";
+import { Make, User } from "../db/models/index.ts";
+import { passwordProblem } from "./domain/passwords.ts";
+import { hashPassword } from "./infra/password-hash.server.ts";
+import { seedDemo } from "../db/seeders/demo.ts";
 
 const command = process.argv[2];
 try {
@@ -32,12 +32,12 @@ try {
     console.log(problems.length ? `${problems.length} problem(s) in the library` : "library consistent: wires, cavities, colours and circuits check out");
     process.exitCode = problems.length ? 1 : 0;
   } else if (command === "create-admin") {
-    // For a real deployment, where no demo accounts exist: ADMIN_PASSWORD=… tsx db/cli.ts create-admin email "Name"
+    // For a real deployment, where no demo accounts exist: ADMIN_PASSWORD=… tsx app/cli.server.ts create-admin email "Name"
     const [email, name] = [process.argv[3]?.trim().toLowerCase(), process.argv[4]?.trim()];
     const password = process.env.ADMIN_PASSWORD ?? "";
     const problem = passwordProblem(password, { email, displayName: name });
     if (!email || !name || problem) {
-      console.error(`usage: ADMIN_PASSWORD=… tsx db/cli.ts create-admin <email> <display name>${problem ? `\n${problem}` : ""}`);
+      console.error(`usage: ADMIN_PASSWORD=… tsx app/cli.server.ts create-admin <email> <display name>${problem ? `\n${problem}` : ""}`);
       process.exitCode = 2;
     } else {
       await migrateUp();
@@ -49,17 +49,17 @@ try {
   } else if (command === "sweep-photos") {
     // Leftovers of interrupted uploads (uploads/tmp older than 1 h, unreferenced photo files older than 24 h).
     await migrateUp();
-    const { sweepPhotos, UPLOADS_DIR } = await import("../app/services/photos.server.ts");
+    const { sweepPhotos, UPLOADS_DIR } = await import("./services/photos.server.ts");
     const r = await sweepPhotos();
     console.log(`${UPLOADS_DIR}: removed ${r.tmpRemoved} temporary, ${r.partsRemoved} partial and ${r.orphansRemoved} unreferenced file(s); kept ${r.kept}`);
   } else if (command === "search-reindex" || command === "search-reconcile") {
     // Rebuild the search service's index (and the database's own full-text copy) from the library, or repair drift.
     await setupDatabase();
-    const search = await import("../app/services/search.server.ts");
+    const search = await import("./services/search.server.ts");
     if (command === "search-reindex") console.log(`search index rebuilt: ${(await search.reindexAll()).documents} documents`);
     else console.log(`search index reconciled: ${JSON.stringify(await search.reconcile())}`);
   } else {
-    console.error("usage: tsx db/cli.ts migrate|seed|setup|reset|check|create-admin|sweep-photos|search-reindex|search-reconcile");
+    console.error("usage: tsx app/cli.server.ts migrate|seed|setup|reset|check|create-admin|sweep-photos|search-reindex|search-reconcile");
     process.exitCode = 2;
   }
 } finally {
