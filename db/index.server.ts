@@ -2,15 +2,17 @@ import path from "node:path";
 import { mkdirSync } from "node:fs";
 import { AsyncLocalStorage } from "node:async_hooks";
 import { Sequelize, Transaction } from "sequelize";
+import { env } from "../app/env.server.ts";
+import { faults } from "../app/infra/faults.server.ts";
 
 /** Where the SQLite file lives: DB_PATH, else db/data/loomlore.sqlite (":memory:" for throwaway use). */
 export function databasePath(): string {
-  return process.env.DB_PATH ?? path.resolve(process.cwd(), "db/data/loomlore.sqlite");
+  return env.DB_PATH;
 }
 
 // QUALITY D1/D2: busy_timeout ≥ 5000 ms (sqlite.org/c3ref/busy_timeout.html: sleep until that much has accumulated, then
 // SQLITE_BUSY). DB_BUSY_TIMEOUT_MS overrides it for a test that wants to see the timeout sooner.
-export const BUSY_TIMEOUT_MS = Number(process.env.DB_BUSY_TIMEOUT_MS ?? 5000);
+export const BUSY_TIMEOUT_MS = env.DB_BUSY_TIMEOUT_MS;
 
 /**
  * PRAGMA synchronous (QUALITY D1 "the documented choice"): FULL. sqlite.org/pragma.html#pragma_synchronous: with
@@ -78,8 +80,8 @@ function createSequelize(storage: string): Sequelize {
     try {
       await ready;
       // Test only (QUALITY D9, database full): cap the file so a write fails with SQLITE_FULL. Read at each transaction,
-      // so a test can set and lift it between transactions; unset in every real run.
-      const want = Math.max(0, Math.floor(Number(process.env.DB_MAX_PAGE_COUNT) || 0));
+      // so a test can set and lift it between transactions (app/infra/faults.server.ts); never set in a real run.
+      const want = Math.max(0, Math.floor(faults().maxPageCount ?? 0));
       if (writes && want !== cap) {
         await run(conn as never, `PRAGMA max_page_count = ${want || 4294967294}`);
         cap = want;

@@ -1,11 +1,11 @@
 /** Password hashing on its own (no database imports), shared by the auth service and the demo seeder. */
 import { createHash } from "node:crypto";
-import { availableParallelism } from "node:os";
 import { Worker } from "node:worker_threads";
 import bcrypt from "bcryptjs";
+import { env } from "../env.server.ts";
 
 /** bcrypt work factor: OWASP ASVS V2.4.4 floor 10; 12 measured at ≈ 245 ms here (QUALITY P7: highest with p50 ≤ 250 ms). */
-export const BCRYPT_COST = Math.max(10, Number(process.env.BCRYPT_COST ?? 12));
+export const BCRYPT_COST = env.BCRYPT_COST;
 
 // SHA-256 first, so passwords past bcrypt's 72-byte limit are neither truncated nor rejected (ASVS V2.4.4);
 // base64 keeps NUL bytes out of bcrypt's input.
@@ -35,7 +35,7 @@ let turn = 0;
 
 function pool(): Slot[] {
   if (slots) return slots;
-  const size = Number(process.env.BCRYPT_WORKERS ?? Math.max(1, availableParallelism() - 1));
+  const size = env.BCRYPT_WORKERS;
   slots = [];
   for (let i = 0; i < size; i++) {
     try {
@@ -75,8 +75,7 @@ export class HashingBusy extends Error {
   }
 }
 let inFlight = 0;
-const QUEUE_MAX_SET = Math.floor(Number(process.env.BCRYPT_QUEUE_MAX));
-const queueMax = (workers: number) => (QUEUE_MAX_SET > 0 ? QUEUE_MAX_SET : 2 * Math.max(1, workers));
+const queueMax = (workers: number) => env.BCRYPT_QUEUE_MAX ?? 2 * Math.max(1, workers);
 
 function run<T>(op: "hash" | "compare", a: string, b: string | number, inThread: () => Promise<T>, wait = false): Promise<T> {
   const live = pool();

@@ -13,13 +13,14 @@ import { ensureDatabase } from "./database.server";
 import { HashingBusy } from "~/infra/password-hash.server";
 import { enqueueMail } from "./mail.server";
 import { loginSucceeded, takeLoginAttempt, takeMailRequest, takeResetAttempt } from "./rate-limit.server";
+import { appUrl as configuredAppUrl } from "~/env.server";
 
 const VERIFY_TTL_MIN = 48 * 60;
 const RESET_TTL_MIN = 30;
 
 /** Where links in e-mails point: APP_URL, never the request's Host header (which a client can forge). */
 export function appUrl(): string {
-  return (process.env.APP_URL ?? `http://localhost:${process.env.PORT ?? 3000}`).replace(/\/$/, "");
+  return configuredAppUrl();
 }
 
 export class LoginError extends Error {}

@@ -11,6 +11,7 @@ import { sequelize } from "~db/index.server.ts";
 import { AuditLog, Session, Token, User } from "~db/models/index.ts";
 import type { Role } from "~/domain/roles";
 import { ensureDatabase } from "./database.server";
+import { env } from "~/env.server";
 
 export { BCRYPT_COST, hashPassword, verifyPassword } from "~/infra/password-hash.server";
 
@@ -19,7 +20,7 @@ const TOUCH_EVERY_MS = 60_000;
 /** A session not used for this long ends, whatever its absolute expiry (ASVS V3.3.2; the issue asked for ~14 days). */
 const SESSION_IDLE_DAYS = 14;
 const SESSION_IDLE_MS = SESSION_IDLE_DAYS * 86400_000;
-const production = process.env.NODE_ENV === "production";
+const production = env.NODE_ENV === "production";
 /** The session cookie: __Host- prefixed (Secure, Path=/, no Domain) in production (ASVS V3.4.4). */
 export const SESSION_COOKIE = production ? "__Host-loomlore" : "loomlore_session";
 

@@ -3,6 +3,7 @@ import { redirect } from "react-router";
 import { can, roleNeeded, type Action } from "~/domain/roles";
 import { currentSession, type SessionUser } from "./auth.server";
 import { apiError } from "./http.server";
+import { env } from "~/env.server";
 
 /** The signed-in user, or null. */
 export async function optionalUser(request: Request): Promise<SessionUser | null> {
@@ -36,7 +37,7 @@ export async function requireCan(request: Request, action: Action): Promise<{ us
  */
 export function allowedOrigins(request: Request): string[] {
   const own = new URL(request.url).origin;
-  const configured = (process.env.ALLOWED_ORIGINS ?? "").split(",").map((s) => s.trim()).filter((s) => s && s !== "*" && !s.includes("*"));
+  const configured = (env.ALLOWED_ORIGINS ?? "").split(",").map((s) => s.trim()).filter((s) => s && s !== "*" && !s.includes("*"));
   return [own, ...configured];
 }
 

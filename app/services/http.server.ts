@@ -1,4 +1,5 @@
 /** The one error shape of the JSON API (see API.md) and the small helpers every resource route uses. */
+import { env } from "~/env.server";
 
 export type ApiErrorCode =
   | "bad_request" | "unknown_colour" | "not_signed_in" | "forbidden" | "not_found" | "method_not_allowed"
@@ -86,8 +87,7 @@ export class FormFields {
 }
 
 /** The editor's form: 1 MiB (a pasted table, 20 000 characters of notes); the server's body watch holds it to the same. */
-const editorBytes = Math.floor(Number(process.env.EDITOR_FORM_MAX_BYTES));
-export const EDITOR_FORM_MAX_BYTES = editorBytes > 0 ? editorBytes : 1024 * 1024;
+export const EDITOR_FORM_MAX_BYTES = env.EDITOR_FORM_MAX_BYTES;
 
 /** The status and Retry-After header of a refused repeat (429), for `data(…, tooMany(s))`. */
 export function tooMany(retryAfterS: number): { status: 429; headers: Record<string, string> } {

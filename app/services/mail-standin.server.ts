@@ -1,10 +1,11 @@
 import { redactTokens } from "~/domain/mail-templates";
+import { env } from "~/env.server";
 
 /**
  * Read what the local mail stand-in captured (admin page), with single-use tokens redacted before the text leaves this
  * module (the page's data is serialised into the HTML); with a real relay configured there is nothing to read.
  */
-const LIST_URL = () => (process.env.MAIL_HTTP_URL ?? `http://127.0.0.1:${process.env.MAIL_HTTP_PORT ?? 8025}`).replace(/\/$/, "");
+const LIST_URL = () => (env.MAIL_HTTP_URL ?? `http://127.0.0.1:${env.MAIL_HTTP_PORT}`).replace(/\/$/, "");
 
 export interface CapturedMail { id: string; to: string; subject: string; text: string; receivedAt: string }
 

@@ -22,6 +22,7 @@ import { Op, Transaction, type InferAttributes } from "sequelize";
 import { sequelize } from "~db/index.server.ts";
 import { AuditLog, MailOutbox } from "~db/models/index.ts";
 import { redactTokens } from "~/domain/mail-templates";
+import { env } from "~/env.server";
 
 export interface OutgoingMail {
   kind: string;
@@ -38,8 +39,6 @@ export interface DeliveryCounts {
   failed: number;
 }
 
-const DEFAULT_SMTP_URL = "smtp://127.0.0.1:2525";
-const DEFAULT_FROM = "Loomlore <no-reply@loomlore.invalid>";
 const LEASE_MS = 60_000;
 const BATCH = 10;
 const GIVE_UP_AFTER_MS = 4 * 24 * 3600_000;
@@ -48,14 +47,10 @@ const MINUTE = 60_000;
 export const RETRY_DELAYS_MS = [1 * MINUTE, 5 * MINUTE, 30 * MINUTE, 120 * MINUTE, 360 * MINUTE, 720 * MINUTE] as const;
 const HEALTH_TIMEOUT_MS = 1_500;
 
-function positiveInt(raw: string | undefined, fallback: number): number {
-  const n = Number(raw);
-  return raw && Number.isInteger(n) && n > 0 ? n : fallback;
-}
-
-const smtpUrl = () => process.env.SMTP_URL || DEFAULT_SMTP_URL;
-const mailFrom = () => process.env.MAIL_FROM || DEFAULT_FROM;
-const timeoutMs = () => positiveInt(process.env.MAIL_TIMEOUT_MS, 5_000);
+// Read at each use (not copied at load), so a test may change a setting between cases.
+const smtpUrl = () => env.SMTP_URL;
+const mailFrom = () => env.MAIL_FROM;
+const timeoutMs = () => env.MAIL_TIMEOUT_MS;
 
 function isLoopback(hostname: string): boolean {
   return ["127.0.0.1", "localhost", "::1", "[::1]"].includes(hostname.toLowerCase());
@@ -273,7 +268,7 @@ type Holder = { [workerKey]?: Worker };
 export function startMailWorker(): void {
   const holder = globalThis as Holder;
   if (holder[workerKey]) return;
-  const interval = positiveInt(process.env.MAIL_POLL_MS, 2_000);
+  const interval = env.MAIL_POLL_MS;
   const w: Worker = { timer: null, running: null, stopped: false };
   holder[workerKey] = w;
   const schedule = (ms: number) => {

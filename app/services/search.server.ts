@@ -14,25 +14,22 @@ import { IndexJob } from "~db/models/index.ts";
 import { libraryDocs, rebuildFallbackIndex } from "~db/search-index.ts";
 import { SEARCH_SETTINGS, type SearchDoc, type SearchDocType } from "~/domain/search-docs";
 import { ensureDatabase } from "./database.server";
+import { env } from "~/env.server";
 
-const env = (k: string, d: number) => {
-  const v = Number(process.env[k]);
-  return Number.isFinite(v) && v > 0 ? v : d;
-};
-export const SEARCH_INDEX = process.env.SEARCH_INDEX || "library";
-const TIMEOUT_MS = () => env("SEARCH_TIMEOUT_MS", 300);
+export const SEARCH_INDEX = env.SEARCH_INDEX;
+const TIMEOUT_MS = () => env.SEARCH_TIMEOUT_MS;
 const BREAKER_FAILURES = 5;
-const BREAKER_OPEN_MS = () => env("SEARCH_BREAKER_MS", 30_000);
+const BREAKER_OPEN_MS = () => env.SEARCH_BREAKER_MS;
 
 let clientInstance: Meilisearch | null = null;
 /** The one client of this process. */
 export function searchClient(): Meilisearch {
-  clientInstance ??= new Meilisearch({ host: process.env.SEARCH_URL || "http://127.0.0.1:7700", apiKey: process.env.SEARCH_KEY || undefined, timeout: TIMEOUT_MS() });
+  clientInstance ??= new Meilisearch({ host: env.SEARCH_URL, apiKey: env.SEARCH_KEY, timeout: TIMEOUT_MS() });
   return clientInstance;
 }
 /** A client with a longer timeout for indexing work (never on a reader's request path). */
 function workClient(): Meilisearch {
-  return new Meilisearch({ host: process.env.SEARCH_URL || "http://127.0.0.1:7700", apiKey: process.env.SEARCH_KEY || undefined, timeout: env("SEARCH_WORK_TIMEOUT_MS", 10_000) });
+  return new Meilisearch({ host: env.SEARCH_URL, apiKey: env.SEARCH_KEY, timeout: env.SEARCH_WORK_TIMEOUT_MS });
 }
 
 // --- circuit breaker ------------------------------------------------------------------------------------------------
@@ -63,7 +60,7 @@ export async function searchHealthy(): Promise<boolean> {
 // --- indexing ---------------------------------------------------------------------------------------------------------
 
 async function waitOk(task: { taskUid: number }, client: Meilisearch) {
-  const done = await client.tasks.waitForTask(task.taskUid, { timeout: env("SEARCH_TASK_TIMEOUT_MS", 60_000), interval: 50 });
+  const done = await client.tasks.waitForTask(task.taskUid, { timeout: env.SEARCH_TASK_TIMEOUT_MS, interval: 50 });
   if (done.status !== "succeeded") throw new Error(`search task ${task.taskUid} ${done.status}: ${done.error?.message ?? ""}`);
 }
 
@@ -164,7 +161,7 @@ export async function reconcile(): Promise<{ added: number; updated: number; rem
 let worker: NodeJS.Timeout | null = null;
 /** Reconcile once, then drain index jobs every SEARCH_POLL_MS (2 s) in this process; off with SEARCH_WORKER=off. */
 export function startSearchWorker(): void {
-  if (worker || process.env.SEARCH_WORKER === "off") return;
+  if (worker || env.SEARCH_WORKER === "off") return;
   // First bring the index in line with the library (a fresh stand-in is empty; a restarted one may lag), then follow jobs.
   // If the service is away at start, the reconcile is tried again each round until it has run once: otherwise an
   // index that came up empty after the app would hold only what later jobs sent, until the next app start.
@@ -184,7 +181,7 @@ export function startSearchWorker(): void {
     } finally {
       busy = false;
     }
-  }, env("SEARCH_POLL_MS", 2000));
+  }, env.SEARCH_POLL_MS);
   worker.unref();
 }
 

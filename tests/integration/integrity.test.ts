@@ -46,7 +46,6 @@ beforeAll(async () => {
   process.env.SEARCH_WORKER = "off"; // F9 runs its drain by hand, at a known moment
   process.env.SEARCH_URL = "http://127.0.0.1:1"; // no search service: a drain fails at once and counts the attempt
   process.env.SMTP_URL = "smtp://127.0.0.1:1";
-  delete process.env.DB_MAX_PAGE_COUNT;
   delete process.env.DB_BUSY_TIMEOUT_MS;
   delete process.env.SEED_DEMO;
   db = await import("../../db/index.server.ts");
@@ -291,14 +290,15 @@ describe("D9 database full (QUALITY D9)", () => {
     const sql: string[] = [];
     const record = (_options: unknown, query: { sql?: string }) => { if (query?.sql) sql.push(query.sql); };
     db.sequelize.addHook("afterQuery", "d9-record", record as never);
-    process.env.DB_MAX_PAGE_COUNT = String(pages); // every new handle (each transaction) gets PRAGMA max_page_count
+    const { setFaults } = await import("../../app/infra/faults.server.ts");
+    setFaults({ maxPageCount: pages }); // each transaction sets PRAGMA max_page_count on the write handle
     let error: unknown;
     try {
       await svc.decide(moderator, id, { version, decision: "approve", message: "" });
     } catch (e) {
       error = e;
     } finally {
-      delete process.env.DB_MAX_PAGE_COUNT;
+      setFaults({});
       db.sequelize.removeHook("afterQuery", "d9-record");
     }
     expect(error, "the capped approval must fail").toBeDefined();

@@ -29,6 +29,8 @@ let mail: MailModule;
 let m: Models;
 let db: Db;
 let warn: ReturnType<typeof vi.spyOn>;
+/** The app's settings (read once from the environment at load): a case that changes one sets it here. */
+let settings: typeof import("../../app/env.server.ts").env;
 
 beforeAll(async () => {
   standIn = await startMailStandIn({ smtpPort: 0, httpPort: 0, dataDir: path.join(dir, "stand-in") });
@@ -42,6 +44,7 @@ beforeAll(async () => {
   const { setupDatabase } = await import("../../db/setup.ts");
   await setupDatabase({ seed: false });
   mail = await import("../../app/services/mail.server.ts");
+  settings = (await import("../../app/env.server.ts")).env;
   m = await import("../../db/models/index.ts");
   // Every failed try logs a line; keep the output readable (the secrets test reads these calls).
   warn = vi.spyOn(console, "warn").mockImplementation(() => {});
@@ -101,13 +104,14 @@ describe("enqueueMail", () => {
     expect(await m.AuditLog.count({ where: { action: "test.action" } })).toBe(1);
     expect(await inbox()).toEqual([]);
 
-    process.env.MAIL_FROM = "Loomlore workshop <post@mail.loomlore.invalid>";
+    const from = settings.MAIL_FROM;
+    settings.MAIL_FROM = "Loomlore workshop <post@mail.loomlore.invalid>";
     try {
       const y = sample();
       await mail.enqueueMail(y);
       expect((await rowFor(y.to)).messageId).toMatch(/@mail\.loomlore\.invalid>$/);
     } finally {
-      delete process.env.MAIL_FROM;
+      settings.MAIL_FROM = from;
     }
   });
 
@@ -353,8 +357,8 @@ describe("F3 SMTP down", () => {
   });
 
   it("never writes the relay's password to the log or to last_error", async () => {
-    const url = process.env.SMTP_URL!;
-    process.env.SMTP_URL = url.replace("smtp://", "smtp://outbox:hunter2-secret@");
+    const url = settings.SMTP_URL;
+    settings.SMTP_URL = url.replace("smtp://", "smtp://outbox:hunter2-secret@");
     warn.mockClear();
     try {
       const x = sample();
@@ -368,7 +372,7 @@ describe("F3 SMTP down", () => {
       for (const call of warn.mock.calls) expect(call.join(" ")).not.toContain("hunter2");
       expect(await mail.mailHealthy()).toBe(false);
     } finally {
-      process.env.SMTP_URL = url;
+      settings.SMTP_URL = url;
     }
   });
 
@@ -462,7 +466,8 @@ describe("health and the worker loop", () => {
   });
 
   it("startMailWorker delivers in the background (idempotent), stopMailWorker stops it", async () => {
-    process.env.MAIL_POLL_MS = "50";
+    const poll = settings.MAIL_POLL_MS;
+    settings.MAIL_POLL_MS = 50;
     try {
       mail.startMailWorker();
       mail.startMailWorker();
@@ -481,7 +486,7 @@ describe("health and the worker loop", () => {
       expect((await inbox()).length).toBe(2);
     } finally {
       await mail.stopMailWorker();
-      delete process.env.MAIL_POLL_MS;
+      settings.MAIL_POLL_MS = poll;
     }
   });
 });
