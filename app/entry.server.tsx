@@ -11,10 +11,12 @@ import { renderToPipeableStream } from "react-dom/server";
 import type { AppLoadContext, EntryContext, HandleErrorFunction } from "react-router";
 import { ServerRouter } from "react-router";
 import { documentCsp, newNonce } from "./services/csp.server";
-import { watchEventLoop } from "./infra/event-loop.server";
+import { startApp } from "./startup.server";
 
-// The loop's delay is sampled from the moment the server loads (reported by /api/v1/health).
-watchEventLoop();
+// The composition root, for app/serve.server.ts to call before it listens (build.entry.module.startApp). Under the dev
+// server (`npm run dev`) nothing else starts the app, so this module does it as it loads.
+export { startApp, stopApp } from "./startup.server";
+if (import.meta.env.DEV) await startApp();
 
 export const streamTimeout = 5_000;
 

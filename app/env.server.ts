@@ -36,6 +36,11 @@ const schema = z.object({
   ALLOWED_ORIGINS: text,
   TRUST_PROXY: text,
 
+  // npm start (app/start.server.ts) only
+  REBUILD: z.preprocess(blank, z.enum(["0", "1"], { error: "expected 1 (rebuild) or 0" }).default("0")).transform((v) => v === "1"),
+  MAIL_STANDIN: onOff,
+  SEARCH_STANDIN: onOff,
+
   DB_PATH: z.preprocess(blank, z.string().default(path.resolve(process.cwd(), "db/data/loomlore.sqlite"))),
   DB_BUSY_TIMEOUT_MS: whole("milliseconds", 0, 600_000).default(5000),
   SEED_DEMO: z.preprocess(blank, z.enum(["true", "false"], { error: "expected true or false" }).default("true")).transform((v) => v === "true"),
@@ -97,8 +102,19 @@ export function parseSettings(source: Record<string, string | undefined>): Setti
   throw new SettingsError(parsed.error.issues.map((i) => ({ variable: String(i.path[0] ?? "?"), expected: i.message })));
 }
 
-/** The app's settings, read once when the server loads. */
-export const env: Settings = parseSettings(process.env);
+/**
+ * The app's settings, read once when the process loads them. A bad value ends the process here with one line naming
+ * each bad variable (exit 1): nothing has started yet, and nothing would work right on a silent default.
+ */
+export const env: Settings = (() => {
+  try {
+    return parseSettings(process.env);
+  } catch (e) {
+    if (!(e instanceof SettingsError)) throw e;
+    console.error(`[loomlore] ${e.message}`);
+    process.exit(1);
+  }
+})();
 
 /** Where links in mail point (never taken from the request). */
 export const appUrl = () => (env.APP_URL ?? `http://localhost:${env.PORT}`).replace(/\/$/, "");

@@ -1,6 +1,7 @@
 // The production server: React Router's request handler on Express, with the few things the stock
 // `react-router-serve` cannot be told: our error shape for undecodable URLs, explicit timeouts, and what to do with a
 // request body nobody is going to read to the end (QUALITY.md F6 and F7).
+import "./env.server.ts"; // first: the settings are checked before anything else loads (a bad one stops the start)
 import { randomBytes } from "node:crypto";
 import http from "node:http";
 import type { Socket } from "node:net";
@@ -366,6 +367,9 @@ const server = http.createServer({
   connectionsCheckingInterval: Math.max(250, Math.min(2_000, Math.floor(headersTimeout / 4))),
 }, app);
 
+// The app starts (migrate, seed when asked, the workers: app/startup.server.ts) before the server listens, so no
+// request waits on a migration; on SIGTERM the server stops taking requests, the workers finish their pass, then exit.
+await build.entry.module.startApp();
 const port = Number(process.env.PORT ?? 3000);
 const host = process.env.HOST;
 if (host) server.listen(port, host);
@@ -373,7 +377,8 @@ else server.listen(port);
 server.on("listening", () => console.log(`[loomlore] listening on http://${host ?? "localhost"}:${port}`));
 for (const sig of ["SIGINT", "SIGTERM"] as const) {
   process.on(sig, () => {
-    server.close(() => process.exit(0));
-    setTimeout(() => process.exit(0), 3_000).unref();
+    server.close(() => void build.entry.module.stopApp().finally(() => process.exit(0))); // after requests in flight
+    server.closeIdleConnections();
+    setTimeout(() => process.exit(0), 5_000).unref();
   });
 }

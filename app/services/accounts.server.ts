@@ -9,7 +9,6 @@ import {
   audit, consumeToken, currentSession, dummyVerify, hashPassword, issueToken, revokeSessions, sequelize, startSession, tokenIsLive, User, verifyPassword,
   type SessionUser,
 } from "./auth.server";
-import { ensureDatabase } from "./database.server";
 import { HashingBusy } from "~/infra/password-hash.server";
 import { enqueueMail } from "./mail.server";
 import { loginSucceeded, takeLoginAttempt, takeMailRequest, takeResetAttempt } from "./rate-limit.server";
@@ -55,7 +54,6 @@ function busy(e: HashingBusy, values: Record<string, string>): FormResult {
 
 /** Sign in from the login form: limits first (before bcrypt), then the strategy, then a fresh session. */
 export async function signIn(request: Request, ip: string): Promise<{ ok: true; setCookie: string; user: SessionUser } | FormResult> {
-  await ensureDatabase();
   const fields = formFields(await request.clone().formData());
   const values = { email: fields.email ?? "" };
   const limited = await takeLoginAttempt((fields.email ?? "").trim().toLowerCase(), ip);
@@ -85,7 +83,6 @@ export async function signIn(request: Request, ip: string): Promise<{ ok: true; 
  * so the form cannot be used to find out who has one.
  */
 export async function join(request: Request, ip: string): Promise<{ ok: true; email: string } | FormResult> {
-  await ensureDatabase();
   const fields = formFields(await request.formData());
   const values = { email: fields.email ?? "", displayName: fields.displayName ?? "" };
   const parsed = joinForm.safeParse(fields);
@@ -114,7 +111,6 @@ export async function join(request: Request, ip: string): Promise<{ ok: true; em
 
 /** Confirm an address from its link: single use; a verified rider becomes a contributor. */
 export async function verifyAddress(token: string): Promise<{ ok: boolean }> {
-  await ensureDatabase();
   return sequelize.transaction(async (transaction) => {
     const user = await consumeToken(token, "verify", transaction);
     if (!user) return { ok: false };
@@ -138,7 +134,6 @@ export async function resendVerification(user: SessionUser, ip: string): Promise
 
 /** Forgot password: always the same answer; a link goes out only to an address with an account. */
 export async function requestReset(email: string, ip: string): Promise<{ ok: boolean; retryAfterS?: number }> {
-  await ensureDatabase();
   const limited = await takeMailRequest(ip, email);
   if (!limited.ok) return { ok: false, retryAfterS: limited.retryAfterS };
   await sequelize.transaction(async (transaction) => {
@@ -152,7 +147,6 @@ export async function requestReset(email: string, ip: string): Promise<{ ok: boo
 
 /** Set a new password from a reset link: single use, short-lived; every session of the account ends. */
 export async function resetPassword(token: string, password: string, ip = "unknown"): Promise<{ ok: true } | { ok: false; error: string; field?: string; status?: number; retryAfterS?: number }> {
-  await ensureDatabase();
   // Limits and the token first: a made-up token costs a lookup, never a bcrypt hash or a write lock.
   const limited = await takeResetAttempt(token, ip);
   if (!limited.ok) return { ok: false, status: 429, retryAfterS: limited.retryAfterS, error: `Too many attempts. Try again in ${Math.ceil(limited.retryAfterS / 60)} minute(s).` };

@@ -4,13 +4,11 @@ import { libraryDocs, writeFallbackDocs } from "~db/search-index.ts";
 import { isRole, type Role } from "~/domain/roles";
 import { audit, revokeSessions, sequelize } from "./auth.server";
 import { forgetFamilyGraph } from "./circuits.server";
-import { ensureDatabase } from "./database.server";
 import { forgetFinderIndex } from "./finder.server";
 import { redactTokens } from "~/domain/mail-templates";
 
 /** Every account with its role, newest first. */
 export async function listUsers() {
-  await ensureDatabase();
   const users = await User.findAll({ order: [["createdAt", "DESC"]], limit: 200 });
   return users.map((u) => ({ id: u.id, email: u.email, displayName: u.displayName, role: u.role, verified: !!u.emailVerifiedAt, createdAt: u.createdAt.toISOString(), disabled: !!u.disabledAt }));
 }
@@ -41,7 +39,6 @@ export async function revokeUser(actorId: number, userId: number) {
 
 /** The latest audit entries with the actor's name. */
 export async function listAudit(limit = 100) {
-  await ensureDatabase();
   const rows = await AuditLog.findAll({ order: [["id", "DESC"]], limit });
   const users = await User.findAll({ where: { id: rows.map((r) => r.actorId).filter((x): x is number => !!x) } });
   return rows.map((r) => ({ id: r.id, at: r.at.toISOString(), actor: users.find((u) => u.id === r.actorId)?.displayName ?? "—", action: r.action, subject: `${r.subjectType} ${r.subjectId ?? ""}`.trim(), detail: r.detail }));
@@ -50,14 +47,12 @@ export async function listAudit(limit = 100) {
 /** The latest messages in the outbox, with their delivery state. */
 /** The outbox for the admin page: a queued message's live token is redacted here too (the page never holds one). */
 export async function listOutbox(limit = 100) {
-  await ensureDatabase();
   const rows = await MailOutbox.findAll({ order: [["id", "DESC"]], limit });
   return rows.map((m) => ({ id: m.id, kind: m.kind, to: m.toAddr, subject: m.subject, status: m.status, attempts: m.attempts, createdAt: m.createdAt.toISOString(), sentAt: m.sentAt?.toISOString() ?? null, lastError: m.lastError, text: redactTokens(m.text) }));
 }
 
 /** Makes and families for the admin page. */
 export async function listLibrary() {
-  await ensureDatabase();
   const [makes, families] = await Promise.all([Make.findAll({ order: [["name", "ASC"]] }), Family.findAll({ order: [["name", "ASC"]] })]);
   return {
     makes: makes.map((m) => ({ id: m.id, slug: m.slug, name: m.name, colourSystem: m.colourSystem })),

@@ -10,7 +10,6 @@ import { Op, type Transaction } from "sequelize";
 import { sequelize } from "~db/index.server.ts";
 import { AuditLog, Session, Token, User } from "~db/models/index.ts";
 import type { Role } from "~/domain/roles";
-import { ensureDatabase } from "./database.server";
 import { env } from "~/env.server";
 
 export { BCRYPT_COST, hashPassword, verifyPassword } from "~/infra/password-hash.server";
@@ -76,7 +75,6 @@ export async function startSession(request: Request, userId: number, transaction
 export async function currentSession(request: Request): Promise<{ user: SessionUser; sessionId: number } | null> {
   const token = cookieValue(request);
   if (!token || token.length > 100) return null;
-  await ensureDatabase();
   const session = await Session.findOne({ where: { tokenHash: sha256(token), revokedAt: null, expiresAt: { [Op.gt]: new Date() } } });
   if (!session) return null;
   // Idle timeout beside the absolute one (ASVS V3.3.2): a session unused for SESSION_IDLE_DAYS ends.

@@ -7,7 +7,6 @@ import { ENGINE_STATES, type EngineState } from "~/domain/electrics";
 import type { PlannerInput } from "~/domain/loom-planner";
 import { resolveSwitches, type GraphEdge } from "~/domain/loom-graph";
 import { wastedSparkPairs } from "~/domain/wasted-spark";
-import { ensureDatabase } from "./database.server";
 import { isSlug } from "~/validation/library";
 
 type Loaded = Awaited<ReturnType<typeof load>>;
@@ -22,7 +21,6 @@ export function forgetFamilyGraph(slug?: string) {
 
 async function load(slug: string) {
   if (!isSlug(slug)) return null;
-  await ensureDatabase();
   const family = await Family.findOne({ where: { slug }, include: [{ model: Make, as: "make" }] });
   if (!family) return null;
   const g = await loadFamilyGraph(family.id);

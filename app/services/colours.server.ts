@@ -1,7 +1,6 @@
 /** Decoding a colour code for GET /api/v1/colours/decode and the /colours page: in a make's notation and house style when one is named. */
 import { Make } from "~db/models/index.ts";
 import { SYSTEM_NAMES, decodeColour, houseFor, type ColourSystemId, type DecodedColour, type HouseStyleId } from "~/domain/colours";
-import { ensureDatabase } from "./database.server";
 import { isSlug } from "~/validation/library";
 
 export interface MakeColourStyle {
@@ -15,7 +14,6 @@ export interface MakeColourStyle {
 /** A make's notation and house style, or null when there is no such make. */
 export async function makeColourStyle(slug: string): Promise<MakeColourStyle | null> {
   if (!isSlug(slug)) return null;
-  await ensureDatabase();
   const make = await Make.findOne({ where: { slug } });
   if (!make) return null;
   return { slug: make.slug, name: make.name, notation: make.colourSystem as ColourSystemId, houseStyle: houseFor(make.colourSystem, make.houseStyle) };

@@ -1,30 +1,29 @@
 import { sequelize } from "~db/index.server.ts";
 import { setupDatabase } from "~db/setup.ts";
-import { startMailWorker } from "./mail.server";
-import { startPhotoSweeper } from "./photos.server";
-import { startSearchWorker } from "./search.server";
+import { env } from "~/env.server";
 
-let ready: Promise<void> | null = null;
+let ready = false;
+let setup: Promise<void> | null = null;
 
-/** Make sure the schema is migrated (and, on an empty database, the demo seeded) before the first query. */
-export function ensureDatabase(): Promise<void> {
-  ready ??= (async () => {
-    await setupDatabase({ seed: process.env.SEED_DEMO !== "false" });
-    // The outbox worker runs inside the app process once the schema is there (MAIL_WORKER=off to leave it out).
-    if (process.env.MAIL_WORKER !== "off") startMailWorker();
-    startPhotoSweeper(); // interrupted uploads' leftovers, at start and hourly (PHOTO_SWEEPER=off to leave it out)
-    startSearchWorker(); // reconcile the search index with the library once, then drain index jobs (SEARCH_WORKER=off)
-  })().catch((e) => {
-    ready = null;
-    throw e;
-  });
-  return ready;
+/** Called by app/startup.server.ts once the schema is migrated (and the demo seeded, when asked). */
+export function markDatabaseReady(): void {
+  ready = true;
 }
 
-/** Whether the database answers (for the health route). */
+/** Migrate (and seed when the settings ask) if nothing has yet: for code run outside the server's start-up. */
+export function ensureDatabase(): Promise<void> {
+  if (ready) return Promise.resolve();
+  setup ??= setupDatabase({ seed: env.SEED_DEMO }).then(markDatabaseReady, (e) => {
+    setup = null;
+    throw e;
+  });
+  return setup;
+}
+
+/** Whether the database answers (for the health route): started, and a trivial query goes through. */
 export async function databaseHealthy(): Promise<boolean> {
+  if (!ready) return false;
   try {
-    await ensureDatabase();
     await sequelize.query("SELECT 1");
     return true;
   } catch {

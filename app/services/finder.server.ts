@@ -2,7 +2,6 @@
 import { Connector, Family, Make, Pin, System } from "~db/models/index.ts";
 import { buildFinderIndex, findConnectors, type FinderConnector, type FinderIndex, type FinderQuery } from "~/domain/colour-finder";
 import { decodeColour, houseFor, type ColourSystemId } from "~/domain/colours";
-import { ensureDatabase } from "./database.server";
 
 let index: Promise<FinderIndex> | null = null;
 
@@ -12,7 +11,6 @@ export function forgetFinderIndex() {
 }
 
 async function build(): Promise<FinderIndex> {
-  await ensureDatabase();
   const [families, systems, connectors, pins] = await Promise.all([
     Family.findAll({ include: [{ model: Make, as: "make" }] }), System.findAll(), Connector.findAll(), Pin.findAll(),
   ]);

@@ -1,12 +1,10 @@
 /** A rider's garage (saved cards and bikes), bike-checked confirmations and mistake reports; always scoped to the owner. */
 import { BikeCheck, Connector, Family, GarageItem, Make, MistakeReport } from "~db/models/index.ts";
 import { audit, sequelize } from "./auth.server";
-import { ensureDatabase } from "./database.server";
 import { isSlug } from "~/validation/library";
 
 /** The garage of one user. */
 export async function listGarage(userId: number) {
-  await ensureDatabase();
   const items = await GarageItem.findAll({ where: { userId }, order: [["createdAt", "DESC"]] });
   const connectors = await Connector.findAll({ where: { id: items.map((i) => i.connectorId).filter((x): x is number => !!x) } });
   const families = await Family.findAll({ where: { id: [...items.map((i) => i.familyId), ...connectors.map((c) => c.familyId)].filter((x): x is number => !!x) }, include: [{ model: Make, as: "make" }] });

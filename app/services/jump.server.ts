@@ -1,10 +1,8 @@
 import { Op } from "sequelize";
 import { Family } from "~db/models/index.ts";
-import { ensureDatabase } from "./database.server";
 
 /** Resolve what a rider typed in the quick-jump box to one family slug: exact slug, exact name, or a single name match. */
 export async function resolveFamily(typed: string): Promise<string | null> {
-  await ensureDatabase();
   // Control characters (a NUL above all) never reach a query: Sequelize's SQLite dialect inlines string values.
   // eslint-disable-next-line no-control-regex
   const t = typed.replace(/[\u0000-\u001f\u007f]/g, "").trim().slice(0, 120);

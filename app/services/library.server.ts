@@ -4,7 +4,6 @@ import { Component, Connector, Family, Make, Photo, Pin, Revision, SpecValue, Sy
 import { decodeColour, describeColour, houseFor, type ColourSystemId, type HouseStyleId } from "~/domain/colours";
 import { facePaint, type CavityPaint } from "~/domain/face-paint";
 import { faceGeometry, type FaceHalf, type FaceSide, type HousingLayout } from "~/domain/connector-face";
-import { ensureDatabase } from "./database.server";
 import { bikeChecks } from "./garage.server";
 import { photoUrls } from "./photos.server";
 import { isSlug } from "~/validation/library";
@@ -29,7 +28,6 @@ function familySummary(f: Family & { make?: Make }): FamilySummary {
 
 /** Every make with its number of families, by name. */
 export async function listMakes(): Promise<MakeSummary[]> {
-  await ensureDatabase();
   const makes = await Make.findAll({ order: [["name", "ASC"]] });
   const counts = await Family.count({ group: ["make_id"] });
   const byMake = new Map((counts as unknown as { make_id: number; count: number }[]).map((c) => [c.make_id, c.count]));
@@ -39,7 +37,6 @@ export async function listMakes(): Promise<MakeSummary[]> {
 /** One make and its families, or null. */
 export async function getMake(slug: string) {
   if (!isSlug(slug)) return null;
-  await ensureDatabase();
   const make = await Make.findOne({ where: { slug } });
   if (!make) return null;
   const families = await Family.findAll({ where: { makeId: make.id }, include: [{ model: Make, as: "make" }], order: [["yearFrom", "ASC"], ["name", "ASC"]] });
@@ -48,7 +45,6 @@ export async function getMake(slug: string) {
 
 /** Families, optionally of one make and/or covering one model year. */
 export async function listFamilies(q: { make?: string; year?: number; limit: number; offset: number }) {
-  await ensureDatabase();
   const where: Record<string | symbol, unknown> = {};
   if (q.year !== undefined) Object.assign(where, { yearFrom: { [Op.lte]: q.year }, yearTo: { [Op.gte]: q.year } });
   const include = [{ model: Make, as: "make", ...(q.make ? { where: { slug: q.make } } : {}) }];
@@ -73,7 +69,6 @@ const paintFor = (pins: Pin[], system: ColourSystemId, houseStyle: HouseStyleId 
 /** A family with its systems and their connectors (thumbnails included), or null. */
 export async function getFamily(slug: string) {
   if (!isSlug(slug)) return null;
-  await ensureDatabase();
   const family = await Family.findOne({ where: { slug }, include: [{ model: Make, as: "make" }] });
   if (!family) return null;
   const systems = await System.findAll({ where: { familyId: family.id }, order: [["id", "ASC"]] });
@@ -108,7 +103,6 @@ export interface PinRow {
 /** The published connector card in the API's shape (plus display extras), or null. */
 export async function getConnectorCard(slug: string) {
   if (!isSlug(slug)) return null;
-  await ensureDatabase();
   const c = await Connector.findOne({ where: { slug } });
   if (!c) return null;
   const [family, system, mate, owner, pins, specs, photos, revisions] = await Promise.all([
@@ -207,7 +201,6 @@ async function wireDestinations(pins: Pin[]) {
 /** Just a connector's housing layout and revision (what the face route needs), or null. */
 export async function getConnectorLayout(slug: string): Promise<{ slug: string; revision: number; layout: HousingLayout } | null> {
   if (!isSlug(slug)) return null;
-  await ensureDatabase();
   const c = await Connector.findOne({ where: { slug } });
   return c ? { slug: c.slug, revision: c.revision, layout: layoutOf(c) } : null;
 }
@@ -235,7 +228,6 @@ export function cardCsv(card: ConnectorCard): string {
 
 /** Every card's slug and name, grouped by family (for the contributor's "edit a card" picker). */
 export async function cardsByFamily() {
-  await ensureDatabase();
   const families = await Family.findAll({ include: [{ model: Make, as: "make" }], order: [["name", "ASC"]] });
   const connectors = await Connector.findAll({ attributes: ["slug", "name", "familyId"], order: [["name", "ASC"]] });
   return families.map((f) => ({

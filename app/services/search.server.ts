@@ -13,7 +13,6 @@ import { sequelize } from "~db/index.server.ts";
 import { IndexJob } from "~db/models/index.ts";
 import { libraryDocs, rebuildFallbackIndex } from "~db/search-index.ts";
 import { SEARCH_SETTINGS, type SearchDoc, type SearchDocType } from "~/domain/search-docs";
-import { ensureDatabase } from "./database.server";
 import { env } from "~/env.server";
 
 export const SEARCH_INDEX = env.SEARCH_INDEX;
@@ -82,7 +81,6 @@ async function putDocs(docs: SearchDoc[], client: Meilisearch) {
 
 /** Rebuild everything from the database: the service's index and the database's own full-text copy. */
 export async function reindexAll(): Promise<{ documents: number }> {
-  await ensureDatabase();
   const client = workClient();
   await rebuildFallbackIndex();
   await configureIndex(client);
@@ -109,7 +107,6 @@ async function markCovered(covered: number): Promise<void> {
 
 /** Push the outstanding index jobs to the service (oldest first); a job stays until the service has taken it. */
 export async function drainIndexJobs(limit = 200): Promise<{ done: number; failed: number }> {
-  await ensureDatabase();
   const jobs = await IndexJob.findAll({ where: { doneAt: null }, order: [["id", "ASC"]], limit });
   if (!jobs.length) return { done: 0, failed: 0 };
   const client = workClient();
@@ -137,7 +134,6 @@ export async function drainIndexJobs(limit = 200): Promise<{ done: number; faile
  * and repair the difference (add missing or stale ones, delete extras). Twice in a row, the second finds nothing.
  */
 export async function reconcile(): Promise<{ added: number; updated: number; removed: number }> {
-  await ensureDatabase();
   const client = workClient();
   await configureIndex(client);
   const covered = await lastJobId();
@@ -159,30 +155,41 @@ export async function reconcile(): Promise<{ added: number; updated: number; rem
 }
 
 let worker: NodeJS.Timeout | null = null;
-/** Reconcile once, then drain index jobs every SEARCH_POLL_MS (2 s) in this process; off with SEARCH_WORKER=off. */
+let pass: Promise<unknown> | null = null; // the reconcile or drain in progress, for stopSearchWorker to wait on
+/** Reconcile once, then drain index jobs every SEARCH_POLL_MS (2 s) in this process (app/startup.server.ts starts it). */
 export function startSearchWorker(): void {
-  if (worker || env.SEARCH_WORKER === "off") return;
+  if (worker) return;
   // First bring the index in line with the library (a fresh stand-in is empty; a restarted one may lag), then follow jobs.
   // If the service is away at start, the reconcile is tried again each round until it has run once: otherwise an
   // index that came up empty after the app would hold only what later jobs sent, until the next app start.
   let busy = true;
   let reconciled = false;
-  reconcile().then(() => { reconciled = true; }, () => { /* service away: retried below */ }).finally(() => { busy = false; });
-  worker = setInterval(async () => {
+  pass = reconcile().then(() => { reconciled = true; }, () => { /* service away: retried below */ }).finally(() => { busy = false; });
+  worker = setInterval(() => {
     if (busy) return;
     busy = true;
-    try {
-      if (!reconciled) {
-        await reconcile();
-        reconciled = true;
-      } else await drainIndexJobs();
-    } catch {
-      /* the next round tries again */
-    } finally {
-      busy = false;
-    }
+    pass = (async () => {
+      try {
+        if (!reconciled) {
+          await reconcile();
+          reconciled = true;
+        } else await drainIndexJobs();
+      } catch {
+        /* the next round tries again */
+      } finally {
+        busy = false;
+      }
+    })();
   }, env.SEARCH_POLL_MS);
   worker.unref();
+}
+
+/** Stop the worker and wait for a pass in progress (jobs not yet sent stay in index_jobs for the next start). */
+export async function stopSearchWorker(): Promise<void> {
+  if (worker) clearInterval(worker);
+  worker = null;
+  await pass?.catch(() => {});
+  pass = null;
 }
 
 // --- searching --------------------------------------------------------------------------------------------------------
@@ -245,7 +252,6 @@ const FACET_COLUMNS = [["type", "type"], ["make", "make_slug"], ["family", "fami
 
 /** The FTS5 fallback: every word as a prefix, all of them required; ranked by bm25 with the title weighted up. */
 async function fromDatabase(q: SearchQuery): Promise<Omit<SearchResult, "source" | "tookMs">> {
-  await ensureDatabase();
   const words = q.q.normalize("NFKC").split(/\s+/).map((w) => w.replace(/["*^():{}[\]\\]/g, "").trim()).filter(Boolean).slice(0, 12);
   const match = words.length ? words.map((w) => `"${w}"*`).join(" AND ") : null;
   // the filters, on columns both tables have
