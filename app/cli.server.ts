@@ -8,6 +8,8 @@ import { Make, User } from "../db/models/index.ts";
 import { passwordProblem } from "./domain/passwords.ts";
 import { hashPassword } from "./infra/password-hash.server.ts";
 import { seedDemo } from "../db/seeders/demo.ts";
+import { env } from "./env.server.ts";
+import { NO_WORKERS, startApp, stopApp } from "./startup.server.ts";
 
 const command = process.argv[2];
 try {
@@ -19,7 +21,7 @@ try {
     if ((await Make.count()) > 0) console.log("library not empty: seed skipped (npm run db:reset starts over)");
     else { await seedDemo(); console.log("demo library seeded"); }
   } else if (command === "setup") {
-    const seeded = await setupDatabase();
+    const seeded = await setupDatabase({ seed: env.SEED_DEMO });
     console.log(`database ready at ${databasePath()}${seeded ? " (demo library seeded)" : ""}`);
   } else if (command === "reset") {
     await sequelize.close();
@@ -53,8 +55,9 @@ try {
     const r = await sweepPhotos();
     console.log(`${UPLOADS_DIR}: removed ${r.tmpRemoved} temporary, ${r.partsRemoved} partial and ${r.orphansRemoved} unreferenced file(s); kept ${r.kept}`);
   } else if (command === "search-reindex" || command === "search-reconcile") {
-    // Rebuild the search service's index (and the database's own full-text copy) from the library, or repair drift.
-    await setupDatabase();
+    // Rebuild the search service's index (and the database's own full-text copy) from the library, or repair drift:
+    // the app started without its workers (this command does the one job and exits).
+    await startApp({ workers: NO_WORKERS });
     const search = await import("./services/search.server.ts");
     if (command === "search-reindex") console.log(`search index rebuilt: ${(await search.reindexAll()).documents} documents`);
     else console.log(`search index reconciled: ${JSON.stringify(await search.reconcile())}`);
@@ -63,5 +66,5 @@ try {
     process.exitCode = 2;
   }
 } finally {
-  await sequelize.close().catch(() => {});
+  await stopApp().catch(() => {});
 }
