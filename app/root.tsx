@@ -5,6 +5,7 @@ import "@fontsource/source-sans-3/600.css";
 import "@fontsource/source-sans-3/700.css";
 import "./app.css";
 
+import { ErrorPage } from "~/components/error-page";
 import { SearchBox } from "~/components/search-box";
 import { can } from "~/domain/roles";
 import { optionalUser } from "~/services/guards.server";
@@ -100,28 +101,9 @@ export default function App() {
 /** One boundary for the unexpected: a real 404 page, and a plain apology with an id for anything else. */
 export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
   const root = useRouteLoaderData<typeof loader>("root");
-  if (isRouteErrorResponse(error) && error.status === 404) {
-    return (
-      <section className="max-w-2xl">
-        <title>Not found · Loomlore</title>
-        <h1 className="text-3xl font-bold">Nothing here</h1>
-        <p className="mt-3 text-lg">{typeof error.data === "string" && error.data ? error.data : "This page is not in the library."}</p>
-        <p className="mt-4"><Link to="/" className="font-semibold text-signal-dark">Back to the library</Link> or look up a code in the <Link to="/colours" className="font-semibold text-signal-dark">colour codes</Link>.</p>
-      </section>
-    );
-  }
   const status = isRouteErrorResponse(error) ? error.status : 500;
   if (!isRouteErrorResponse(error)) console.error(error);
-  const requestId = status >= 500 ? root?.requestId : null;
-  return (
-    <section className="max-w-2xl">
-      <title>Something went wrong · Loomlore</title>
-      <h1 className="text-3xl font-bold">Something went wrong</h1>
-      <p className="mt-3 text-lg">
-        {status === 400 && isRouteErrorResponse(error) && typeof error.data === "string" ? error.data : "The page could not be shown. Try again in a moment; if it keeps happening, tell us what you were doing."}
-      </p>
-      {requestId ? <p className="mt-3 text-muted" data-testid="error-id">Error id <code>{requestId}</code> — please quote it if you tell us.</p> : null}
-      <p className="mt-4"><Link to="/" className="font-semibold text-signal-dark">Back to the library</Link></p>
-    </section>
-  );
+  // A thrown message (a string) is the site's own words for this case; anything else is not shown.
+  const detail = isRouteErrorResponse(error) && typeof error.data === "string" && error.data && status < 500 ? error.data : null;
+  return <ErrorPage status={status} detail={detail} requestId={status >= 500 ? root?.requestId ?? null : null} />;
 }
