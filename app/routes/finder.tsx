@@ -8,6 +8,9 @@ import { COLOUR_NAMES, swatch } from "~/domain/colours";
 import { FADING_PAIRS } from "~/domain/colour-finder";
 import { findByColours } from "~/services/finder.server";
 import { listFamilies } from "~/services/library.server";
+import { formFields, issueSentence } from "~/validation/forms";
+import { finderBody, finderQuery } from "~/validation/workshop";
+import { splitWires } from "~/domain/wire-list";
 
 export const meta: Route.MetaFunction = () => [
   { title: "Colour finder: identify a cut-off plug · Loomlore" },
@@ -23,23 +26,21 @@ type Candidate = {
 // The house where a notation has several (jis), else the notation: what the rider needs to see which reading was used.
 const readAsLabel = (r: ReadAs) => `${r.houseStyle && r.system === "jis" ? r.houseStyle : r.system.toUpperCase()}: ${r.words}`;
 
-const splitWires = (raw: string) => raw.split(/[\n,;]+/).map((w) => w.trim()).filter(Boolean);
 const PICKABLE = COLOUR_NAMES.filter((c) => c !== "gold" && c !== "silver");
 const SYSTEMS = ["ignition", "charging", "starting", "lighting", "signals", "instruments"] as const;
 
 export async function loader({ request }: Route.LoaderArgs) {
-  const url = new URL(request.url);
-  const add = url.searchParams.get("add");
-  const wires = [...splitWires(url.searchParams.get("wires") ?? ""), ...(add ? [add] : [])];
-  const pinCount = Number(url.searchParams.get("pinCount")) || undefined;
-  const gender = (["plug", "socket"] as const).find((g) => g === url.searchParams.get("gender"));
-  const family = url.searchParams.get("family") || undefined;
-  const familyMode = url.searchParams.get("familyMode") === "boost" ? "boost" as const : "filter" as const;
-  const system = SYSTEMS.find((s) => s === url.searchParams.get("system"));
+  // The query string is read into the API's body and checked by the API's own schema (app/validation/workshop.ts).
+  const query = finderQuery.parse(formFields(new URL(request.url).searchParams));
   const { families } = await listFamilies({ limit: 100, offset: 0 });
-  const form = { wires: wires.join("\n"), pinCount: pinCount ? String(pinCount) : "", gender: gender ?? "", family: family ?? "", familyMode, system: system ?? "" };
-  if (!wires.length) return { form, families, candidates: null as Candidate[] | null, error: null as string | null, tookMs: null as number | null };
-  const { result, tookMs } = await findByColours({ wires, pinCount, gender, family, familyMode, system });
+  const form = {
+    wires: query.wires.join("\n"), pinCount: query.pinCount !== undefined ? String(query.pinCount) : "", gender: query.gender ?? "",
+    family: query.family ?? "", familyMode: query.familyMode === "boost" ? "boost" : "filter", system: query.system ?? "",
+  };
+  if (!query.wires.length) return { form, families, candidates: null as Candidate[] | null, error: null as string | null, tookMs: null as number | null };
+  const checked = finderBody.safeParse(query);
+  if (!checked.success) return { form, families, candidates: null, error: issueSentence(checked.error.issues).message, tookMs: null };
+  const { result, tookMs } = await findByColours(checked.data);
   if (!result.ok) return { form, families, candidates: null, error: result.error.message, tookMs };
   return { form, families, candidates: result.candidates as Candidate[], error: null, tookMs };
 }

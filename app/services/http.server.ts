@@ -1,5 +1,6 @@
 /** The one error shape of the JSON API (see API.md) and the small helpers every resource route uses. */
 import { env } from "~/env.server";
+import { issueSentence, type Issue } from "~/validation/forms";
 
 export type ApiErrorCode =
   | "bad_request" | "unknown_colour" | "not_signed_in" | "forbidden" | "not_found" | "method_not_allowed"
@@ -28,10 +29,9 @@ export function cachedJson(request: Request, body: unknown, etag?: string) {
 }
 
 /** Turn a zod failure into our 400 with the first offending field named. */
-export function validationError(issues: { path: PropertyKey[]; message: string }[]) {
-  const first = issues[0];
-  const field = first?.path.map(String).join(".") || undefined;
-  return apiError(400, "bad_request", field ? `${field}: ${first.message}` : first?.message ?? "The request was not understood.", field);
+export function validationError(issues: Issue[]) {
+  const { message, field } = issueSentence(issues);
+  return apiError(400, "bad_request", message, field);
 }
 
 const MAX_JSON_BYTES = 64 * 1024;

@@ -15,22 +15,8 @@ export const forgotForm = z.object({ email });
 export const resetForm = z.object({ token: z.string().min(10).max(200), password });
 export const changePasswordForm = z.object({ current: z.string().max(1024), password, signOutOthers: z.string().optional() });
 
-/** A form's fields as a plain object of strings (files and repeated fields ignored). */
-export function formFields(form: FormData): Record<string, string> {
-  const out: Record<string, string> = {};
-  for (const [k, v] of form) if (typeof v === "string" && !(k in out)) out[k] = v;
-  return out;
-}
-
-/** zod issues as {field: message}, first message per field. */
-export function fieldErrors(issues: { path: PropertyKey[]; message: string }[]): Record<string, string> {
-  const out: Record<string, string> = {};
-  for (const i of issues) {
-    const k = String(i.path[0] ?? "form");
-    out[k] ??= i.message;
-  }
-  return out;
-}
+// The form helpers live in ./forms (one mapper for every page); re-exported for the account pages that import them here.
+export { fieldErrors, formFields } from "./forms";
 
 const slugRule = z.string().trim().toLowerCase().max(60).regex(/^[a-z0-9]+(?:-[a-z0-9]+)*$/, "Use lowercase letters, digits and dashes.");
 export const makeForm = z.object({

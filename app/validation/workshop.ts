@@ -1,12 +1,13 @@
 import { z } from "zod";
 import { OVER_LIMIT } from "~/domain/bench";
 import { SPEC_MATERIALS } from "~/domain/specs";
+import { splitWires } from "~/domain/wire-list";
 
 const finite = z.number({ error: "must be a number" }).finite("must be a finite number");
 
 export const finderBody = z.object({
   wires: z.array(z.string().trim().min(1, "an empty wire colour").max(60)).min(1, "give at least one wire colour").max(40, "at most 40 wires"),
-  pinCount: z.number().int().min(1).max(200).optional(),
+  pinCount: z.number({ error: "must be a whole number of pins from 1 to 200" }).int("must be a whole number of pins from 1 to 200").min(1, "must be a whole number of pins from 1 to 200").max(200, "must be a whole number of pins from 1 to 200").optional(),
   gender: z.enum(["plug", "socket"]).optional(),
   family: z.string().max(120).regex(/^[a-z0-9]+(?:-[a-z0-9]+)*$/, "must be a family slug, e.g. rx750-four").optional(),
   familyMode: z.enum(["filter", "boost"]).optional(),
@@ -14,6 +15,23 @@ export const finderBody = z.object({
   notation: z.enum(["auto", "jis", "iec", "din", "bs", "en"]).optional(),
   limit: z.number().int().min(1).max(50).optional(),
 });
+
+
+const param = z.string().max(4000).optional();
+const blankToUndefined = (v: string | undefined) => (v === undefined || v.trim() === "" ? undefined : v.trim());
+/**
+ * The finder page's query string (the form, sent with GET so a result has an address), read into the API's body shape
+ * and then checked by `finderBody`, the schema POST /api/v1/colour-finder uses: the same input, the same answer.
+ */
+export const finderQuery = z.object({ wires: param, add: param, pinCount: param, gender: param, family: param, familyMode: param, system: param })
+  .transform((q) => ({
+    wires: [...splitWires(q.wires ?? ""), ...(blankToUndefined(q.add) ? [q.add!.trim()] : [])],
+    pinCount: blankToUndefined(q.pinCount) === undefined ? undefined : Number(q.pinCount),
+    gender: blankToUndefined(q.gender),
+    family: blankToUndefined(q.family),
+    familyMode: blankToUndefined(q.familyMode),
+    system: blankToUndefined(q.system),
+  }));
 
 export const wireSizeBody = z.object({
   currentA: finite.positive("must be more than 0 A").max(1000),
