@@ -1,5 +1,6 @@
 import type { Route } from "./+types/api.v1.connectors.$slug";
 import { apiError, cachedJson, methodNotAllowed, validationError } from "~/services/http.server";
+import { toApiConnector } from "~/services/api-mappers.server";
 import { cardCsv, getConnectorCard } from "~/services/library.server";
 import { connectorQuery, searchParams } from "~/validation/library";
 
@@ -9,7 +10,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   if (!q.success) return validationError(q.error.issues);
   const found = await getConnectorCard(params.slug);
   if (!found) return apiError(404, "not_found", `There is no connector card "${params.slug}" in the library.`);
-  const { paint: _paint, id: _id, ...connector } = found.connector;
+  const connector = toApiConnector(found.connector);
   if (q.data.format === "csv") {
     return new Response(cardCsv(found.connector), {
       headers: {

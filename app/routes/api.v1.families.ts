@@ -1,5 +1,6 @@
 import type { Route } from "./+types/api.v1.families";
 import { cachedJson, methodNotAllowed, validationError } from "~/services/http.server";
+import { toApiFamilySummary } from "~/services/api-mappers.server";
 import { listFamilies } from "~/services/library.server";
 import { familiesQuery, searchParams } from "~/validation/library";
 
@@ -7,7 +8,8 @@ import { familiesQuery, searchParams } from "~/validation/library";
 export async function loader({ request }: Route.LoaderArgs) {
   const q = familiesQuery.safeParse(searchParams(request));
   if (!q.success) return validationError(q.error.issues);
-  return cachedJson(request, await listFamilies(q.data));
+  const page = await listFamilies(q.data);
+  return cachedJson(request, { ...page, families: page.families.map(toApiFamilySummary) });
 }
 
 export const action = () => methodNotAllowed();

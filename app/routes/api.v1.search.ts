@@ -2,6 +2,7 @@ import type { Route } from "./+types/api.v1.search";
 import { methodNotAllowed, validationError } from "~/services/http.server";
 import { searchLibrary } from "~/services/search.server";
 import { searchParams, searchQuery } from "~/validation/library";
+import { toApiSearchHit } from "~/services/api-mappers.server";
 
 /**
  * One box for the library: families, connector cards and pins, with facets. `source` says who answered: "index" (the
@@ -13,7 +14,7 @@ export async function loader({ request }: Route.LoaderArgs) {
   if (!q.success) return validationError(q.error.issues);
   const r = await searchLibrary(q.data);
   return Response.json(
-    { hits: r.hits, facets: r.facets, total: r.total, limit: q.data.limit, offset: q.data.offset, source: r.source, reduced: r.source === "database", tookMs: r.tookMs },
+    { hits: r.hits.map(toApiSearchHit), facets: r.facets, total: r.total, limit: q.data.limit, offset: q.data.offset, source: r.source, reduced: r.source === "database", tookMs: r.tookMs },
     { headers: { "Cache-Control": "no-store" } },
   );
 }
