@@ -6,6 +6,8 @@ import { FaceView } from "~/components/face-view";
 import { faceGeometry } from "~/domain/connector-face";
 import { SPEC_KIND_LABELS, specKindOf, splitSharedConditions } from "~/domain/specs";
 import { tooMany } from "~/services/http.server";
+import { answered, fieldErrors, formFields, refusal } from "~/validation/forms";
+import { cardActionForm } from "~/validation/garage";
 import { takeAction } from "~/services/rate-limit.server";
 import { can } from "~/domain/roles";
 import { checkCard, reportMistake, riderCardState, saveCard } from "~/services/garage.server";
@@ -41,36 +43,31 @@ export const headers: Route.HeadersFunction = ({ actionHeaders, loaderHeaders })
 
 /** A rider's refused repeat of a limited action: 429 with Retry-After. */
 const limitedAnswer = (retryAfterS: number) =>
-  data({ done: "", error: `You have done that many times this hour. Try again in ${Math.ceil(retryAfterS / 60)} minute(s).` }, tooMany(retryAfterS));
+  data(refusal({ form: `You have done that many times this hour. Try again in ${Math.ceil(retryAfterS / 60)} minute(s).` }), tooMany(retryAfterS));
+const noSuchCard = () => data(refusal({ form: "No such card." }), { status: 404 });
 
-/** A rider's actions on a card: save it, confirm it on their bike, report a mistake. Each checks its own role and its limit. */
+/** What each intent needs: the role, and the hourly limit it counts against. */
+const INTENTS = { save: ["garage.save", "garage-add"], check: ["card.check", "bike-check"], report: ["card.report", "report"] } as const;
+
+/**
+ * A rider's actions on a card: save it, confirm it on their bike, report a mistake. Each checks its own role and its
+ * limit first, then the form (app/validation/garage.ts).
+ */
 export async function action({ request, params }: Route.ActionArgs) {
-  const form = await request.formData();
-  const intent = String(form.get("intent") ?? "");
-  if (intent === "save") {
-    const { user } = await requireCan(request, "garage.save");
-    const limited = await takeAction("garage-add", user.id);
-    if (!limited.ok) return limitedAnswer(limited.retryAfterS);
-    return (await saveCard(user.id, params.connector)) ? { done: "Saved to your garage.", error: "" } : data({ done: "", error: "No such card." }, { status: 404 });
-  }
-  if (intent === "check") {
-    const { user } = await requireCan(request, "card.check");
-    const limited = await takeAction("bike-check", user.id);
-    if (!limited.ok) return limitedAnswer(limited.retryAfterS);
-    const raw = String(form.get("year") ?? "").trim();
-    const year = raw ? Number(raw) : null;
-    if (year !== null && (!Number.isInteger(year) || year < 1900 || year > 2100)) return data({ done: "", error: "Enter your bike's model year, like 1979." }, { status: 400 });
-    return (await checkCard(user.id, params.connector, year)) ? { done: "Thanks: marked as checked on your bike.", error: "" } : data({ done: "", error: "No such card." }, { status: 404 });
-  }
-  if (intent === "report") {
-    const { user } = await requireCan(request, "card.report");
-    const limited = await takeAction("report", user.id);
-    if (!limited.ok) return limitedAnswer(limited.retryAfterS);
-    const text = String(form.get("text") ?? "").trim();
-    if (text.length < 5 || text.length > 2000) return data({ done: "", error: "Say what is wrong in a sentence or two (at most 2000 characters)." }, { status: 400 });
-    return (await reportMistake(user.id, params.connector, text)) ? { done: "Thanks: a moderator will look at your report.", error: "" } : data({ done: "", error: "No such card." }, { status: 404 });
-  }
-  return data({ done: "", error: "Unknown request." }, { status: 400 });
+  const fields = formFields(await request.formData());
+  const intent = fields.intent as keyof typeof INTENTS;
+  if (!Object.hasOwn(INTENTS, intent)) return data(refusal({ form: "Unknown request." }), { status: 400 });
+  const [role, limit] = INTENTS[intent];
+  const { user } = await requireCan(request, role);
+  const limited = await takeAction(limit, user.id);
+  if (!limited.ok) return limitedAnswer(limited.retryAfterS);
+  const parsed = cardActionForm.safeParse(fields);
+  // The card's forms are one line each: the first problem is the whole answer.
+  if (!parsed.success) return data(refusal({ form: Object.values(fieldErrors(parsed.error.issues))[0] ?? "Unknown request." }, fields), { status: 400 });
+  const f = parsed.data;
+  if (f.intent === "save") return (await saveCard(user.id, params.connector)) ? answered("Saved to your garage.") : noSuchCard();
+  if (f.intent === "check") return (await checkCard(user.id, params.connector, f.year)) ? answered("Thanks: marked as checked on your bike.") : noSuchCard();
+  return (await reportMistake(user.id, params.connector, f.text)) ? answered("Thanks: a moderator will look at your report.") : noSuchCard();
 }
 
 const LATCH_WORDS = { top: "latch at the top", bottom: "latch at the bottom", left: "latch on the left", right: "latch on the right" } as const;
@@ -262,7 +259,7 @@ export default function ConnectorCardPage({ loaderData, actionData }: Route.Comp
       <section aria-labelledby="yours" className="no-print rounded-md border border-rule bg-white p-4">
         <h2 id="yours" className="text-lg font-bold">On your bike</h2>
         {actionData?.done ? <p role="status" className="mt-1 font-semibold">{actionData.done}</p> : null}
-        {actionData?.error ? <p role="alert" className="mt-1 font-semibold text-signal-dark">{actionData.error}</p> : null}
+        {actionData?.errors.form ? <p role="alert" className="mt-1 font-semibold text-signal-dark">{actionData.errors.form}</p> : null}
         {rider ? (
           <div className="mt-2 flex flex-wrap items-start gap-4">
             {can(rider.role, "garage.save") ? (

@@ -6,6 +6,8 @@ import { requireCan } from "~/services/guards.server";
 import { listFamilies } from "~/services/library.server";
 import { tooMany } from "~/services/http.server";
 import { takeAction } from "~/services/rate-limit.server";
+import { answered, fieldErrors, formFields, refusal } from "~/validation/forms";
+import { garageForm } from "~/validation/garage";
 
 export const meta: Route.MetaFunction = () => [{ title: "Your garage · Loomlore" }];
 
@@ -20,25 +22,23 @@ export const headers: Route.HeadersFunction = ({ actionHeaders, loaderHeaders })
 
 export async function action({ request }: Route.ActionArgs) {
   const { user } = await requireCan(request, "garage.save");
-  const form = await request.formData();
-  const intent = form.get("intent");
-  if (intent === "remove") {
-    await removeItem(user.id, Number(form.get("id")));
-    return { errors: {} as Record<string, string>, values: {} as Record<string, string> };
+  const fields = formFields(await request.formData());
+  const parsed = garageForm.safeParse(fields);
+  if (!parsed.success) {
+    const { intent, ...errors } = fieldErrors(parsed.error.issues);
+    return data(refusal(intent ? { form: intent } : errors, fields), { status: 400 }); // an unknown intent is the form's problem
   }
-  if (intent === "bike") {
-    const values = { family: String(form.get("family") ?? ""), year: String(form.get("year") ?? ""), label: String(form.get("label") ?? "") };
-    const limited = await takeAction("garage-add", user.id);
-    if (!limited.ok) {
-      return data({ errors: { form: `You have added many bikes this hour. Try again in ${Math.ceil(limited.retryAfterS / 60)} minute(s).` } as Record<string, string>, values }, tooMany(limited.retryAfterS));
-    }
-    const year = values.year.trim() ? Number(values.year) : null;
-    if (year !== null && !Number.isInteger(year)) return data({ errors: { year: "Enter a year like 1979." } as Record<string, string>, values }, { status: 400 });
-    const r = await addBike(user.id, values.family, year, values.label.trim());
-    if (!r.ok) return data({ errors: { [r.field]: r.error } as Record<string, string>, values }, { status: 400 });
-    return { errors: {} as Record<string, string>, values: {} as Record<string, string> };
+  const f = parsed.data;
+  if (f.intent === "remove") {
+    await removeItem(user.id, f.id);
+    return answered("");
   }
-  return data({ errors: { form: "Unknown request." } as Record<string, string>, values: {} as Record<string, string> }, { status: 400 });
+  const values = { family: f.family, year: fields.year ?? "", label: f.label };
+  const limited = await takeAction("garage-add", user.id);
+  if (!limited.ok) return data(refusal({ form: `You have added many bikes this hour. Try again in ${Math.ceil(limited.retryAfterS / 60)} minute(s).` }, values), tooMany(limited.retryAfterS));
+  const r = await addBike(user.id, f.family, f.year, f.label);
+  if (!r.ok) return data(refusal({ [r.field]: r.error }, values), { status: 400 });
+  return answered("");
 }
 
 export default function GaragePage({ loaderData, actionData }: Route.ComponentProps) {
