@@ -1,9 +1,9 @@
 /**
  * Test-only fault switches, behind one seam. Production code asks `faults()` at the points a test may break (an upload
  * killed mid-way, a disk that fills, a database file at its cap); nothing in production turns one on. Only code sets
- * them: a test in the same process calls `setFaults()`, and a test server or child is started with
- * `--import ./tests/support/faults.ts`, which reads its own LOOMLORE_TEST_FAULTS variable. A stray variable in a real
- * environment (CRASH_AT, say) does nothing. Kept on globalThis: the server build bundles its own copy of this module.
+ * them: a test calls `setFaults()` in its own process (a crash test's child process does so itself). No environment
+ * variable reaches them, so a stray one in a real environment (CRASH_AT, say) does nothing. Kept on globalThis, so two
+ * copies of this module (source and bundle) see the same switches.
  */
 export interface Faults {
   /** SIGKILL the process when an upload reaches this point (photos: mid-body, after-tmp, mid-sharp, after-rename, mid-insert). */
