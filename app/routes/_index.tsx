@@ -2,6 +2,8 @@ import { Form, Link, redirect } from "react-router";
 import type { Route } from "./+types/_index";
 import { listFamilies, listMakes } from "~/services/library.server";
 import { resolveFamily } from "~/services/jump.server";
+import { homeQuery } from "~/validation/pages";
+import { searchParams } from "~/validation/library";
 
 export const meta: Route.MetaFunction = () => [
   { title: "Loomlore · connector cards for classic bike looms" },
@@ -9,7 +11,7 @@ export const meta: Route.MetaFunction = () => [
 ];
 
 export async function loader({ request }: Route.LoaderArgs) {
-  const typed = new URL(request.url).searchParams.get("family");
+  const typed = homeQuery.parse(searchParams(request)).family;
   if (typed) {
     const slug = await resolveFamily(typed);
     if (slug) throw redirect(`/families/${slug}`);

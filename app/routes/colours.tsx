@@ -6,6 +6,8 @@ import { colourSystems, describeColour, houseStyles, swatch, type ColourName, ty
 import { decodeForMake, type DecodeAnswer } from "~/services/colours.server";
 import { listMakes } from "~/services/library.server";
 import { decodeQuery, searchParams } from "~/validation/library";
+import { coloursFormQuery } from "~/validation/pages";
+import { issueSentence } from "~/validation/forms";
 
 export const meta: Route.MetaFunction = () => [
   { title: "Colour codes and translator · Loomlore" },
@@ -22,13 +24,12 @@ type Decoded = { ok: true; value: Value } | { ok: false; message: string } | nul
 type Typed = { code: string; system: string; make: string };
 
 export async function loader({ request }: Route.LoaderArgs) {
-  const url = new URL(request.url);
-  const form: Typed = { code: url.searchParams.get("code") ?? "", system: url.searchParams.get("system") ?? "auto", make: url.searchParams.get("make") ?? "" };
+  const form: Typed = coloursFormQuery.parse(searchParams(request));
   const makes = (await listMakes()).map(({ slug, name, colourSystem, houseStyle }) => ({ slug, name, colourSystem, houseStyle }));
   let decoded: Decoded = null;
   if (form.code.trim()) {
     const q = decodeQuery.safeParse(searchParams(request));
-    if (!q.success) decoded = { ok: false, message: `${q.error.issues[0].path.join(".")}: ${q.error.issues[0].message}` };
+    if (!q.success) decoded = { ok: false, message: issueSentence(q.error.issues).message };
     else {
       const r = await decodeForMake(q.data);
       decoded = r.ok ? { ok: true, value: r.value } : { ok: false, message: r.message };

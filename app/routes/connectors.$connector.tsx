@@ -14,6 +14,8 @@ import { checkCard, reportMistake, riderCardState, saveCard } from "~/services/g
 import { optionalUser, requireCan } from "~/services/guards.server";
 import { getConnectorCard } from "~/services/library.server";
 import { renderNotes } from "~/services/markdown.server";
+import { cardPageQuery } from "~/validation/pages";
+import { searchParams } from "~/validation/library";
 
 export const meta: Route.MetaFunction = ({ loaderData }) => [
   { title: loaderData ? `${loaderData.card.name} · ${loaderData.card.family.make.name} ${loaderData.card.family.name} · Loomlore` : "Not found · Loomlore" },
@@ -22,9 +24,7 @@ export const meta: Route.MetaFunction = ({ loaderData }) => [
 export async function loader({ params, request }: Route.LoaderArgs) {
   const found = await getConnectorCard(params.connector);
   if (!found) throw data(`There is no connector card “${params.connector}” in the library.`, { status: 404 });
-  const url = new URL(request.url);
-  const view = url.searchParams.get("view") === "wire" ? "wire" : "mating";
-  const cavity = url.searchParams.get("cavity");
+  const { view, cavity, published } = cardPageQuery.parse(searchParams(request));
   const card = found.connector;
   const user = await optionalUser(request);
   return {
@@ -33,7 +33,7 @@ export async function loader({ params, request }: Route.LoaderArgs) {
     view,
     highlight: card.pins.some((p) => p.cavity === cavity) ? cavity : null,
     // After a moderator's approval the review page lands here with ?published=<revision>.
-    published: url.searchParams.get("published") === String(card.revision.number) ? card.revision.number : null,
+    published: published === card.revision.number ? card.revision.number : null,
     notesHtml: card.notes ? renderNotes(card.notes) : "",
   } as const;
 }

@@ -7,6 +7,8 @@ import { submissionApiError } from "~/services/submission-http.server";
 import { listSubmissions, newIdempotencyKey, SubmissionError, startSubmission } from "~/services/submissions.server";
 import { cardsByFamily } from "~/services/library.server";
 import { familyRequestFromForm, familyRequestSchema } from "~/validation/submissions";
+import { contributeQuery } from "~/validation/pages";
+import { searchParams } from "~/validation/library";
 
 export const meta: Route.MetaFunction = () => [{ title: "Contribute · Loomlore" }];
 
@@ -15,7 +17,7 @@ export async function loader({ request }: Route.LoaderArgs) {
   const [{ families }, makes, mine, cards] = await Promise.all([
     listFamilies({ limit: 100, offset: 0 }), listMakes(), listSubmissions(user, { mine: true, limit: 100, offset: 0 }), cardsByFamily(),
   ]);
-  const edit = new URL(request.url).searchParams.get("card") ?? "";
+  const edit = contributeQuery.parse(searchParams(request)).card;
   return { families, makes, mine: mine.submissions, cards, edit, key: newIdempotencyKey() };
 }
 

@@ -3,16 +3,14 @@ import type { Route } from "./+types/review";
 import { requireCan } from "~/services/guards.server";
 import { listFamilies, listMakes } from "~/services/library.server";
 import { reviewQueue } from "~/services/submissions.server";
-import { isSlug } from "~/validation/library";
+import { searchParams } from "~/validation/library";
+import { reviewQuery } from "~/validation/pages";
 
 export const meta: Route.MetaFunction = () => [{ title: "Review queue · Loomlore" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
   await requireCan(request, "review.work");
-  const url = new URL(request.url);
-  const make = url.searchParams.get("make") ?? "";
-  const family = url.searchParams.get("family") ?? "";
-  const filters = { make: isSlug(make) ? make : undefined, family: isSlug(family) ? family : undefined };
+  const filters = reviewQuery.parse(searchParams(request));
   const [{ items }, makes, { families }] = await Promise.all([reviewQueue(filters), listMakes(), listFamilies({ limit: 100, offset: 0 })]);
   return { items, makes, families, filters };
 }
