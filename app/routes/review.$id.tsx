@@ -9,6 +9,8 @@ import { photoUrls } from "~/domain/photo-urls";
 import { isBusyOrFull } from "~/services/submission-http.server";
 import { closeReport, decide, SubmissionError, viewReport, viewSubmission } from "~/services/submissions.server";
 import { LIMITS } from "~/domain/submissions";
+import { fieldErrors, formFields, type Issue } from "~/validation/forms";
+import { reportDecisionForm, submissionDecisionForm } from "~/validation/review";
 
 export const meta: Route.MetaFunction = ({ loaderData }) => [
   { title: loaderData?.kind === "submission" ? `Review: ${loaderData.s.content.name || "Untitled card"} · Loomlore` : "Review a mistake report · Loomlore" },
@@ -40,18 +42,19 @@ export async function action({ request, params }: Route.ActionArgs) {
   const { user } = await requireCan(request, "review.work");
   const key = parseKey(params.id);
   if (!key) throw data("There is no such item.", { status: 404 });
-  const form = await request.formData();
-  const message = String(form.get("message") ?? "").slice(0, LIMITS.message);
-  const decision = String(form.get("decision") ?? "");
+  const fields = formFields(await request.formData());
+  const refuse = (issues: Issue[]) => data({ error: Object.values(fieldErrors(issues))[0] ?? "Choose what to do." }, { status: 400 });
   try {
     if (key.kind === "report") {
-      if (decision !== "resolved" && decision !== "dismissed") return data({ error: "Choose what to do with the report." }, { status: 400 });
-      await closeReport(user, key.id, decision, message);
+      const f = reportDecisionForm.safeParse(fields);
+      if (!f.success) return refuse(f.error.issues);
+      await closeReport(user, key.id, f.data.decision, f.data.message);
       throw redirect("/review?closed=report");
     }
-    if (decision !== "approve" && decision !== "return" && decision !== "decline") return data({ error: "Choose approve, return or decline." }, { status: 400 });
-    if (decision !== "approve" && !message.trim()) return data({ error: decision === "return" ? "Write the question the contributor should answer." : "Give the reason for declining; the contributor reads it." }, { status: 400 });
-    const outcome = await decide(user, key.id, { version: Number(form.get("version")), decision, message });
+    const f = submissionDecisionForm.safeParse(fields);
+    if (!f.success) return refuse(f.error.issues);
+    const { decision, message, version } = f.data;
+    const outcome = await decide(user, key.id, { version, decision, message });
     if (outcome.connector) throw redirect(`/connectors/${outcome.connector}?published=${outcome.revision}`);
     throw redirect(`/review?done=${decision}`);
   } catch (e) {
