@@ -6,7 +6,8 @@ import { listFamilies, listMakes } from "~/services/library.server";
 import { submissionApiError } from "~/services/submission-http.server";
 import { listSubmissions, newIdempotencyKey, SubmissionError, startSubmission } from "~/services/submissions.server";
 import { cardsByFamily } from "~/services/library.server";
-import { familyRequestFromForm, familyRequestSchema } from "~/validation/submissions";
+import { contributeForm, familyRequestFromForm, familyRequestSchema } from "~/validation/submissions";
+import { fieldErrors, formFields } from "~/validation/forms";
 import { contributeQuery } from "~/validation/pages";
 import { searchParams } from "~/validation/library";
 
@@ -27,28 +28,26 @@ type Errors = Record<string, string>;
 export async function action({ request }: Route.ActionArgs) {
   const { user } = await requireCan(request, "submission.create");
   const form = await request.formData();
-  const intent = String(form.get("intent") ?? "");
-  const key = String(form.get("key") ?? "") || undefined;
   const fail = (errors: Errors, status = 400) => data({ errors }, { status });
+  const chosen = contributeForm.safeParse(formFields(form));
+  if (!chosen.success) {
+    const { intent, ...errors } = fieldErrors(chosen.error.issues);
+    return fail(intent ? { form: intent } : errors);
+  }
+  const c = chosen.data;
   try {
     let started;
-    if (intent === "edit") {
-      const card = String(form.get("card") ?? "");
-      if (!card) return fail({ card: "Choose the card to edit." });
-      started = await startSubmission(user, { connector: card, idempotencyKey: key });
-    } else if (intent === "new") {
-      const family = String(form.get("family") ?? "");
-      if (!family) return fail({ family: "Choose the family the connector belongs to." });
-      started = await startSubmission(user, { family, idempotencyKey: key });
-    } else if (intent === "family-request") {
+    if (c.intent === "edit") started = await startSubmission(user, { connector: c.card, idempotencyKey: c.key });
+    else if (c.intent === "new") started = await startSubmission(user, { family: c.family, idempotencyKey: c.key });
+    else {
       const parsed = familyRequestSchema.safeParse(familyRequestFromForm(form));
       if (!parsed.success) {
         const errors: Errors = {};
         for (const i of parsed.error.issues) errors[`familyRequest.${i.path.join(".")}`] ??= i.message;
         return fail(errors);
       }
-      started = await startSubmission(user, { familyRequest: parsed.data, idempotencyKey: key });
-    } else return fail({ form: "Unknown request." });
+      started = await startSubmission(user, { familyRequest: parsed.data, idempotencyKey: c.key });
+    }
     throw redirect(`/submissions/${started.id}`);
   } catch (e) {
     if (e instanceof Response) throw e;

@@ -181,3 +181,11 @@ export function familyRequestFromForm(form: FormData): unknown {
   for (const [k, v] of form) if (k.startsWith("familyRequest.") && typeof v === "string") out[k.slice("familyRequest.".length)] = v;
   return Object.keys(out).length ? out : undefined;
 }
+
+/** /contribute's three ways to start: edit a card, a new card in a family, or a new card asking for a new family. */
+const idempotencyKey = z.string().max(100).optional().transform((k) => k || undefined);
+export const contributeForm = z.discriminatedUnion("intent", [
+  z.object({ intent: z.literal("edit"), card: z.string({ error: "Choose the card to edit." }).trim().min(1, "Choose the card to edit."), key: idempotencyKey }),
+  z.object({ intent: z.literal("new"), family: z.string({ error: "Choose the family the connector belongs to." }).trim().min(1, "Choose the family the connector belongs to."), key: idempotencyKey }),
+  z.object({ intent: z.literal("family-request"), key: idempotencyKey }), // the request itself: familyRequestSchema
+], { error: "Unknown request." });
