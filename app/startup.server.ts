@@ -12,7 +12,7 @@ import { env } from "./env.server";
 import { watchEventLoop } from "./infra/event-loop.server";
 import { markDatabaseReady } from "./services/database.server";
 import { startMailWorker, stopMailWorker } from "./services/mail.server";
-import { startPhotoSweeper } from "./services/photos.server";
+import { startPhotoSweeper, stopPhotoSweeper } from "./services/photos.server";
 import { startSearchWorker, stopSearchWorker } from "./services/search.server";
 
 export interface Workers {
@@ -51,7 +51,8 @@ export function startApp(o: { seed?: boolean; workers?: Workers } = {}): Promise
 
 /** Stop the workers (each finishes the pass it is in), then close the database. */
 export async function stopApp(): Promise<void> {
-  await Promise.allSettled([stopMailWorker(), stopSearchWorker()]); // the sweeper's timer is unref'd: it never holds the exit
+  stopPhotoSweeper();
+  await Promise.allSettled([stopMailWorker(), stopSearchWorker()]);
   running = NO_WORKERS;
   started = null;
   await sequelize.close().catch(() => {});

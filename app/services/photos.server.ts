@@ -18,6 +18,6 @@ export { ALLOWED_LOADERS } from "./photos/process.server";
 export { PhotoError, photoErrorResponse } from "./photos/errors.server";
 export { receivePhotos, type StoredPhoto } from "./photos/receive.server";
 export { photoForViewer } from "./photos/access.server";
-export { deleteRemovedPhotoFiles, startPhotoSweeper, sweepPhotos, type SweepResult } from "./photos/sweeper.server";
+export { deleteRemovedPhotoFiles, startPhotoSweeper, stopPhotoSweeper, sweepPhotos, type SweepResult } from "./photos/sweeper.server";
 // The public addresses of a photo's display size and thumbnail: one definition, shared with the client.
 export { photoUrls } from "~/domain/photo-urls";

@@ -43,11 +43,10 @@ beforeAll(async () => {
   process.env.PHOTO_SWEEPER = "off";
   process.env.SMTP_URL = "smtp://127.0.0.1:1";
   delete process.env.SEED_DEMO;
-  delete process.env.CRASH_AT;
   db = await import("../../db/index.server.ts");
   expect(db.databasePath()).toBe(dbPath);
   P = await import("../../app/services/photos.server.ts");
-  await (await import("../../app/services/database.server.ts")).ensureDatabase();
+  await (await import("../../db/setup.ts")).setupDatabase(); // migrate and seed the demo accounts
   m = await import("../../db/models/index.ts");
   const u = await m.User.findOne({ where: { email: "contributor@loomlore.invalid" } });
   user = { id: u!.id, role: u!.role };
@@ -87,7 +86,7 @@ function runChild(jobs: { body: "file" | "stdin"; crashAt?: string }[], cut?: nu
   };
   const env: Record<string, string | undefined> = {
     ...process.env, DB_PATH: dbPath, UPLOADS_DIR: uploads, MAIL_WORKER: "off", PHOTO_SWEEPER: "off",
-    PHOTO_PER_SUBMISSION: "1000", PHOTO_USER_COUNT: "1000", CRASH_AT: undefined, UPLOAD_FAULT: undefined,
+    PHOTO_PER_SUBMISSION: "1000", PHOTO_USER_COUNT: "1000",
   };
   const proc = spawn(process.execPath, ["--import", "tsx", child, JSON.stringify(config)], { cwd: root, env, stdio: ["pipe", "pipe", "pipe"] });
   const results: Result[] = [];

@@ -1,6 +1,6 @@
 /**
  * A child process for the photo crash tests (tests/integration/photo-crash.test.ts, QUALITY D6/F1): it performs
- * uploads in-process with receivePhotos and is SIGKILLed, either by the pipeline's own CRASH_AT hook or by the parent
+ * uploads in-process with receivePhotos and is SIGKILLed, either by the pipeline's own crash hook (the test-faults seam) or by the parent
  * part-way through a body streamed in on stdin.
  *
  *   node --import tsx tests/support/photo-upload-child.ts '<json>'
@@ -17,6 +17,7 @@ interface Job { body: string; length: number; crashAt?: string }
 const config = JSON.parse(process.argv[2] ?? "{}") as { userId: number; role: string; contentType: string; jobs: Job[] };
 
 const { receivePhotos, PhotoError } = await import("../../app/services/photos.server.ts");
+const { setFaults } = await import("../../app/infra/faults.server.ts"); // the pipeline's crash points (test-only seam)
 const write = (line: string) => new Promise<void>((resolve) => process.stdout.write(line + "\n", () => resolve()));
 
 /** stdin as a web stream that reports how much has arrived. */
@@ -33,8 +34,7 @@ function stdinBody(): ReadableStream<Uint8Array> {
 }
 
 for (const [i, job] of config.jobs.entries()) {
-  if (job.crashAt) process.env.CRASH_AT = job.crashAt;
-  else delete process.env.CRASH_AT;
+  setFaults(job.crashAt ? { crashAt: job.crashAt } : {});
   let body: BodyInit;
   if (job.body === "stdin") {
     await write(`ready ${i}`);

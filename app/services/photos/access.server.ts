@@ -2,7 +2,6 @@
 import path from "node:path";
 import { Photo } from "~db/models/index.ts";
 import { can, type Role } from "~/domain/roles";
-import { ensureDatabase } from "../database.server";
 import { PHOTOS_DIR, SERVED_NAME } from "./storage.server";
 
 /**
@@ -12,7 +11,6 @@ import { PHOTOS_DIR, SERVED_NAME } from "./storage.server";
 export async function photoForViewer(file: string, viewer: { id: number; role: string } | null): Promise<{ path: string; published: boolean } | null> {
   const m = SERVED_NAME.exec(file);
   if (!m) return null;
-  await ensureDatabase();
   const row = await Photo.findByPk(m[1], { attributes: ["id", "ownerId", "connectorId", "removedAt"] });
   if (!row || row.removedAt) return null;
   const published = row.connectorId != null;

@@ -1,19 +1,21 @@
 /**
- * Test-only hooks of the photo pipeline, behind one seam (never set them in production):
- * - CRASH_AT=mid-body|after-tmp|mid-sharp|after-rename|mid-insert: SIGKILL this process at that point of an upload.
- * - UPLOAD_FAULT=enospc:<n>: the n-th file write after the variable was set (or changed) fails with ENOSPC.
+ * The photo pipeline's test-only hooks, read from the one test-faults seam (app/infra/faults.server.ts, set only by
+ * test code; no environment variable reaches it):
+ * - crashAt: mid-body|after-tmp|mid-sharp|after-rename|mid-insert: SIGKILL this process at that point of an upload.
+ * - uploadFault: enospc:<n>: the n-th file write after the fault was set (or changed) fails with ENOSPC.
  */
+import { faults } from "~/infra/faults.server";
 
 export type CrashPoint = "mid-body" | "after-tmp" | "mid-sharp" | "after-rename" | "mid-insert";
 export function crashAt(point: CrashPoint) {
-  if (process.env.CRASH_AT === point) process.kill(process.pid, "SIGKILL");
+  if (faults().crashAt === point) process.kill(process.pid, "SIGKILL");
 }
 
 let faultSpec: string | undefined;
 let faultWrites = 0;
 /** UPLOAD_FAULT=enospc:<n>: the error the n-th file write should fail with (counting restarts when the value changes). */
 export function writeFault(): NodeJS.ErrnoException | null {
-  const spec = process.env.UPLOAD_FAULT;
+  const spec = faults().uploadFault;
   if (spec !== faultSpec) {
     faultSpec = spec;
     faultWrites = 0;

@@ -2,34 +2,30 @@
 import { type Transaction } from "sequelize";
 import { Photo, Submission } from "~db/models/index.ts";
 import { PhotoError } from "./errors.server";
+import { env } from "~/env.server";
 
 export const KiB = 1024;
 const MiB = 1024 * KiB;
 
-export function envInt(name: string, fallback: number): number {
-  const v = Number(process.env[name]);
-  return Number.isFinite(v) && v > 0 ? Math.floor(v) : fallback;
-}
-
 /** Upload limits (QUALITY "Open choices": 15 MB per photo, 12 per submission, 50 MP pixel cap); env overrides. */
 export const PHOTO_LIMITS = Object.freeze({
   /** Bytes per uploaded file (PHOTO_MAX_BYTES). */
-  maxBytes: envInt("PHOTO_MAX_BYTES", 15 * MiB),
+  maxBytes: env.PHOTO_MAX_BYTES,
   /** Photos on one submission. */
-  perSubmission: envInt("PHOTO_PER_SUBMISSION", 12),
+  perSubmission: env.PHOTO_PER_SUBMISSION,
   /** Files in one request. */
-  perRequest: envInt("PHOTO_PER_REQUEST", 12),
+  perRequest: env.PHOTO_PER_REQUEST,
   /** Photos one contributor may keep (PHOTO_USER_COUNT). */
-  perUserCount: envInt("PHOTO_USER_COUNT", 60),
+  perUserCount: env.PHOTO_USER_COUNT,
   /** Stored bytes (display + thumbnail) one contributor may keep (PHOTO_USER_BYTES). */
-  perUserBytes: envInt("PHOTO_USER_BYTES", 200 * MiB),
+  perUserBytes: env.PHOTO_USER_BYTES,
   /** Upload requests per user per minute (PHOTO_PER_MINUTE; ASVS V11.1.4). */
-  perMinute: envInt("PHOTO_PER_MINUTE", 20),
+  perMinute: env.PHOTO_PER_MINUTE,
   /**
    * Decoded pixels per image, checked from the header before decoding (ASVS 5.0 V5.2.6 "pixel flood"). QUALITY.md
    * suggests 50 MP; sharp's own default, 268 402 689 (0x3FFF²), is far more than any phone photo needs.
    */
-  maxPixels: envInt("PHOTO_MAX_PIXELS", 50_000_000),
+  maxPixels: env.PHOTO_MAX_PIXELS,
   /** Long edge of the display size and of the thumbnail, in pixels. */
   displayEdge: 1600,
   thumbEdge: 320,

@@ -3,14 +3,14 @@
  * piece of metadata dropped; WebP display size and thumbnail written durably and renamed into photos/.
  */
 import { rename, rm } from "node:fs/promises";
-import { availableParallelism } from "node:os";
 import path from "node:path";
 import sharp, { type Metadata, type OutputInfo } from "sharp";
 import { type AcceptedKind } from "~/domain/image-sniff";
 import { PhotoError } from "./errors.server";
 import { crashAt } from "./faults.server";
-import { envInt, PHOTO_LIMITS } from "./limits.server";
+import { PHOTO_LIMITS } from "./limits.server";
 import { PHOTOS_DIR, syncDir, writeDurable } from "./storage.server";
+import { env } from "~/env.server";
 
 // Only the three accepted decoders may run (sharp docs, api-utility: block/unblock "for defining a list of allowed
 // operations"). Blocking the VipsForeignLoad base class blocks every loader libvips has or will have (svg, tiff, heif,
@@ -26,7 +26,7 @@ for (const f of ACCEPTED_FORMATS) {
 const DECODE = { limitInputPixels: PHOTO_LIMITS.maxPixels, failOn: "warning", pages: 1 } as const;
 
 // At most this many sharp pipelines at once: sharp, sqlite3 and bcrypt share libuv's pool (QUALITY P5).
-const PIPELINES = envInt("PHOTO_PIPELINES", Math.max(1, availableParallelism() - 1));
+const PIPELINES = env.PHOTO_PIPELINES;
 let activePipelines = 0;
 const waitingPipelines: (() => void)[] = [];
 async function withPipeline<T>(work: () => Promise<T>): Promise<T> {

@@ -8,7 +8,6 @@ import { Photo, Submission } from "~db/models/index.ts";
 import { rejectionMessage, sniffImage, SNIFF_BYTES } from "~/domain/image-sniff";
 import { photoUrls } from "~/domain/photo-urls";
 import { can, type Role } from "~/domain/roles";
-import { ensureDatabase } from "../database.server";
 import { takeUpload } from "../rate-limit.server";
 import { diskFull, isDiskFull, PhotoError } from "./errors.server";
 import { crashAt } from "./faults.server";
@@ -128,7 +127,6 @@ export async function receivePhotos(request: Request, user: { id: number; role: 
     throw new PhotoError(429, "rate_limited", `At most ${PHOTO_LIMITS.perMinute} uploads a minute: wait ${limited.retryAfterS} s and try again.`, undefined,
       { "Retry-After": String(limited.retryAfterS) });
   }
-  await ensureDatabase();
   await ensureDirs();
 
   const counts = { read: 0, fileBytes: 0 };

@@ -5,9 +5,10 @@
 import { mkdir, open, rm } from "node:fs/promises";
 import path from "node:path";
 import { writeFault } from "./faults.server";
+import { env } from "~/env.server";
 
 /** Where uploads live (UPLOADS_DIR, default ./uploads): tmp/ for bodies in flight, photos/ for processed files. */
-export const UPLOADS_DIR = path.resolve(process.env.UPLOADS_DIR ?? path.join(process.cwd(), "uploads"));
+export const UPLOADS_DIR = env.UPLOADS_DIR;
 export const TMP_DIR = path.join(UPLOADS_DIR, "tmp");
 export const PHOTOS_DIR = path.join(UPLOADS_DIR, "photos");
 

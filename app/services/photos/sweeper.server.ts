@@ -117,11 +117,17 @@ export async function deleteRemovedPhotoFiles(ids: string[]): Promise<number> {
 
 let sweeper: NodeJS.Timeout | null = null;
 
-/** Sweep now and then hourly (an unref'd timer: it never keeps the process alive). PHOTO_SWEEPER=off leaves it out. */
+/** Sweep now and then hourly (an unref'd timer: it never keeps the process alive); app/startup.server.ts starts it. */
 export function startPhotoSweeper(): void {
-  if (sweeper || process.env.PHOTO_SWEEPER === "off") return;
+  if (sweeper) return;
   const run = () => void sweepPhotos().catch((e) => console.error(`[photos] sweep failed: ${(e as Error)?.message ?? e}`));
   run();
   sweeper = setInterval(run, HOUR);
   sweeper.unref();
+}
+
+/** Stop the hourly sweep (a sweep in progress finishes on its own: it only deletes files nobody references). */
+export function stopPhotoSweeper(): void {
+  if (sweeper) clearInterval(sweeper);
+  sweeper = null;
 }
