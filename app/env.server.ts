@@ -30,7 +30,7 @@ const url = (schemes: string[], fallback: string) =>
 
 const schema = z.object({
   NODE_ENV: z.preprocess(blank, z.enum(["production", "development", "test"]).default("production")),
-  PORT: whole("a port", 1, 65535).default(3000),
+  PORT: whole("a port", 0, 65535).default(3000), // 0: any free port (tests)
   HOST: text,
   APP_URL: z.preprocess(blank, z.string().optional()).refine((s) => s === undefined || /^https?:\/\/[^/\s]+\/?$/.test(s), "expected an origin such as https://loomlore.example (http or https, no path)"),
   ALLOWED_ORIGINS: text,

@@ -1,7 +1,7 @@
 // The production server: React Router's request handler on Express, with the few things the stock
 // `react-router-serve` cannot be told: our error shape for undecodable URLs, explicit timeouts, and what to do with a
 // request body nobody is going to read to the end (QUALITY.md F6 and F7).
-import "./env.server.ts"; // first: the settings are checked before anything else loads (a bad one stops the start)
+import { env } from "./env.server.ts"; // first: the settings are checked before anything else loads (a bad one stops the start)
 import { randomBytes } from "node:crypto";
 import http from "node:http";
 import path from "node:path";
@@ -16,21 +16,18 @@ import { watchBody } from "./server/body-watch.server.ts";
 // with maps on each capture looks every frame up: ≈ 2 ms of a 21 ms card request under load (CPU profile, 2 cores).
 // The build we serve has no maps anyway, so a production stack points at build/server/index.js either way;
 // NODE_OPTIONS=--enable-source-maps keeps them.
-if (process.env.NODE_ENV === "production" && !process.execArgv.includes("--enable-source-maps") && !/--enable-source-maps/.test(process.env.NODE_OPTIONS ?? "")) {
+// (NODE_OPTIONS is Node's own variable, not a Loomlore setting.)
+if (env.NODE_ENV === "production" && !process.execArgv.includes("--enable-source-maps") && !/--enable-source-maps/.test(process.env.NODE_OPTIONS ?? "")) {
   process.setSourceMapsEnabled(false);
 }
 const root = path.resolve(import.meta.dirname, "..");
 const build = await import(pathToFileURL(path.join(root, "build/server/index.js")).href);
 
-function envInt(name: string, fallback: number): number {
-  const v = Number(process.env[name]);
-  return Number.isFinite(v) && v > 0 ? Math.floor(v) : fallback;
-}
 
 const app = express();
 app.disable("x-powered-by");
 // Behind a proxy, TRUST_PROXY (e.g. "loopback" or a hop count) lets req.ip be the client's address, not the proxy's.
-if (process.env.TRUST_PROXY) app.set("trust proxy", /^\d+$/.test(process.env.TRUST_PROXY) ? Number(process.env.TRUST_PROXY) : process.env.TRUST_PROXY);
+if (env.TRUST_PROXY) app.set("trust proxy", /^\d+$/.test(env.TRUST_PROXY) ? Number(env.TRUST_PROXY) : env.TRUST_PROXY);
 app.use(compression());
 // Headers every response carries (ASVS V14.4): no MIME sniffing, no framing by other sites, no referrer leaks. Set when
 // the response's head is written, and only where the route set none of its own (React Router's adapter appends a
@@ -105,13 +102,13 @@ app.use(express.static(path.join(root, "build/client"), { maxAge: "1h" }));
 // The client's address reaches loaders and actions through the load context (rate limits are per address), and so
 // does a fresh Content-Security-Policy nonce for the document rendered (app/entry.server.tsx), and an id that the log
 // line and the error page of an unexpected error share (ASVS V7.4.1).
-app.all("*", createRequestHandler({ build, mode: process.env.NODE_ENV, getLoadContext: (req) => ({ ip: req.ip ?? req.socket.remoteAddress ?? "unknown", cspNonce: newNonce(), requestId: randomBytes(4).toString("hex") }) }));
+app.all("*", createRequestHandler({ build, mode: env.NODE_ENV, getLoadContext: (req) => ({ ip: req.ip ?? req.socket.remoteAddress ?? "unknown", cspNonce: newNonce(), requestId: randomBytes(4).toString("hex") }) }));
 
 // Slow clients must not hold sockets (QUALITY F7, the "Slow clients" anchor: CVE-2018-12122): headers within 20 s
 // (HEADERS_TIMEOUT_MS, slowloris), a whole request within 2 minutes. Node checks both only every
 // connectionsCheckingInterval (default 30 s, Node docs http.createServer), which would let a slow-header socket live
 // up to 50 s: check every quarter of headersTimeout, between 250 ms and 2 s.
-const headersTimeout = Math.min(envInt("HEADERS_TIMEOUT_MS", 20_000), 20_000);
+const headersTimeout = env.HEADERS_TIMEOUT_MS; // at most 20 s (the setting's own bound)
 const requestTimeout = 120_000;
 const server = http.createServer({
   headersTimeout,
@@ -123,8 +120,8 @@ const server = http.createServer({
 // The app starts (migrate, seed when asked, the workers: app/startup.server.ts) before the server listens, so no
 // request waits on a migration; on SIGTERM the server stops taking requests, the workers finish their pass, then exit.
 await build.entry.module.startApp();
-const port = Number(process.env.PORT ?? 3000);
-const host = process.env.HOST;
+const port = env.PORT;
+const host = env.HOST;
 if (host) server.listen(port, host);
 else server.listen(port);
 server.on("listening", () => console.log(`[loomlore] listening on http://${host ?? "localhost"}:${port}`));

@@ -2,15 +2,12 @@
 // answers, lingering after them, and the minimum upload rate (QUALITY.md F6 and F7). Plain TypeScript, run by tsx.
 import type { Socket } from "node:net";
 import type { NextFunction, Request as ExpressRequest, Response as ExpressResponse } from "express";
+import { env } from "../env.server.ts";
 import { EDITOR_FORM_MAX_BYTES } from "../services/http.server.ts";
 
 const KiB = 1024;
 const MiB = 1024 * KiB;
 
-function envInt(name: string, fallback: number): number {
-  const v = Number(process.env[name]);
-  return Number.isFinite(v) && v > 0 ? Math.floor(v) : fallback;
-}
 
 // ---- request bodies ---------------------------------------------------------------------------------------------
 //
@@ -26,15 +23,15 @@ function envInt(name: string, fallback: number): number {
 // Uploads must also keep a minimum rate (F7), and other bodies have a size cap of their own (F6 "1 MB body to login").
 
 /** Upload bodies: the average rate must reach UPLOAD_MIN_BPS once UPLOAD_GRACE_MS have passed (QUALITY F7 "e.g. 10 KB/s after 10 s"). */
-const UPLOAD_GRACE_MS = envInt("UPLOAD_GRACE_MS", 10_000);
-const UPLOAD_MIN_BPS = envInt("UPLOAD_MIN_BPS", 10 * KiB);
+const UPLOAD_GRACE_MS = env.UPLOAD_GRACE_MS;
+const UPLOAD_MIN_BPS = env.UPLOAD_MIN_BPS;
 const RATE_CHECK_MS = Math.min(1_000, UPLOAD_GRACE_MS);
 /**
  * Bodies of everything but the two upload routes: the 64 KiB every JSON body may have (http.server.ts readJson),
  * counted here while streaming so a chunked body is capped too; the submission editor's form (up to 200 pin rows,
  * 20 000 characters of notes, a pasted table) gets 1 MiB. QUALITY F6: "1 MB body to login/search … 413".
  */
-const FORM_MAX_BYTES = envInt("FORM_MAX_BYTES", 64 * KiB);
+const FORM_MAX_BYTES = env.FORM_MAX_BYTES;
 /** After an early answer: read and discard at most this much, for at most this long, then close (well inside F6's "limit + 1 MB"). */
 const LINGER_BYTES = 256 * KiB;
 const LINGER_MS = 1_000;

@@ -33,6 +33,7 @@ describe("start-up", () => {
     const r = await run({ [variable]: value });
     expect(r.code).toBe(1);
     expect(r.out).toContain(variable);
+    expect(r.out.match(/: expected/g), "only the bad variable is named").toHaveLength(1);
     expect(r.out).not.toMatch(/listening on/);
     expect(r.out).not.toMatch(/\n\s+at /); // one clear line, not a stack trace
   });

@@ -34,7 +34,7 @@ describe("settings", () => {
   it.each([
     ["PHOTO_MAX_BYTES", "15MB"],
     ["PHOTO_MAX_BYTES", "-1"],
-    ["PORT", "70000"], // RFC 6335: ports are 0–65535, 0 is not one to listen on
+    ["PORT", "70000"], // RFC 6335: ports are 0–65535
     ["SEARCH_URL", "ftp://127.0.0.1:7700"],
     ["SEARCH_URL", "not a url"],
     ["SMTP_URL", "http://relay.example"],
