@@ -6,7 +6,8 @@ import {
 } from "~db/models/index.ts";
 import { libraryDocs, writeFallbackDocs } from "~db/search-index.ts";
 import { connectorSnapshot, type ConnectorSnapshot } from "~db/snapshot.ts";
-import { proposalProblems } from "~/domain/submissions";
+import { planPublish, PublishConflict, type PublishPlan } from "~/domain/publish-plan";
+import { proposalProblems, type CardProposal } from "~/domain/submissions";
 import { familyRequestSchema, proposalSchema } from "~/validation/submissions";
 import { audit } from "../auth.server";
 import { familyContext } from "./context.server";
@@ -84,33 +85,12 @@ export async function publish(s: Submission, transaction: Transaction): Promise<
   await connector.update({ matesWithId: mate?.id ?? null }, { transaction });
   if (mate) await mate.update({ matesWithId: connector.id }, { transaction });
 
-  // Pins, matched by cavity so wires and circuits keep their ends.
-  const existing = await Pin.findAll({ where: { connectorId: connector.id }, transaction });
-  const byCavity = new Map(existing.map((x) => [x.cavity, x]));
-  const keep = new Set(p.pins.map((x) => x.cavity));
-  for (const gone of existing.filter((x) => !keep.has(x.cavity))) {
-    const circuit = await Circuit.findOne({ where: { [Op.or]: [{ fromPinId: gone.id }, { toPinId: gone.id }] }, transaction });
-    if (circuit) throw new SubmissionError(409, "conflict", `Cavity ${gone.cavity} starts or ends the circuit “${circuit.name}”, so its row cannot be taken out.`);
-    if (await ComponentLink.findOne({ where: { [Op.or]: [{ fromPinId: gone.id }, { toPinId: gone.id }] }, transaction })) {
-      throw new SubmissionError(409, "conflict", `Cavity ${gone.cavity} leads into its component, so its row cannot be taken out.`);
-    }
-    await Wire.destroy({ where: { [Op.or]: [{ fromPinId: gone.id }, { toPinId: gone.id }] }, transaction });
-    await gone.destroy({ transaction });
-  }
-  const touched = new Set<number>();
-  const oldGoesTo = new Map((oldSnapshot?.pins ?? []).map((x) => [x.cavity, x.goesTo]));
-  for (const [position, row] of p.pins.entries()) {
-    let pin = byCavity.get(row.cavity);
-    const oldCode = pin?.colourCode ?? null;
-    if (pin) await pin.update({ colourCode: row.code, circuit: row.circuit, terminal: row.terminal, position }, { transaction });
-    else pin = await Pin.create({ familyId: family.id, connectorId: connector.id, componentId: connector.componentId, cavity: row.cavity, colourCode: row.code, circuit: row.circuit, terminal: row.terminal, position }, { transaction });
-    // One physical wire carries one colour: a corrected code follows the wire to its other end and across the mate.
-    if (oldCode && row.code && oldCode !== row.code) for (const id of await recolour(pin, oldCode, row.code, transaction)) touched.add(id);
-    const was = oldGoesTo.get(row.cavity) ?? null;
-    const same = (was?.connector ?? null) === (row.goesTo?.connector ?? null) && (was?.cavity ?? null) === (row.goesTo?.cavity ?? null);
-    if (!connector.componentId && !same) await rewire(pin, row.goesTo, family.id, transaction);
-  }
-  touched.delete(connector.id);
+  // Pins, matched by cavity so wires and circuits keep their ends: the family's rows are read once, the rules in
+  // app/domain/publish-plan.ts say what changes (kept, added, removed pins; colours that follow a wire; rewires), and the
+  // changes are written here, in this transaction.
+  const plan = await planPins(connector, family.id, p, oldSnapshot, transaction);
+  await applyPlan(plan, connector, family.id, transaction);
+  const touched = plan.touched;
 
   await SpecValue.destroy({ where: { connectorId: connector.id }, transaction });
   for (const sp of p.specs) {
@@ -151,47 +131,50 @@ export async function publish(s: Submission, transaction: Transaction): Promise<
   return { connector, revision, familySlug: family.slug };
 }
 
-/** Change a wire's colour code along the wire and across mated cavities (not through splices or components). */
-async function recolour(start: Pin, from: string, to: string, transaction: Transaction): Promise<Set<number>> {
-  const seen = new Set<number>([start.id]);
-  const queue = [start];
-  const connectors = new Set<number>();
-  while (queue.length) {
-    const pin = queue.shift()!;
-    if (pin.connectorId) connectors.add(pin.connectorId);
-    const wires = await Wire.findAll({ where: { [Op.or]: [{ fromPinId: pin.id }, { toPinId: pin.id }] }, transaction });
-    for (const w of wires) {
-      if (w.colourCode === from) await w.update({ colourCode: to }, { transaction });
-      const other = await Pin.findByPk(w.fromPinId === pin.id ? w.toPinId : w.fromPinId, { transaction });
-      if (other && !seen.has(other.id) && other.connectorId && other.colourCode === from) {
-        seen.add(other.id);
-        await other.update({ colourCode: to }, { transaction });
-        queue.push(other);
-      }
-    }
-    if (pin.connectorId) {
-      const c = await Connector.findByPk(pin.connectorId, { transaction });
-      const matePin = c?.matesWithId ? await Pin.findOne({ where: { connectorId: c.matesWithId, cavity: pin.cavity }, transaction }) : null;
-      if (matePin && !seen.has(matePin.id) && matePin.colourCode === from) {
-        seen.add(matePin.id);
-        await matePin.update({ colourCode: to }, { transaction });
-        queue.push(matePin);
-      }
-    }
+/** Read the family's pins, wires and cards once (the mate already set) and plan the card's pins from the proposal. */
+async function planPins(connector: Connector, familyId: number, p: CardProposal, oldSnapshot: ConnectorSnapshot | null, transaction: Transaction): Promise<PublishPlan> {
+  const [pins, wires, connectors] = await Promise.all([
+    Pin.findAll({ where: { familyId }, attributes: ["id", "connectorId", "cavity", "colourCode", "circuit", "terminal", "position"], order: [["id", "ASC"]], transaction }),
+    Wire.findAll({ where: { familyId }, attributes: ["id", "fromPinId", "toPinId", "colourCode"], order: [["id", "ASC"]], transaction }),
+    Connector.findAll({ where: { familyId }, attributes: ["id", "slug", "matesWithId"], order: [["id", "ASC"]], transaction }),
+  ]);
+  // What ends on the card's own pins: a removed cavity may not take a circuit's end or a component's lead with it.
+  const own = pins.filter((x) => x.connectorId === connector.id).map((x) => x.id);
+  const ends = { [Op.or]: [{ fromPinId: own }, { toPinId: own }] };
+  const [circuits, componentLinks] = own.length ? await Promise.all([
+    Circuit.findAll({ where: ends, attributes: ["id", "name", "fromPinId", "toPinId"], order: [["id", "ASC"]], transaction }),
+    ComponentLink.findAll({ where: ends, attributes: ["id", "fromPinId", "toPinId"], order: [["id", "ASC"]], transaction }),
+  ]) : [[], []];
+  try {
+    return planPublish({
+      card: { id: connector.id, componentId: connector.componentId },
+      pins: pins.map((x) => ({ id: x.id, connectorId: x.connectorId, cavity: x.cavity, colourCode: x.colourCode, circuit: x.circuit, terminal: x.terminal, position: x.position })),
+      wires: wires.map((w) => ({ id: w.id, fromPinId: w.fromPinId, toPinId: w.toPinId, colourCode: w.colourCode })),
+      connectors: connectors.map((c) => ({ id: c.id, slug: c.slug, matesWithId: c.matesWithId })),
+      circuits: circuits.map((c) => ({ name: c.name, fromPinId: c.fromPinId, toPinId: c.toPinId })),
+      componentLinks: componentLinks.map((l) => ({ fromPinId: l.fromPinId, toPinId: l.toPinId })),
+      rows: p.pins,
+      goesToBefore: new Map((oldSnapshot?.pins ?? []).map((x) => [x.cavity, x.goesTo])),
+    });
+  } catch (e) {
+    if (e instanceof PublishConflict) throw new SubmissionError(409, "conflict", e.message);
+    throw e;
   }
-  return connectors;
 }
 
-/** Point a loom-side cavity's wire at a new far end (or none): its direct wires to connector cavities are replaced. */
-async function rewire(pin: Pin, goesTo: { connector: string; cavity: string } | null, familyId: number, transaction: Transaction) {
-  const wires = await Wire.findAll({ where: { [Op.or]: [{ fromPinId: pin.id }, { toPinId: pin.id }] }, transaction });
-  for (const w of wires) {
-    const other = await Pin.findByPk(w.fromPinId === pin.id ? w.toPinId : w.fromPinId, { transaction });
-    if (other?.connectorId) await w.destroy({ transaction });
+/** Write a pin plan: what goes first (a removed cavity's wires with it), then changed and new pins, then the wires. */
+async function applyPlan(plan: PublishPlan, connector: Connector, familyId: number, transaction: Transaction) {
+  if (plan.deleteWires.length) await Wire.destroy({ where: { id: plan.deleteWires }, transaction });
+  if (plan.deletePins.length) await Pin.destroy({ where: { id: plan.deletePins }, transaction });
+  for (const { id, changes } of plan.updatePins) await Pin.update(changes, { where: { id }, transaction });
+  const created = new Map<number, number>();
+  for (const { ref, ...row } of plan.createPins) {
+    const pin = await Pin.create({ ...row, familyId, connectorId: connector.id, componentId: connector.componentId }, { transaction });
+    created.set(ref, pin.id);
   }
-  if (!goesTo) return;
-  const target = await Connector.findOne({ where: { slug: goesTo.connector, familyId }, transaction });
-  const end = target ? await Pin.findOne({ where: { connectorId: target.id, cavity: goesTo.cavity }, transaction }) : null;
-  if (!end) throw new SubmissionError(409, "conflict", `${goesTo.connector} cavity ${goesTo.cavity} has no pin for the wire to end on.`);
-  await Wire.create({ familyId, fromPinId: pin.id, toPinId: end.id, colourCode: pin.colourCode ?? end.colourCode ?? "", sizeMm2: null, lengthMm: null }, { transaction });
+  const idOf = (id: number) => (id < 0 ? created.get(id)! : id);
+  for (const { id, colourCode } of plan.wireColours) await Wire.update({ colourCode }, { where: { id }, transaction });
+  for (const w of plan.createWires) {
+    await Wire.create({ familyId, fromPinId: idOf(w.fromPinId), toPinId: idOf(w.toPinId), colourCode: w.colourCode, sizeMm2: null, lengthMm: null }, { transaction });
+  }
 }
