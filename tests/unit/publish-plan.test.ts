@@ -54,6 +54,7 @@ const plan = (r: ProposedPin[], change: (w: Omit<PublishInput, "rows">) => void 
 };
 
 describe("publish plan: pins matched by cavity", () => {
+  // Wires, circuits and component links point at pins by id (db/models/library.ts), so a kept cavity must keep its pin.
   it("publishing the card as it stands changes nothing", () => {
     expect(plan(rows())).toEqual({ deleteWires: [], deletePins: [], updatePins: [], createPins: [], wireColours: [], createWires: [], touched: [] });
   });
@@ -89,6 +90,7 @@ describe("publish plan: pins matched by cavity", () => {
   });
 
   it("a cavity that ends a circuit or leads into a component cannot be dropped", () => {
+    // A circuit names its two end pins and a component link its two terminals: dropping one would leave them pointing at nothing.
     const dropOne = rows().filter((x) => x.cavity !== "1");
     expect(() => plan(dropOne, (w) => { w.circuits = [{ name: "Pickup 1 signal loop", fromPinId: 11, toPinId: 41 }]; }))
       .toThrow(new PublishConflict("Cavity 1 starts or ends the circuit “Pickup 1 signal loop”, so its row cannot be taken out."));
@@ -126,6 +128,7 @@ describe("publish plan: a corrected colour", () => {
   });
 
   it("does not pass through a splice, where other wires of other colours may meet", () => {
+    // Common practice: a splice joins separate wires, and a branch often carries a colour of its own.
     const r = rows();
     row(r, "2").code = "BN";
     const p = plan(r);
@@ -141,6 +144,22 @@ describe("publish plan: a corrected colour", () => {
     expect(p.updatePins.map((x) => x.id)).toEqual([11, 21, 31]);
   });
 
+  it("a colour carried onto a later row of the card stays when that row leaves its colour as it was", () => {
+    // A contrived loop (socket 1 wired to the plug's cavity 2, which mates back onto socket 2), all in RD.
+    const r = rows();
+    row(r, "1").code = "WH";
+    row(r, "2").code = "RD";
+    const p = plan(r, (w) => {
+      w.wires = [{ id: 101, fromPinId: 11, toPinId: 22, colourCode: "RD" }];
+      for (const id of [12, 22]) w.pins.find((x) => x.id === id)!.colourCode = "RD";
+      w.goesToBefore = new Map([["1", { connector: "demo-pickups-plug", cavity: "2" }], ["2", null], ["3", null]]);
+      row(r, "1").goesTo = { connector: "demo-pickups-plug", cavity: "2" };
+      row(r, "2").goesTo = null;
+    });
+    // Row 2 says RD, as the card was read: the correction row 1 carried onto it is not undone.
+    expect(p.updatePins.find((x) => x.id === 12)).toEqual({ id: 12, changes: { colourCode: "WH" } });
+  });
+
   it("a row with no colour before or after moves nothing along its wire", () => {
     const r = rows();
     row(r, "1").code = null;
@@ -151,6 +170,7 @@ describe("publish plan: a corrected colour", () => {
 });
 
 describe("publish plan: where a loom-side cavity goes", () => {
+  // The loom check (db/check.ts): a loom-side cavity carries at most one wire, so a new far end replaces the old wire.
   it("a changed far end replaces the cavity's wire, in the cavity's colour", () => {
     const r = rows();
     row(r, "1").goesTo = { connector: "demo-unit-plug", cavity: "7" };
