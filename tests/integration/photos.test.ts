@@ -27,6 +27,7 @@ const uploads = path.join(dir, "uploads");
 let P: Photos;
 let m: Models;
 let fileRoute: FileRoute;
+let faults: typeof import("../../app/infra/faults.server.ts"); // the disk-full hook (test-only seam)
 let apiRoute: ApiRoute;
 let closeDb: () => Promise<void>;
 let startSession: (request: Request, userId: number) => Promise<string>;
@@ -39,14 +40,14 @@ beforeAll(async () => {
   process.env.PHOTO_SWEEPER = "off";
   process.env.SMTP_URL = "smtp://127.0.0.1:1";
   delete process.env.SEED_DEMO;
-  delete process.env.CRASH_AT;
-  delete process.env.UPLOAD_FAULT;
+  faults = await import("../../app/infra/faults.server.ts");
+  faults.setFaults({});
   const db = await import("../../db/index.server.ts");
   expect(db.databasePath()).toBe(dbPath); // not a Sequelize instance left over from another import
   closeDb = () => db.sequelize.close();
   P = await import("../../app/services/photos.server.ts");
   expect(P.UPLOADS_DIR).toBe(uploads);
-  await (await import("../../app/services/database.server.ts")).ensureDatabase(); // migrate and seed the demo accounts
+  await (await import("../../db/setup.ts")).setupDatabase(); // migrate and seed the demo accounts
   m = await import("../../db/models/index.ts");
   fileRoute = await import("../../app/routes/photos.$file.ts");
   apiRoute = await import("../../app/routes/api.v1.photos.ts");
@@ -792,13 +793,13 @@ describe("F8 hostile or broken images → 422 in < 500 ms, no row (sharp failOn 
 // ---- F4 ---------------------------------------------------------------------------------------------------------
 
 describe("F4 disk full: ENOSPC at each write → 507 with an error id, no row, no files; the next upload succeeds", () => {
-  it("UPLOAD_FAULT=enospc:1 (tmp), :2 (display .part), :3 (thumbnail .part)", async () => {
+  it("uploadFault enospc:1 (tmp), :2 (display .part), :3 (thumbnail .part)", async () => {
     const user = await contributor();
     const data = await jpeg(320, 240);
     const logged = vi.spyOn(console, "error").mockImplementation(() => {});
     try {
       for (const n of [1, 2, 3]) {
-        process.env.UPLOAD_FAULT = `enospc:${n}`;
+        faults.setFaults({ uploadFault: `enospc:${n}` });
         const r = await uploadOne(user, data);
         expect(r.status, `write ${n}: ${r.message}`).toBe(507);
         expect(r.code).toBe("insufficient_storage");
@@ -809,7 +810,7 @@ describe("F4 disk full: ENOSPC at each write → 507 with an error id, no row, n
         await expectNoLeftovers(`ENOSPC at write ${n}`);
       }
     } finally {
-      delete process.env.UPLOAD_FAULT;
+      faults.setFaults({});
       logged.mockRestore();
     }
     const r = await uploadOne(user, data);

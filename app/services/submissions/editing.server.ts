@@ -9,7 +9,6 @@ import {
 } from "~/domain/submissions";
 import { familyRequestSchema, type FamilyRequest } from "~/validation/submissions";
 import { audit, sequelize } from "../auth.server";
-import { ensureDatabase } from "../database.server";
 import { snapshotToProposal, submissionProblems } from "./context.server";
 import { afterRelease, checkPhotos, releaseDroppedPhotos } from "./draft-photos.server";
 import { notFound, stale, SubmissionError, type Actor } from "./errors.server";
@@ -32,7 +31,6 @@ export interface StartInput {
  */
 export async function startSubmission(actor: Actor, input: StartInput): Promise<{ id: number; created: boolean }> {
   if (!can(actor.role, "submission.create")) throw new SubmissionError(403, "forbidden", "Confirm your e-mail address first: contributing needs a verified address.");
-  await ensureDatabase();
   if (input.idempotencyKey) {
     const existing = await Submission.findOne({ where: { authorId: actor.id, idempotencyKey: input.idempotencyKey } });
     if (existing) return { id: existing.id, created: false };
@@ -100,7 +98,6 @@ export interface UpdateInput {
 /** Save a draft or a returned submission, submit it for review, or answer a moderator's question and resubmit. */
 export async function updateSubmission(actor: Actor, id: number, input: UpdateInput): Promise<void> {
   if (!Number.isSafeInteger(id)) throw notFound();
-  await ensureDatabase();
   let released: string[] = [];
   // A save on a version that is already gone is refused before it joins the one-writer queue: under a burst of saves
   // to one draft the losers answer 409 at once instead of waiting their turn to be told so. The check is repeated

@@ -6,7 +6,6 @@ import { connectorSnapshot } from "~db/snapshot.ts";
 import { can } from "~/domain/roles";
 import { authorCanEdit, diffCards, STATE_LABELS, type CardProposal, type SubmissionState } from "~/domain/submissions";
 import type { FamilyRequest } from "~/validation/submissions";
-import { ensureDatabase } from "../database.server";
 import { familyContext, proposalOf, snapshotToProposal, submissionProblems } from "./context.server";
 import type { Actor } from "./errors.server";
 
@@ -14,14 +13,12 @@ export type SubmissionView = Awaited<ReturnType<typeof viewSubmission>>;
 
 /** Whether `id` is `viewer`'s own submission: one lookup, for an action that must refuse early (before reading a body). */
 export async function ownsSubmission(viewer: Actor, id: number): Promise<boolean> {
-  await ensureDatabase();
   if (!Number.isSafeInteger(id)) return false;
   return (await Submission.count({ where: { id, authorId: viewer.id } })) === 1;
 }
 
 /** A submission for its author or a moderator (anyone else: null, so its existence does not leak). */
 export async function viewSubmission(viewer: Actor | null, id: number) {
-  await ensureDatabase();
   if (!viewer || !Number.isSafeInteger(id)) return null;
   const s = await Submission.findByPk(id);
   if (!s) return null;
@@ -77,7 +74,6 @@ export interface ListQuery { state?: SubmissionState; make?: string; family?: st
 
 /** Submissions: the author's own, or (moderators) everyone's; the queue is `state: in_review`, oldest first. */
 export async function listSubmissions(viewer: Actor, q: ListQuery) {
-  await ensureDatabase();
   const where: Record<string | symbol, unknown> = {};
   if (q.mine || !can(viewer.role, "review.work")) where.authorId = viewer.id;
   if (q.state) where.state = q.state;
@@ -127,7 +123,6 @@ async function summaries(rows: Submission[]) {
 
 /** The review queue: submissions in review and open mistake reports, oldest first, filterable by make and family. */
 export async function reviewQueue(q: { make?: string; family?: string }) {
-  await ensureDatabase();
   const familyIds = await familyFilter(q.make, q.family);
   const subs = await Submission.findAll({ where: { state: "in_review", ...(familyIds ? { familyId: familyIds } : {}) }, order: [["submittedAt", "ASC"], ["id", "ASC"]], limit: 200 });
   const connWhere = familyIds ? { familyId: familyIds } : {};

@@ -2,13 +2,11 @@
 import { BikeCheck, Connector, Family, MistakeReport, User } from "~db/models/index.ts";
 import { can } from "~/domain/roles";
 import { audit, sequelize } from "../auth.server";
-import { ensureDatabase } from "../database.server";
 import { SubmissionError, type Actor } from "./errors.server";
 
 /** One open or closed mistake report with its card, for a moderator. */
 export async function viewReport(viewer: Actor | null, id: number) {
   if (!viewer || !can(viewer.role, "review.work") || !Number.isSafeInteger(id)) return null;
-  await ensureDatabase();
   const r = await MistakeReport.findByPk(id);
   if (!r) return null;
   const c = await Connector.findByPk(r.connectorId, { include: [{ model: Family, as: "family" }] });

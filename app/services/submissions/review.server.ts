@@ -6,7 +6,6 @@ import { nextState, STATE_LABELS, type SubmissionState } from "~/domain/submissi
 import { appUrl } from "../accounts.server";
 import { audit, sequelize } from "../auth.server";
 import { forgetFamilyGraph } from "../circuits.server";
-import { ensureDatabase } from "../database.server";
 import { forgetFinderIndex } from "../finder.server";
 import { enqueueMail } from "../mail.server";
 import { proposalOf } from "./context.server";
@@ -27,7 +26,6 @@ const OUTCOME = { approve: "published", return: "returned", decline: "declined" 
 export async function decide(actor: Actor, id: number, d: Decision): Promise<{ state: SubmissionState; version: number; connector?: string; revision?: number }> {
   if (!can(actor.role, "review.work")) throw new SubmissionError(403, "forbidden", "This needs the moderator role.");
   if (!Number.isSafeInteger(id)) throw notFound();
-  await ensureDatabase();
   let familySlug: string | null = null;
   let released: string[] = [];
   const result = await sequelize.transaction(async (transaction) => {
