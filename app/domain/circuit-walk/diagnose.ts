@@ -44,7 +44,7 @@ export function diagnose(walk: Walk, readings: Reading[]): Diagnosis {
     const mag = (v: number) => (positive && !typedPositive ? -v : v);
     const M = new Map([...values].map(([s, v]) => [s, mag(v)]));
     const nominalMag = (p: ProbePoint) => (positive ? -1 : 1) * (p.expect.nominal ?? 0);
-    const live = pts[0];
+    const live = pts[0]!; // a laid-out walk has at least one point, the first on the live side
     const w = walk.battery;
     const vNominal = w.nominal;
     const vb = M.get(live.step);
@@ -114,7 +114,8 @@ export function diagnose(walk: Walk, readings: Reading[]): Diagnosis {
         const lost = (vb - mp) - (vNominal * scale - ex(p));
         if (lost > CIRCUIT_DROP_V) {
           const stretches = walk.segments.filter((s) => s.to <= lin && M.has(s.from) && M.has(s.to) && !s.hasLoad);
-          const worst = stretches.reduce((m, s) => ((M.get(s.from)! - M.get(s.to)!) > (M.get(m.from)! - M.get(m.to)!) ? s : m), stretches[0]);
+          const worst = stretches.reduce((m, s) => ((M.get(s.from)! - M.get(s.to)!) > (M.get(m.from)! - M.get(m.to)!) ? s : m), stretches[0]!);
+          // stretches[0] is undefined only for no stretches, when the callback never runs: `if (worst)` catches it.
           if (worst) found = fault(worst.from, worst.to, "high_resistance", `The load's supply terminal (step ${lin}) is ${round2(lost)} V below where it should be: more than the ${CIRCUIT_DROP_V} V a whole supply side may lose. The biggest loss is between step ${worst.from} and step ${worst.to}.`);
         }
       }
@@ -122,7 +123,7 @@ export function diagnose(walk: Walk, readings: Reading[]): Diagnosis {
     const measuredAll = pts.every((p) => !steady(p) || values.has(p.step));
     if (!found && measuredAll && checked.every((c) => c.ok !== false) && walk.loadSteps.length && walk.loaded) {
       // Every voltage right and every drop within limits: the loom delivers; what is left is the load and its own terminals.
-      const [a, b] = walk.loadSteps[0];
+      const [a, b] = walk.loadSteps[0]!; // loadSteps.length was checked above
       // What lies next to a point that cannot be read steadily (a flasher's output) is as unproven as the load.
       const unproven = walk.segments.filter((s) => [s.from, s.to].some((n) => !steady(byStep.get(n)!))).flatMap((s) => s.elements);
       const likely = [...new Set([...walk.loadSteps.flatMap(([x, y]) => between(x, y)), ...unproven])];
@@ -147,7 +148,8 @@ export function diagnose(walk: Walk, readings: Reading[]): Diagnosis {
   const hi = found ? found.between[1] : Math.min(pts.length + 1, ...checked.filter((c) => c.ok === false).map((c) => c.step));
   const open = probeable.filter((p) => p.step > lo && p.step < hi && !measured.includes(p.step)).map((p) => p.step);
   const rest = probeable.filter((p) => !measured.includes(p.step)).map((p) => p.step);
-  const next = open.length ? open[Math.floor((open.length - 1) / 2)] : !found && rest.length && measured.length === 0 ? rest[Math.floor((rest.length - 1) / 2)] : null;
+  // The middle index of a list just checked to be non-empty.
+  const next = open.length ? open[Math.floor((open.length - 1) / 2)]! : !found && rest.length && measured.length === 0 ? rest[Math.floor((rest.length - 1) / 2)]! : null;
   return { fault: found, next, checked, battery, notes };
 }
 

@@ -15,9 +15,10 @@ export function layout(graph: LoomGraph, nodes: Map<string, WalkNode>, circuit: 
     // Lay the loop out in the circuit's working positions, so the walk exists even with a switch open.
     const loop = graph.loop(circuit.from, load, circuit.to, workingPositions(graph, circuit, load, switches));
     if (!loop) return null;
+    // A path has one edge fewer than nodes: edges[i - 1] is in range for i ≥ 1.
     const seq: { node: string; edge: GraphEdge | null; side: "supply" | "return" }[] = [
-      ...loop.supply.nodes.map((n, i) => ({ node: n, edge: i === 0 ? null : loop.supply.edges[i - 1], side: "supply" as const })),
-      ...loop.ret.nodes.map((n, i) => ({ node: n, edge: i === 0 ? load : loop.ret.edges[i - 1], side: "return" as const })),
+      ...loop.supply.nodes.map((n, i) => ({ node: n, edge: i === 0 ? null : loop.supply.edges[i - 1]!, side: "supply" as const })),
+      ...loop.ret.nodes.map((n, i) => ({ node: n, edge: i === 0 ? load : loop.ret.edges[i - 1]!, side: "return" as const })),
     ];
     let prev: number | null = null;
     let between: GraphEdge[] = [];
@@ -39,7 +40,8 @@ export function layout(graph: LoomGraph, nodes: Map<string, WalkNode>, circuit: 
         });
       }
       if (prev !== null && prev !== step) {
-        if (points[prev - 1].before === null) points[prev - 1].before = step;
+        // Step n is points[n - 1]: every step was pushed with step = points.length + 1.
+        if (points[prev - 1]!.before === null) points[prev - 1]!.before = step;
         if (!segments.some((x) => x.from === prev && x.to === step)) segments.push({ from: prev, to: step, elements: between.map(describe), edges: between });
       }
       if (side === "supply") loadIn = step;

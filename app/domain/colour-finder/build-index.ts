@@ -68,7 +68,7 @@ export function buildFinderIndex(connectors: FinderConnector[]): FinderIndex {
   };
   let p = 0;
   for (let c = 0; c < n; c++) {
-    const con = connectors[c];
+    const con = connectors[c]!; // c < n = connectors.length
     pinStart[c] = p;
     for (const pin of con.pins) {
       const idx = toIndices(pin.colours ?? []);
@@ -80,7 +80,7 @@ export function buildFinderIndex(connectors: FinderConnector[]): FinderIndex {
         combos.push(idx);
       }
       pinCombo[p++] = id;
-      if (id !== 0) wired[c]++;
+      if (id !== 0) wired[c]!++;
     }
     familyOf[c] = intern(familyIds, con.family);
     systemOf[c] = intern(systemIds, con.system);

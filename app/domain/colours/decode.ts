@@ -119,7 +119,7 @@ function build(input: string, system: ColourSystemId, house: HouseStyleId | null
     input,
     system,
     houseStyle: house,
-    base: isIec ? null : part(colours[0]),
+    base: isIec ? null : part(colours[0]!), // a read is never empty: every reader misses on no colours
     tracers: isIec ? [] : colours.slice(1).map(part),
     colours: [...colours],
     iec: iecCombination(colours),
@@ -158,6 +158,8 @@ const labelOf = (c: { system: ColourSystemId; house: HouseStyleId | null }) =>
  * tells the rider nothing. Other systems are listed even when they agree, so a page can say "same in bs".
  */
 function withAmbiguities(input: string, [best, ...others]: Candidate[]): DecodedColour {
+  // Callers pass what they found only when they found something.
+  if (best === undefined) throw new Error("withAmbiguities needs at least one reading");
   const value = build(input, best.system, best.house, best.outcome.colours);
   const jisShown = new Set<string>(best.system === "jis" ? [best.outcome.colours.join("/")] : []);
   const listed: Listed[] = [];

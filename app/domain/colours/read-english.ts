@@ -37,8 +37,9 @@ export function readEn(s: string): Outcome {
   for (const m of s.matchAll(scan)) {
     const at = m.index ?? 0;
     if (m[4] !== undefined) return miss(m[4], at);
-    if (m[2] !== undefined && words.length && words[words.length - 1].at + words[words.length - 1].text.length === at) {
-      words[words.length - 1].slashAfter = m[2].startsWith("/");
+    // words.length is checked first: words[words.length - 1] is the last word.
+    if (m[2] !== undefined && words.length && words[words.length - 1]!.at + words[words.length - 1]!.text.length === at) {
+      words[words.length - 1]!.slashAfter = m[2].startsWith("/");
     }
     if (m[1] !== undefined) {
       const word = m[1].toLowerCase().replace(/\.$/, "");
@@ -47,7 +48,7 @@ export function readEn(s: string): Outcome {
   }
   const colours: ColourName[] = [];
   for (let i = 0; i < words.length; i++) {
-    const w = words[i];
+    const w = words[i]!; // i < words.length
     const next = words[i + 1];
     const span = (n: Word | undefined) => (n ? s.slice(w.at, n.at + n.text.length) : w.text);
     if (w.word === "w" && w.slashAfter) continue;

@@ -92,7 +92,7 @@ export function readIec(s: string, mode: Mode): Outcome {
   const lower = letters === letters.toLowerCase();
   const upper = letters === letters.toUpperCase();
   if (mode === "strict" && !lower && !upper) {
-    const mixed = segs.find((g) => g.text !== g.text.toUpperCase() && g.text !== g.text.toLowerCase()) ?? segs[0];
+    const mixed = segs.find((g) => g.text !== g.text.toUpperCase() && g.text !== g.text.toLowerCase()) ?? segs[0]!; // mixed case was seen, so there is a segment
     return miss(mixed.text, mixed.at);
   }
   let tokens: Token[] = [];
@@ -106,9 +106,9 @@ export function readIec(s: string, mode: Mode): Outcome {
   // "GN/YE" is how GNYE often appears on labels: read it as the one combined code.
   const merged: Token[] = [];
   for (let i = 0; i < tokens.length; i++) {
-    const t = tokens[i];
+    const t = tokens[i]!; // i < tokens.length
     if (t.code === "GN" && tokens[i + 1]?.code === "YE") {
-      merged.push({ code: "GNYE", colour: "green-yellow", at: t.at, end: tokens[i + 1].end });
+      merged.push({ code: "GNYE", colour: "green-yellow", at: t.at, end: tokens[i + 1]!.end });
       i++;
     } else merged.push(t);
   }
@@ -123,7 +123,7 @@ export function readIec(s: string, mode: Mode): Outcome {
     return rule(part, from, `"${part}" is not an IEC 60757 designation: green and yellow are combined only as GNYE (protective earth)`);
   }
   const positions = tokens.map((t) => IEC_INDEX.get(t.code)!);
-  const tableOrder = positions.every((p, i) => i === 0 || p > positions[i - 1]);
+  const tableOrder = positions.every((p, i) => i === 0 || p > positions[i - 1]!);
   return { ok: true, colours: tokens.map((t) => t.colour), lower, tableOrder };
 }
 
@@ -151,7 +151,7 @@ export function readBs(s: string, mode: Mode): Outcome {
   const colours: ColourName[] = [];
   for (const seg of segmentsOf(s)) {
     for (let i = 0; i < seg.text.length; i++) {
-      const ch = seg.text[i];
+      const ch = seg.text[i]!; // i < seg.text.length
       // The code is written in capitals; in auto-detection "Sb" or "Gr" are not British codes.
       if (mode === "strict" && ch !== ch.toUpperCase()) return miss(ch, seg.at + i);
       const up = ch.toUpperCase();

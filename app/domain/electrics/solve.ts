@@ -67,7 +67,7 @@ export function solve(net: Network, state: OperatingState, opts: SolveOptions = 
       return { e: x.e, b: closed.has(i) ? ({ t: "conductor", ohms: x.b.ohms } as Behaviour) : ({ t: "open" } as Behaviour) };
     });
   const open = solveTopology(fix(new Set()), net);
-  const variants = switchingIdx.map((i) => ({ i, duty: (elements[i].b as { duty: number }).duty, sol: solveTopology(fix(new Set([i])), net) }));
+  const variants = switchingIdx.map((i) => ({ i, duty: (elements[i]!.b as { duty: number }).duty, sol: solveTopology(fix(new Set([i])), net) }));
   const allClosed = switchingIdx.length > 1 ? solveTopology(fix(new Set(switchingIdx)), net) : variants[0]?.sol ?? open;
 
   const avgV = (n: string) => variants.reduce((v, k) => v + k.duty * ((k.sol.V.get(n) ?? 0) - (open.V.get(n) ?? 0)), open.V.get(n) ?? 0);

@@ -66,8 +66,9 @@ function groupOf(net: string, rows: CutRow[], topo: Topology, input: PlannerInpu
 export function colourRows(rows: CutRow[], topo: Topology, input: PlannerInput, kept: PlannerCircuit[]): LegendRow[] {
   const legend = new Map<string, LegendRow>();
   const write = (colours: ColourName[]) => {
-    const t = encodeColour(colours[0], colours.slice(1), input.notation);
-    return t ?? encodeColour(colours[0], colours.slice(1), "en") ?? colours.join("/");
+    // Every option below has a base: colours[0] is there.
+    const t = encodeColour(colours[0]!, colours.slice(1), input.notation);
+    return t ?? encodeColour(colours[0]!, colours.slice(1), "en") ?? colours.join("/");
   };
   if (input.scheme === "factory") {
     for (const r of rows) {
@@ -94,7 +95,7 @@ export function colourRows(rows: CutRow[], topo: Topology, input: PlannerInput, 
   for (const n of nets) {
     const g = groups.get(n)!;
     if (g === "earth") { assign.set(n, earthColours); continue; }
-    const base = GROUP_BASE[g];
+    const base = GROUP_BASE[g]!; // earth is handled above; every other group is a key of GROUP_BASE
     const options: ColourName[][] = [[base], ...TRACERS.map((t) => [base, t] as ColourName[])];
     // When a group runs out, any free pair that keeps the rules.
     for (const b of Object.values(GROUP_BASE)) for (const t of TRACERS) options.push([b, t]);

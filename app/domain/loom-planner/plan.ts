@@ -98,7 +98,7 @@ function buildPlan(input: PlannerInput): PlanResult {
     let lengthM: number;
     let lengthSource: CutRow["lengthSource"];
     const notes: string[] = [];
-    if (lengths[w.id] !== undefined) { lengthM = lengths[w.id]; lengthSource = "builder"; }
+    if (lengths[w.id] !== undefined) { lengthM = lengths[w.id]!; lengthSource = "builder"; }
     else if (typeof w.defaultLengthM === "number" && Number.isFinite(w.defaultLengthM) && w.defaultLengthM > 0) { lengthM = w.defaultLengthM; lengthSource = "family default"; }
     else { lengthM = ASSUMED_RUN_M; lengthSource = "assumed"; assumed++; notes.push(`Length assumed ${ASSUMED_RUN_M} m: measure the run and enter it.`); }
     if (role === "power" && currentA < NO_CURRENT_A) notes.push("Carries no current in any state the planner checks: check what it feeds before you leave it out or cut it thin.");
