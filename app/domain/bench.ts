@@ -65,7 +65,7 @@ export function resistanceUnit(unit: string): string | null {
   const u = unit.normalize("NFKC").replace(/\s+/g, "");
   const m = /^(k|K|m|M|kilo|milli|mega)?(?:Ω|[oO]hms?|OHMS?)$/.exec(u);
   if (m) return `${PREFIXES[m[1] ?? ""]}Ω`;
-  if (/^(?:kil|meg)ohms?$/i.test(u)) return `${u[0].toLowerCase() === "k" ? "k" : "M"}Ω`; // "kilohm", "megohm"
+  if (/^(?:kil|meg)ohms?$/i.test(u)) return `${u[0]!.toLowerCase() === "k" ? "k" : "M"}Ω`; // "kilohm", "megohm"
   return null;
 }
 

@@ -14,7 +14,7 @@ export function facePaint(pins: readonly { cavity: string; code: string | null }
     if (!d.ok) return { cavity: p.cavity, code: p.code, baseHex: null, tracerHexes: [], title: `${p.code} (not understood)` };
     const [base, ...tracers] = d.value.colours;
     return {
-      cavity: p.cavity, code: p.code, baseHex: swatch(base).hex, ink: swatch(base).ink,
+      cavity: p.cavity, code: p.code, baseHex: swatch(base!).hex, ink: swatch(base!).ink, // a decoded code has at least one colour
       tracerHexes: tracers.map((c) => swatch(c).hex), title: `${p.code}, ${describeColour(d.value)}`,
     };
   });

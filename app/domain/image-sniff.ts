@@ -32,12 +32,12 @@ export function sniffImage(head: Uint8Array): Sniffed {
   // WebP: a RIFF container whose form type is "WEBP" (WebP Container Specification). In an extended file (VP8X first),
   // bit 1 of the flags byte at offset 20 says the file is animated.
   if (ascii(head, 0, 4) === "RIFF" && ascii(head, 8, 12) === "WEBP") {
-    const animated = ascii(head, 12, 16) === "VP8X" && head.length > 20 && (head[20] & 0x02) !== 0;
+    const animated = ascii(head, 12, 16) === "VP8X" && head.length > 20 && (head[20]! & 0x02) !== 0;
     return { ok: true, kind: "webp", animated };
   }
   // ISO base media file (ISO/IEC 14496-12): a box size, then "ftyp" and the major brand; compatible brands follow.
   if (ascii(head, 4, 8) === "ftyp") {
-    const boxEnd = Math.min(head.length, ((head[0] << 24) | (head[1] << 16) | (head[2] << 8) | head[3]) >>> 0 || head.length);
+    const boxEnd = Math.min(head.length, ((head[0]! << 24) | (head[1]! << 16) | (head[2]! << 8) | head[3]!) >>> 0 || head.length);
     const brands = [ascii(head, 8, 12)];
     for (let at = 16; at + 4 <= boxEnd; at += 4) brands.push(ascii(head, at, at + 4));
     if (brands.some((b) => AVIF_BRANDS.has(b))) return { ok: false, format: "avif" };

@@ -93,7 +93,7 @@ export class LoomGraph {
     const seen = new Set([from]);
     const queue = [from];
     for (let i = 0; i < queue.length; i++) {
-      const node = queue[i];
+      const node = queue[i]!; // i < queue.length
       for (const e of this.at(node)) {
         if (!conducts(e, switches)) continue;
         const next = e.a === node ? e.b : e.a;
@@ -122,7 +122,7 @@ export class LoomGraph {
    * Current passes conductors freely but no other load: a series circuit must close through its own load.
    */
   loop(from: string, via: GraphEdge, to: string, switches: SwitchState) {
-    for (const [x, y] of [[via.a, via.b], [via.b, via.a]]) {
+    for (const [x, y] of [[via.a, via.b], [via.b, via.a]] as const) {
       const supply = this.path(from, x, switches);
       const ret = supply && this.path(y, to, switches);
       if (supply && ret) return { supply, load: via, ret };

@@ -49,7 +49,7 @@ export function movePinRow(p: CardProposal, i: number, delta: number): CardPropo
   if (to === i) return p;
   const pins = [...p.pins];
   const [row] = pins.splice(i, 1);
-  pins.splice(to, 0, row);
+  pins.splice(to, 0, row!); // i was checked to be in range, so one row came out
   return { ...p, pins };
 }
 
@@ -156,7 +156,7 @@ export function pastePins(p: CardProposal, text: string, mode: "replace" | "appe
     const at = byCavity.get(row.cavity);
     if (at !== undefined) {
       if (filled.has(row.cavity)) return skip(`cavity “${row.cavity}” is pasted twice; the first one was kept.`);
-      if (!isPlaceholder(pins[at])) return skip(`cavity “${row.cavity}” already has a row in the pin map; remove it first or paste with “replace”.`);
+      if (!isPlaceholder(pins[at]!)) return skip(`cavity “${row.cavity}” already has a row in the pin map; remove it first or paste with “replace”.`);
       pins[at] = row;
     } else {
       if (pins.length >= LIMITS.pins) return skip(`the pin map holds at most ${LIMITS.pins} rows.`);

@@ -74,7 +74,7 @@ export function splitSharedConditions(conditions: readonly (string | null | unde
   const texts = conditions.map((c) => (c ?? "").trim());
   const none = { shared: null, rest: texts };
   if (texts.length < 2 || texts.some((t) => t === "")) return none;
-  let common = texts[0];
+  let common = texts[0]!; // at least two texts, checked above
   for (const t of texts.slice(1)) {
     let i = 0;
     while (i < common.length && i < t.length && common[i] === t[i]) i++;

@@ -343,7 +343,7 @@ const HEADER_ALIASES: Record<string, keyof ProposedPin | "goesToConnector" | "go
 export function pinsFromTable(cells: readonly (readonly string[])[]): ProposedPin[] {
   const rows = cells.filter((r) => r.some((c) => c.trim() !== ""));
   if (rows.length === 0) return [];
-  const head = rows[0].map((h) => HEADER_ALIASES[h.trim().toLowerCase()]);
+  const head = rows[0]!.map((h) => HEADER_ALIASES[h.trim().toLowerCase()]);
   const hasHeader = head.filter(Boolean).length >= 2;
   const columns = hasHeader ? head : (["cavity", "code", "circuit", "terminal"] as const);
   const body = hasHeader ? rows.slice(1) : rows;

@@ -122,7 +122,7 @@ export function wastedSparkPairs(firingOrder: string, opts: WastedSparkOptions):
   }
 
   const half = cylinders / 2;
-  const columns: [number, number][] = order.slice(0, half).map((c, i) => [c, order[i + half]]);
+  const columns: [number, number][] = order.slice(0, half).map((c, i) => [c, order[i + half]!]); // i < half and order has 2 × half cylinders
   const layoutRows = `${order.slice(0, half).join(" ")} / ${order.slice(half).join(" ")}`;
   const method = `${METHOD} ${shown} → ${layoutRows} → ${columns.map(([a, b]) => `${a}&${b}`).join(", ")}.`;
 
@@ -192,18 +192,19 @@ export function wastedSparkPairs(firingOrder: string, opts: WastedSparkOptions):
 
   // The test that makes the columns real pairs: each column's cylinders fire 360° apart.
   const at: number[] = [0];
-  for (let i = 1; i < cylinders; i++) at.push(at[i - 1] + intervals[i - 1]);
-  const off = columns.map((_, i) => at[i + half] - at[i]);
+  // at and intervals have one entry per cylinder; i + half < cylinders.
+  for (let i = 1; i < cylinders; i++) at.push(at[i - 1]! + intervals[i - 1]!);
+  const off = columns.map((_, i) => at[i + half]! - at[i]!);
   const ok = off.every((d) => near(d, 360));
   // Twins are named by their intervals smallest first ("180–540"); longer engines read in firing order.
   const iv = dash(cylinders === 2 ? [...intervals].sort((a, b) => a - b) : intervals);
   const lead = note ? `${note}: ` : "";
 
   if (!ok) {
-    const bad = columns.map(([a, b], i) => `${a}&${b} ${Number(off[i].toFixed(3))}°`).join(", ");
+    const bad = columns.map(([a, b], i) => `${a}&${b} ${Number(off[i]!.toFixed(3))}°`).join(", ");
     const twinWords =
       cylinders === 2
-        ? ` The pistons never reach top dead centre together, so one coil firing both plugs would spark the other cylinder ${near(off[0], 180) || near(off[0], 540) ? "at bottom dead centre" : "away from top dead centre"}; each cylinder needs its own trigger and coil.`
+        ? ` The pistons never reach top dead centre together, so one coil firing both plugs would spark the other cylinder ${near(off[0]!, 180) || near(off[0]!, 540) ? "at bottom dead centre" : "away from top dead centre"}; each cylinder needs its own trigger and coil.`
         : " Each cylinder (or each truly 360°-apart pair) needs its own trigger and coil.";
     return {
       suitable: false, status: "not-suitable", pairs: [], columns, intervalsDeg: intervals,

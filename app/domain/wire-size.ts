@@ -221,7 +221,7 @@ export function wireSize(input: WireSizeInput): WireSizeResult {
   };
 
   const gauge = smallestAtLeast(AWG_BY_AREA, awgAreaMm2, need);
-  if (gauge === undefined) throw tooBig(awgLabel(AWG_BY_AREA[AWG_BY_AREA.length - 1]));
+  if (gauge === undefined) throw tooBig(awgLabel(AWG_BY_AREA[AWG_BY_AREA.length - 1]!));
   const gByDrop = smallestAtLeast(AWG_BY_AREA, awgAreaMm2, minAreaMm2)!;
   const gArea = awgAreaMm2(gauge);
   const gDrop = dropAt(gArea);

@@ -21,6 +21,6 @@ export function describeColour(d: Pick<DecodedColour, "base" | "tracers" | "colo
     return `${d.base.name} with ${listOf(tracers)} tracer${tracers.length > 1 ? "s" : ""}`;
   }
   // IEC input names colours without saying which is the base, so none is called a tracer.
-  if (d.colours.length === 1) return alone(d.colours[0]);
+  if (d.colours.length === 1) return alone(d.colours[0]!);
   return listOf(d.colours);
 }

@@ -163,7 +163,7 @@ function luminance(hex: string): number {
 /** WCAG 2 contrast ratio of two "#rrggbb" colours (1 to 21). */
 export function contrastRatio(a: string, b: string): number {
   const [hi, lo] = [luminance(a), luminance(b)].sort((x, y) => y - x);
-  return (hi + 0.05) / (lo + 0.05);
+  return (hi! + 0.05) / (lo! + 0.05); // the sorted pair of two luminances
 }
 
 const SWATCHES = new Map<ColourName, { hex: string; ink: string }>(
