@@ -72,7 +72,7 @@ export function solveTopology(elements: readonly { e: Element; b: Behaviour }[],
     add(e.a, -j); add(e.b, j);
   });
   for (const { e, b } of elements) {
-    let i = 0;
+    let i: number;
     if (b.t === "resistor") i = (superV(find(e.a)) - superV(find(e.b))) / b.ohms;
     else if (b.t === "current") i = b.amps - (superV(find(e.b)) - superV(find(e.a))) / b.ohms;
     else continue;

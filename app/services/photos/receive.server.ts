@@ -75,12 +75,14 @@ const tooLarge = () => new PhotoError(413, "too_large",
 
 /** Remove control and bidi-override characters, cut to `max` characters: safe to keep as text, never used as a path. */
 function cleanName(name: string, max = 200): string {
+  // eslint-disable-next-line no-control-regex -- control characters are what this checks for
   const cleaned = name.replace(/[\u0000-\u001f\u007f-\u009f\u200e\u200f\u202a-\u202e\u2066-\u2069]/g, "");
   return Array.from(cleaned).slice(0, max).join("");
 }
 
 // The same normalisation the submission editor applies (app/validation/submissions.ts): one line, no control chars.
 function cleanLine(value: string, max: number, field: string): string {
+  // eslint-disable-next-line no-control-regex -- control characters are what this checks for
   const s = value.replace(/[\u0000-\u0008\u000b\u000c\u000e-\u001f\u007f]/g, "").replace(/[\t\r\n]+/g, " ").trim();
   if (s.length > max) throw new PhotoError(400, "bad_request", `The ${field} may be at most ${max} characters.`, field);
   return s;
