@@ -8,8 +8,20 @@ export default defineConfig({
   resolve: { tsconfigPaths: true },
   // Server-only packages: keep the client dep optimizer from "discovering" them mid-run (reload breaks tests).
   optimizeDeps: {
-    exclude: ["sequelize", "sqlite3", "umzug", "sharp", "bcryptjs", "remix-auth", "remix-auth-form",
-      "@mjackson/form-data-parser", "meilisearch", "nodemailer", "sanitize-html", "tsx"],
+    exclude: [
+      "sequelize",
+      "sqlite3",
+      "umzug",
+      "sharp",
+      "bcryptjs",
+      "remix-auth",
+      "remix-auth-form",
+      "@mjackson/form-data-parser",
+      "meilisearch",
+      "nodemailer",
+      "sanitize-html",
+      "tsx",
+    ],
   },
   // Three projects so CI output says which layer failed; integration and browser tests boot the production build.
   test: {
@@ -17,7 +29,14 @@ export default defineConfig({
       { extends: true, test: { name: "unit", include: ["tests/unit/**/*.test.ts"], environment: "node" } },
       {
         extends: true,
-        test: { name: "integration", include: ["tests/integration/**/*.test.ts"], environment: "node", testTimeout: 30_000, hookTimeout: 60_000, fileParallelism: false },
+        test: {
+          name: "integration",
+          include: ["tests/integration/**/*.test.ts"],
+          environment: "node",
+          testTimeout: 30_000,
+          hookTimeout: 60_000,
+          fileParallelism: false,
+        },
       },
       {
         extends: true,

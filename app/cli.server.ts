@@ -19,7 +19,10 @@ try {
   } else if (command === "seed") {
     await migrateUp();
     if ((await Make.count()) > 0) console.log("library not empty: seed skipped (npm run db:reset starts over)");
-    else { await seedDemo(); console.log("demo library seeded"); }
+    else {
+      await seedDemo();
+      console.log("demo library seeded");
+    }
   } else if (command === "setup") {
     const seeded = await setupDatabase({ seed: env.SEED_DEMO });
     console.log(`database ready at ${databasePath()}${seeded ? " (demo library seeded)" : ""}`);
@@ -44,7 +47,19 @@ try {
     } else {
       await migrateUp();
       const now = new Date();
-      const [user, created] = await User.findOrCreate({ where: { email }, defaults: { email, displayName: name, role: "admin", passwordHash: await hashPassword(password, undefined, { wait: true }), emailVerifiedAt: now, passwordChangedAt: now, createdAt: now, disabledAt: null } });
+      const [user, created] = await User.findOrCreate({
+        where: { email },
+        defaults: {
+          email,
+          displayName: name,
+          role: "admin",
+          passwordHash: await hashPassword(password, undefined, { wait: true }),
+          emailVerifiedAt: now,
+          passwordChangedAt: now,
+          createdAt: now,
+          disabledAt: null,
+        },
+      });
       if (!created) await user.update({ role: "admin" });
       console.log(`${email} is an admin${created ? " (new account)" : ""}`);
     }

@@ -30,7 +30,13 @@ export const handleError: HandleErrorFunction = (error, { request, context }) =>
   console.error(`[error ${id}] ${request.method} ${new URL(request.url).pathname}:`, error);
 };
 
-export default function handleRequest(request: Request, responseStatusCode: number, responseHeaders: Headers, routerContext: EntryContext, loadContext: AppLoadContext) {
+export default function handleRequest(
+  request: Request,
+  responseStatusCode: number,
+  responseHeaders: Headers,
+  routerContext: EntryContext,
+  loadContext: AppLoadContext,
+) {
   // https://httpwg.org/specs/rfc9110.html#HEAD
   if (request.method.toUpperCase() === "HEAD") return new Response(null, { status: responseStatusCode, headers: responseHeaders });
   const nonce = loadContext.cspNonce ?? newNonce();

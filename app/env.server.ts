@@ -15,24 +15,36 @@ const MiB = 1024 * KiB;
 // An unset or empty variable takes the default; anything else must parse.
 const blank = (v: unknown) => (typeof v === "string" && v.trim() === "" ? undefined : v);
 const whole = (what: string, min: number, max = Number.MAX_SAFE_INTEGER) =>
-  z.preprocess(blank, z.coerce.number({ error: `expected ${what}` }).int(`expected ${what} (a whole number)`).min(min, `expected ${what} of at least ${min}`).max(max, `expected ${what} of at most ${max}`));
+  z.preprocess(
+    blank,
+    z.coerce
+      .number({ error: `expected ${what}` })
+      .int(`expected ${what} (a whole number)`)
+      .min(min, `expected ${what} of at least ${min}`)
+      .max(max, `expected ${what} of at most ${max}`),
+  );
 const onOff = z.preprocess(blank, z.enum(["on", "off"], { error: "expected on or off" }).default("on"));
 const text = z.preprocess(blank, z.string().optional());
 /** A URL of one of these schemes; the message never repeats the value (it may carry a password). */
 const url = (schemes: string[], fallback: string) =>
-  z.preprocess(blank, z.string().default(fallback)).refine((s) => {
-    try {
-      return schemes.includes(new URL(s).protocol.replace(/:$/, ""));
-    } catch {
-      return false;
-    }
-  }, `expected a ${schemes.join(" or ")} URL`);
+  z.preprocess(blank, z.string().default(fallback)).refine(
+    (s) => {
+      try {
+        return schemes.includes(new URL(s).protocol.replace(/:$/, ""));
+      } catch {
+        return false;
+      }
+    },
+    `expected a ${schemes.join(" or ")} URL`,
+  );
 
 const schema = z.object({
   NODE_ENV: z.preprocess(blank, z.enum(["production", "development", "test"]).default("production")),
   PORT: whole("a port", 0, 65535).default(3000), // 0: any free port (tests)
   HOST: text,
-  APP_URL: z.preprocess(blank, z.string().optional()).refine((s) => s === undefined || /^https?:\/\/[^/\s]+\/?$/.test(s), "expected an origin such as https://loomlore.example (http or https, no path)"),
+  APP_URL: z
+    .preprocess(blank, z.string().optional())
+    .refine((s) => s === undefined || /^https?:\/\/[^/\s]+\/?$/.test(s), "expected an origin such as https://loomlore.example (http or https, no path)"),
   ALLOWED_ORIGINS: text,
   TRUST_PROXY: text,
 
@@ -59,7 +71,13 @@ const schema = z.object({
 
   SEARCH_URL: url(["http", "https"], "http://127.0.0.1:7700"),
   SEARCH_KEY: text,
-  SEARCH_INDEX: z.preprocess(blank, z.string().regex(/^[A-Za-z0-9_-]{1,100}$/, "expected an index name (letters, digits, - and _)").default("library")),
+  SEARCH_INDEX: z.preprocess(
+    blank,
+    z
+      .string()
+      .regex(/^[A-Za-z0-9_-]{1,100}$/, "expected an index name (letters, digits, - and _)")
+      .default("library"),
+  ),
   SEARCH_TIMEOUT_MS: whole("milliseconds", 1, 60_000).default(300),
   SEARCH_WORK_TIMEOUT_MS: whole("milliseconds", 1, 600_000).default(10_000),
   SEARCH_TASK_TIMEOUT_MS: whole("milliseconds", 1, 3_600_000).default(60_000),

@@ -40,16 +40,27 @@ export function Layout({ children }: { children: React.ReactNode }) {
         <Links />
       </head>
       <body className="min-h-screen font-sans antialiased">
-        <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:bg-white focus:p-2">Skip to content</a>
+        <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:top-2 focus:left-2 focus:bg-white focus:p-2">
+          Skip to content
+        </a>
         <header className="no-print border-b-4 border-ink bg-ink text-paper">
           <div className="mx-auto flex max-w-6xl flex-wrap items-center gap-x-6 gap-y-2 px-4 py-3">
             <Link to="/" className="flex items-center gap-2 text-xl font-bold tracking-tight text-paper no-underline">
-              <svg aria-hidden="true" width="26" height="26" viewBox="0 0 26 26"><rect x="2" y="6" width="22" height="14" rx="3" fill="none" stroke="currentColor" strokeWidth="2.5" /><circle cx="9" cy="13" r="2.6" fill="#e0a43a" /><circle cx="17" cy="13" r="2.6" fill="#5aa6d6" /></svg>
+              <svg aria-hidden="true" width="26" height="26" viewBox="0 0 26 26">
+                <rect x="2" y="6" width="22" height="14" rx="3" fill="none" stroke="currentColor" strokeWidth="2.5" />
+                <circle cx="9" cy="13" r="2.6" fill="#e0a43a" />
+                <circle cx="17" cy="13" r="2.6" fill="#5aa6d6" />
+              </svg>
               Loomlore
             </Link>
             <nav aria-label="Main" className="flex gap-4 text-base">
               {nav.map((n) => (
-                <NavLink key={n.to} to={n.to} end={n.end} className={({ isActive }) => `no-underline hover:underline ${isActive ? "font-semibold text-white underline decoration-2" : "text-paper/85"}`}>
+                <NavLink
+                  key={n.to}
+                  to={n.to}
+                  end={n.end}
+                  className={({ isActive }) => `no-underline hover:underline ${isActive ? "font-semibold text-white underline decoration-2" : "text-paper/85"}`}
+                >
                   {n.label}
                 </NavLink>
               ))}
@@ -58,10 +69,12 @@ export function Layout({ children }: { children: React.ReactNode }) {
             <AccountLinks />
           </div>
         </header>
-        <main id="main" className="mx-auto max-w-6xl px-4 py-6">{children}</main>
+        <main id="main" className="mx-auto max-w-6xl px-4 py-6">
+          {children}
+        </main>
         <footer className="no-print mx-auto max-w-6xl border-t border-rule px-4 py-6 text-sm text-muted">
-          Loomlore is a community library. Check every card against your own bike and the factory service manual; when in doubt, ask a qualified mechanic.
-          All makes and families shown in this demo are invented.
+          Loomlore is a community library. Check every card against your own bike and the factory service manual; when in doubt, ask a qualified mechanic. All
+          makes and families shown in this demo are invented.
         </footer>
         <ScrollRestoration />
         <Scripts />
@@ -77,19 +90,41 @@ function AccountLinks() {
   if (!user) {
     return (
       <div className="ml-auto flex gap-3 text-sm">
-        <Link to="/login" className="text-paper underline">Sign in</Link>
-        <Link to="/join" className="rounded bg-paper px-2 py-0.5 font-semibold text-ink no-underline">Join</Link>
+        <Link to="/login" className="text-paper underline">
+          Sign in
+        </Link>
+        <Link to="/join" className="rounded bg-paper px-2 py-0.5 font-semibold text-ink no-underline">
+          Join
+        </Link>
       </div>
     );
   }
   return (
     <div className="ml-auto flex flex-wrap items-center gap-3 text-sm">
-      <Link to="/garage" className="text-paper underline">Garage</Link>
-      {can(user.role, "submission.create") ? <Link to="/contribute" className="text-paper underline">Contribute</Link> : null}
-      {can(user.role, "review.work") ? <Link to="/review" className="text-paper underline">Review queue</Link> : null}
-      {can(user.role, "admin.roles") ? <Link to="/admin" className="text-paper underline">Admin</Link> : null}
-      <Link to="/account" className="text-paper/85 no-underline hover:underline" data-testid="signed-in-as">{user.displayName}</Link>
-      <Form method="post" action="/logout" reloadDocument><button className="rounded border border-paper/60 px-2 py-0.5 text-paper">Sign out</button></Form>
+      <Link to="/garage" className="text-paper underline">
+        Garage
+      </Link>
+      {can(user.role, "submission.create") ? (
+        <Link to="/contribute" className="text-paper underline">
+          Contribute
+        </Link>
+      ) : null}
+      {can(user.role, "review.work") ? (
+        <Link to="/review" className="text-paper underline">
+          Review queue
+        </Link>
+      ) : null}
+      {can(user.role, "admin.roles") ? (
+        <Link to="/admin" className="text-paper underline">
+          Admin
+        </Link>
+      ) : null}
+      <Link to="/account" className="text-paper/85 no-underline hover:underline" data-testid="signed-in-as">
+        {user.displayName}
+      </Link>
+      <Form method="post" action="/logout" reloadDocument>
+        <button className="rounded border border-paper/60 px-2 py-0.5 text-paper">Sign out</button>
+      </Form>
     </div>
   );
 }
@@ -105,5 +140,5 @@ export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
   if (!isRouteErrorResponse(error)) console.error(error);
   // A thrown message (a string) is the site's own words for this case; anything else is not shown.
   const detail = isRouteErrorResponse(error) && typeof error.data === "string" && error.data && status < 500 ? error.data : null;
-  return <ErrorPage status={status} detail={detail} requestId={status >= 500 ? root?.requestId ?? null : null} />;
+  return <ErrorPage status={status} detail={detail} requestId={status >= 500 ? (root?.requestId ?? null) : null} />;
 }

@@ -23,7 +23,6 @@ if (env.NODE_ENV === "production" && !process.execArgv.includes("--enable-source
 const root = path.resolve(import.meta.dirname, "..");
 const build = await import(pathToFileURL(path.join(root, "build/server/index.js")).href);
 
-
 const app = express();
 app.disable("x-powered-by");
 // Behind a proxy, TRUST_PROXY (e.g. "loopback" or a hop count) lets req.ip be the client's address, not the proxy's.
@@ -102,7 +101,14 @@ app.use(express.static(path.join(root, "build/client"), { maxAge: "1h" }));
 // The client's address reaches loaders and actions through the load context (rate limits are per address), and so
 // does a fresh Content-Security-Policy nonce for the document rendered (app/entry.server.tsx), and an id that the log
 // line and the error page of an unexpected error share (ASVS V7.4.1).
-app.all("*", createRequestHandler({ build, mode: env.NODE_ENV, getLoadContext: (req) => ({ ip: req.ip ?? req.socket.remoteAddress ?? "unknown", cspNonce: newNonce(), requestId: randomBytes(4).toString("hex") }) }));
+app.all(
+  "*",
+  createRequestHandler({
+    build,
+    mode: env.NODE_ENV,
+    getLoadContext: (req) => ({ ip: req.ip ?? req.socket.remoteAddress ?? "unknown", cspNonce: newNonce(), requestId: randomBytes(4).toString("hex") }),
+  }),
+);
 
 // Slow clients must not hold sockets (QUALITY F7, the "Slow clients" anchor: CVE-2018-12122): headers within 20 s
 // (HEADERS_TIMEOUT_MS, slowloris), a whole request within 2 minutes. Node checks both only every
@@ -110,12 +116,15 @@ app.all("*", createRequestHandler({ build, mode: env.NODE_ENV, getLoadContext: (
 // up to 50 s: check every quarter of headersTimeout, between 250 ms and 2 s.
 const headersTimeout = env.HEADERS_TIMEOUT_MS; // at most 20 s (the setting's own bound)
 const requestTimeout = 120_000;
-const server = http.createServer({
-  headersTimeout,
-  requestTimeout,
-  keepAliveTimeout: 5_000,
-  connectionsCheckingInterval: Math.max(250, Math.min(2_000, Math.floor(headersTimeout / 4))),
-}, app);
+const server = http.createServer(
+  {
+    headersTimeout,
+    requestTimeout,
+    keepAliveTimeout: 5_000,
+    connectionsCheckingInterval: Math.max(250, Math.min(2_000, Math.floor(headersTimeout / 4))),
+  },
+  app,
+);
 
 // The app starts (migrate, seed when asked, the workers: app/startup.server.ts) before the server listens, so no
 // request waits on a migration; on SIGTERM the server stops taking requests, the workers finish their pass, then exit.

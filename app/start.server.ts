@@ -63,21 +63,28 @@ async function startMailStandIn(smtpPort: number): Promise<void> {
   });
   mailStandIn = child;
   child.on("exit", (code, signal) => {
-    if (!stopping) console.error(`[loomlore] the mail stand-in stopped (${code ?? signal}); mail stays queued until an SMTP server answers on port ${smtpPort}.`);
+    if (!stopping)
+      console.error(`[loomlore] the mail stand-in stopped (${code ?? signal}); mail stays queued until an SMTP server answers on port ${smtpPort}.`);
   });
   // Start the app once the stand-in answers (or after 10 s: the outbox keeps mail until it does).
   const deadline = Date.now() + 10_000;
   while (child.exitCode === null && Date.now() < deadline) {
     try {
       if ((await fetch(`http://127.0.0.1:${httpPort}/health`)).ok) break;
-    } catch { /* not listening yet */ }
+    } catch {
+      /* not listening yet */
+    }
     await new Promise((r) => setTimeout(r, 100));
   }
 }
 
 async function startSearchStandIn(port: number): Promise<void> {
   console.log(`[loomlore] starting the search stand-in on http://127.0.0.1:${port} (index kept in search/data)`);
-  const child = spawn(process.execPath, ["--import", "tsx", "search/server.ts"], { cwd: root, env: { ...childEnv, SEARCH_PORT: String(port) }, stdio: "inherit" });
+  const child = spawn(process.execPath, ["--import", "tsx", "search/server.ts"], {
+    cwd: root,
+    env: { ...childEnv, SEARCH_PORT: String(port) },
+    stdio: "inherit",
+  });
   searchStandIn = child;
   child.on("exit", (code, signal) => {
     if (!stopping) console.error(`[loomlore] the search stand-in stopped (${code ?? signal}); search answers from the database until it is back.`);
@@ -86,7 +93,9 @@ async function startSearchStandIn(port: number): Promise<void> {
   while (child.exitCode === null && Date.now() < deadline) {
     try {
       if ((await fetch(`http://127.0.0.1:${port}/health`)).ok) break;
-    } catch { /* not listening yet */ }
+    } catch {
+      /* not listening yet */
+    }
     await new Promise((r) => setTimeout(r, 100));
   }
 }
@@ -105,7 +114,8 @@ async function stopStandIns() {
 
 for (const sig of ["SIGINT", "SIGTERM"] as const) {
   process.on(sig, () => {
-    if (server) server.kill(sig); // its exit stops the stand-in and this process
+    if (server)
+      server.kill(sig); // its exit stops the stand-in and this process
     else stopStandIns().then(() => process.exit(0));
   });
 }

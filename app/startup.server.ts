@@ -25,7 +25,11 @@ export interface Workers {
 }
 
 /** The workers the settings ask for: all of them unless switched off. */
-export const configuredWorkers = (): Workers => ({ mail: env.MAIL_WORKER === "on", search: env.SEARCH_WORKER === "on", photoSweeper: env.PHOTO_SWEEPER === "on" });
+export const configuredWorkers = (): Workers => ({
+  mail: env.MAIL_WORKER === "on",
+  search: env.SEARCH_WORKER === "on",
+  photoSweeper: env.PHOTO_SWEEPER === "on",
+});
 /** No workers: a command that does its one job and exits. */
 export const NO_WORKERS: Workers = { mail: false, search: false, photoSweeper: false };
 

@@ -12,13 +12,19 @@ import { loadFamilyGraph } from "./graph.ts";
 export async function checkLibrary(opts: { familyId?: number; transaction?: Transaction } = {}): Promise<string[]> {
   const { transaction } = opts;
   const problems: string[] = [];
-  const families = await Family.findAll({ where: opts.familyId ? { id: opts.familyId } : {}, include: [{ model: Make, as: "make" }], order: [["id", "ASC"]], transaction });
+  const families = await Family.findAll({
+    where: opts.familyId ? { id: opts.familyId } : {},
+    include: [{ model: Make, as: "make" }],
+    order: [["id", "ASC"]],
+    transaction,
+  });
   for (const family of families) {
     const say = (s: string) => problems.push(`${family.slug}: ${s}`);
     const { graph, pins, wires, connectors, components, links } = await loadFamilyGraph(family.id, transaction);
     const pinById = new Map(pins.map((p) => [p.id, p]));
     const connById = new Map(connectors.map((c) => [c.id, c]));
-    const where = (p: Pin) => (p.connectorId ? `${connById.get(p.connectorId)?.slug} cavity ${p.cavity}` : `terminal ${p.cavity} of component #${p.componentId}`);
+    const where = (p: Pin) =>
+      p.connectorId ? `${connById.get(p.connectorId)?.slug} cavity ${p.cavity}` : `terminal ${p.cavity} of component #${p.componentId}`;
     const system = family.colourSystem as ColourSystemId;
     // Codes are checked in the make's house: without it a jis family would accept every Japanese-style house's codes.
     const houseStyle = houseFor(family.colourSystem, family.make?.houseStyle);
@@ -49,14 +55,18 @@ export async function checkLibrary(opts: { familyId?: number; transaction?: Tran
       for (const p of own) {
         const n = wires.filter((w) => w.fromPinId === p.id || w.toPinId === p.id).length;
         if (!c.componentId && n > 1) say(`${c.slug} cavity ${p.cavity} has ${n} wires (expected at most 1)`);
-        if (c.componentId && n !== 0 && !links.some((l) => l.fromPinId === p.id || l.toPinId === p.id)) say(`${c.slug} cavity ${p.cavity} leads nowhere inside its component`);
+        if (c.componentId && n !== 0 && !links.some((l) => l.fromPinId === p.id || l.toPinId === p.id))
+          say(`${c.slug} cavity ${p.cavity} leads nowhere inside its component`);
       }
     }
 
     for (const w of wires) {
       const ends = [pinById.get(w.fromPinId), pinById.get(w.toPinId)];
       for (const end of ends) {
-        if (!end) { say(`wire #${w.id} ends on a pin of another family`); continue; }
+        if (!end) {
+          say(`wire #${w.id} ends on a pin of another family`);
+          continue;
+        }
         if (end.colourCode && end.colourCode !== w.colourCode) say(`wire #${w.id} is ${w.colourCode} but ${where(end)} says ${end.colourCode}`);
       }
     }
@@ -70,15 +80,25 @@ export async function checkLibrary(opts: { familyId?: number; transaction?: Tran
     const compByKey = new Map(components.map((c) => [c.key, c]));
     for (const circuit of await Circuit.findAll({ where: { familyId: family.id }, transaction })) {
       const sw = resolveSwitches(circuit.switches);
-      if (!sw.ok) { say(`circuit ${circuit.slug}: ${sw.error}`); continue; }
+      if (!sw.ok) {
+        say(`circuit ${circuit.slug}: ${sw.error}`);
+        continue;
+      }
       for (const v of circuit.via) {
         const dot = v.indexOf(".");
         const comp = compByKey.get(v.slice(0, dot));
         const link = comp && links.find((l) => l.componentId === comp.id && l.label === v.slice(dot + 1));
-        if (!link) { say(`circuit ${circuit.slug}: names ${v}, which is not a link of the loom`); continue; }
+        if (!link) {
+          say(`circuit ${circuit.slug}: names ${v}, which is not a link of the loom`);
+          continue;
+        }
         const edge = graph.edges.find((e) => e.id === `l${link.id}`)!;
         if (!graph.loop(String(circuit.fromPinId), edge, String(circuit.toPinId), sw.value)) {
-          say(`circuit ${circuit.slug} does not close through ${v} with ${Object.entries(sw.value).map(([k, x]) => `${k} ${x}`).join(", ")}`);
+          say(
+            `circuit ${circuit.slug} does not close through ${v} with ${Object.entries(sw.value)
+              .map(([k, x]) => `${k} ${x}`)
+              .join(", ")}`,
+          );
         }
       }
     }

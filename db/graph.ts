@@ -20,9 +20,24 @@ export async function loadFamilyGraph(familyId: number, transaction?: Transactio
   const byConnectorCavity = new Map(pins.filter((p) => p.connectorId).map((p) => [`${p.connectorId}:${p.cavity}`, p]));
   const edges: Element[] = [
     // Stranded cable (IEC 60228 class 5 maximum): the drops the walk expects along a wire.
-    ...wires.map((w) => ({ id: `w${w.id}`, a: String(w.fromPinId), b: String(w.toPinId), kind: "wire" as const,
-      ohms: strandedResistance(w.sizeMm2 && w.sizeMm2 > 0 ? w.sizeMm2 : DEFAULT_SIZE_MM2, w.lengthMm && w.lengthMm > 0 ? w.lengthMm / 1000 : DEFAULT_LENGTH_M) })),
-    ...links.map((l) => ({ id: `l${l.id}`, a: String(l.fromPinId), b: String(l.toPinId), kind: l.kind as EdgeKind, label: l.label, switchId: l.switchId, positions: l.positions, params: l.params, ratingA: l.ratingA })),
+    ...wires.map((w) => ({
+      id: `w${w.id}`,
+      a: String(w.fromPinId),
+      b: String(w.toPinId),
+      kind: "wire" as const,
+      ohms: strandedResistance(w.sizeMm2 && w.sizeMm2 > 0 ? w.sizeMm2 : DEFAULT_SIZE_MM2, w.lengthMm && w.lengthMm > 0 ? w.lengthMm / 1000 : DEFAULT_LENGTH_M),
+    })),
+    ...links.map((l) => ({
+      id: `l${l.id}`,
+      a: String(l.fromPinId),
+      b: String(l.toPinId),
+      kind: l.kind as EdgeKind,
+      label: l.label,
+      switchId: l.switchId,
+      positions: l.positions,
+      params: l.params,
+      ratingA: l.ratingA,
+    })),
   ];
   for (const c of connectors) {
     // Each mated pair once: from the half with the smaller id.
@@ -43,10 +58,15 @@ export function familyNetwork(
 ): Network | null {
   const battery = loaded.components.find((c) => c.kind === "battery");
   const post = (label: string) => battery && loaded.pins.find((p) => p.componentId === battery.id && p.cavity === label);
-  const plus = post("+"), minus = post("-");
+  const plus = post("+"),
+    minus = post("-");
   if (!plus || !minus) return null;
   return {
-    elements: loaded.elements, systemV: family.systemVoltage === 6 ? 6 : 12, earth: family.earth === "positive" ? "positive" : "negative",
-    plus: String(plus.id), minus: String(minus.id), regulated,
+    elements: loaded.elements,
+    systemV: family.systemVoltage === 6 ? 6 : 12,
+    earth: family.earth === "positive" ? "positive" : "negative",
+    plus: String(plus.id),
+    minus: String(minus.id),
+    regulated,
   };
 }

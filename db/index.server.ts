@@ -39,7 +39,12 @@ function createSequelize(storage: string): Sequelize {
   // retry max 1: Sequelize retries "SQLITE_BUSY: database is locked" 5 times by default, on top of busy_timeout, so a
   // held lock made a decision wait 5 × busy_timeout before its 503 (QUALITY F9: wait up to busy_timeout, then 503).
   const s = new Sequelize({
-    dialect: "sqlite", storage, logging: false, define: { underscored: true }, transactionType: Transaction.TYPES.IMMEDIATE, retry: { max: 1 },
+    dialect: "sqlite",
+    storage,
+    logging: false,
+    define: { underscored: true },
+    transactionType: Transaction.TYPES.IMMEDIATE,
+    retry: { max: 1 },
   });
   // Every handle (the shared read handle, the one write handle) needs the same pragmas.
   s.addHook("afterConnect", async (conn: any) => {
@@ -180,7 +185,9 @@ export function enableTransactionGuard(): TransactionGuard {
     if (typeof options === "function") [callback, options] = [options, undefined];
     if (typeof callback !== "function") return (original as (o?: unknown) => Promise<Transaction>).call(this, options);
     const work = callback as (t: Transaction) => Promise<unknown>;
-    return (original as (o: unknown, cb: (t: Transaction) => Promise<unknown>) => Promise<unknown>).call(this, options, (t) => openTransaction.run(t, () => work(t)));
+    return (original as (o: unknown, cb: (t: Transaction) => Promise<unknown>) => Promise<unknown>).call(this, options, (t) =>
+      openTransaction.run(t, () => work(t)),
+    );
   };
   sequelize.transaction = wrapped as typeof sequelize.transaction;
   // Wrap query, not a beforeQuery hook: at entry the stack still holds the awaiting app frames (the hook runs after
@@ -196,7 +203,11 @@ export function enableTransactionGuard(): TransactionGuard {
       const stack = new Error().stack ?? "";
       Error.stackTraceLimit = limit;
       // Our frames only (app/, db/, tests/): the file:line that forgot the transaction is among them.
-      const frames = stack.split("\n").slice(1).filter((l) => !/node_modules|node:|db\/index\.server\.ts/.test(l)).map((l) => l.trim());
+      const frames = stack
+        .split("\n")
+        .slice(1)
+        .filter((l) => !/node_modules|node:|db\/index\.server\.ts/.test(l))
+        .map((l) => l.trim());
       const what = options?.transaction ? "ran in another transaction" : "ran without { transaction }";
       const line = `${what} while one is open: ${text.slice(0, 200)}\n    ${frames.join("\n    ")}`;
       violations.push(line);

@@ -38,8 +38,16 @@ export function migrator() {
   return new Umzug<QueryInterface>({
     migrations: migrations.map((m) => ({
       name: m.name,
-      up: ({ context }: { context: QueryInterface }) => inTransaction(async () => { await m.up({ context }); await record(m.name); }),
-      down: ({ context }: { context: QueryInterface }) => inTransaction(async () => { await m.down({ context }); await unrecord(m.name); }),
+      up: ({ context }: { context: QueryInterface }) =>
+        inTransaction(async () => {
+          await m.up({ context });
+          await record(m.name);
+        }),
+      down: ({ context }: { context: QueryInterface }) =>
+        inTransaction(async () => {
+          await m.down({ context });
+          await unrecord(m.name);
+        }),
     })),
     context: sequelize.getQueryInterface(),
     storage,

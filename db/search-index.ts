@@ -13,23 +13,63 @@ export async function libraryDocs(scope: { familyIds?: number[]; connectorIds?: 
   const whole = scope === null;
   const connectors = await Connector.findAll({ where: whole ? {} : { id: scope.connectorIds ?? [] }, order: [["id", "ASC"]], transaction });
   const familyIds = whole ? undefined : [...new Set([...(scope.familyIds ?? []), ...connectors.map((c) => c.familyId)])];
-  const families = await Family.findAll({ where: familyIds ? { id: familyIds } : {}, include: [{ model: Make, as: "make" }], order: [["id", "ASC"]], transaction });
+  const families = await Family.findAll({
+    where: familyIds ? { id: familyIds } : {},
+    include: [{ model: Make, as: "make" }],
+    order: [["id", "ASC"]],
+    transaction,
+  });
   const systems = new Map((await System.findAll({ where: { familyId: families.map((f) => f.id) }, transaction })).map((s) => [s.id, s.kind]));
-  const pins = await Pin.findAll({ where: { connectorId: connectors.map((c) => c.id) }, order: [["connectorId", "ASC"], ["position", "ASC"]], transaction });
-  const input = new Map(families.map((f) => [f.id, { slug: f.slug, name: f.name, modelRange: f.modelRange, yearFrom: f.yearFrom, yearTo: f.yearTo, engine: f.engine, ignition: f.ignition, make: { slug: f.make!.slug, name: f.make!.name } } satisfies FamilyInput]));
+  const pins = await Pin.findAll({
+    where: { connectorId: connectors.map((c) => c.id) },
+    order: [
+      ["connectorId", "ASC"],
+      ["position", "ASC"],
+    ],
+    transaction,
+  });
+  const input = new Map(
+    families.map((f) => [
+      f.id,
+      {
+        slug: f.slug,
+        name: f.name,
+        modelRange: f.modelRange,
+        yearFrom: f.yearFrom,
+        yearTo: f.yearTo,
+        engine: f.engine,
+        ignition: f.ignition,
+        make: { slug: f.make!.slug, name: f.make!.name },
+      } satisfies FamilyInput,
+    ]),
+  );
   const docs: SearchDoc[] = [];
   for (const f of families) if (whole || scope.familyIds?.includes(f.id)) docs.push(familyDoc(input.get(f.id)!));
   for (const c of connectors) {
     const f = families.find((x) => x.id === c.familyId)!;
-    docs.push(...connectorDocs(input.get(f.id)!, {
-      slug: c.slug, name: c.name, location: c.location, housing: c.housing, system: systems.get(c.systemId) ?? "", revision: c.revision,
-      pins: pins.filter((p) => p.connectorId === c.id).map((p) => ({ cavity: p.cavity, code: p.colourCode, circuit: p.circuit, terminal: p.terminal, goesTo: null })),
-    }, f.colourSystem as ColourSystemId));
+    docs.push(
+      ...connectorDocs(
+        input.get(f.id)!,
+        {
+          slug: c.slug,
+          name: c.name,
+          location: c.location,
+          housing: c.housing,
+          system: systems.get(c.systemId) ?? "",
+          revision: c.revision,
+          pins: pins
+            .filter((p) => p.connectorId === c.id)
+            .map((p) => ({ cavity: p.cavity, code: p.colourCode, circuit: p.circuit, terminal: p.terminal, goesTo: null })),
+        },
+        f.colourSystem as ColourSystemId,
+      ),
+    );
   }
   return docs;
 }
 
-const bodyOf = (d: SearchDoc) => [d.codes.join(" "), d.terminals.join(" "), d.circuits.join(" "), d.family, d.colours.join(" "), d.make, d.subtitle, d.text, d.years.join(" ")].join(" \n ");
+const bodyOf = (d: SearchDoc) =>
+  [d.codes.join(" "), d.terminals.join(" "), d.circuits.join(" "), d.family, d.colours.join(" "), d.make, d.subtitle, d.text, d.years.join(" ")].join(" \n ");
 
 /**
  * Rows of the fallback index go in pairs: the full-text row in `search_fts` and its facet columns in `search_facets`
@@ -60,7 +100,8 @@ export async function writeFallbackDocs(docs: SearchDoc[], transaction?: Transac
   for (const d of docs) {
     // the facet row takes the next rowid; the full-text row takes the same one (an FTS5 insert cannot RETURN it)
     await sequelize.query("INSERT INTO search_facets (type, make_slug, family_slug, system, pin_count) VALUES (?, ?, ?, ?, ?)", {
-      replacements: [d.type, d.makeSlug, d.familySlug, d.system, d.pinCount], transaction,
+      replacements: [d.type, d.makeSlug, d.familySlug, d.system, d.pinCount],
+      transaction,
     });
     await sequelize.query(
       "INSERT INTO search_fts (rowid, id, type, slug, make_slug, family_slug, system, pin_count, version, doc, title, body) VALUES (last_insert_rowid(), ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)",

@@ -139,11 +139,13 @@ class Store {
 
   /** Resolves when a write that started after this call has finished: the state at call time is on disk. */
   persist(): Promise<void> {
-    this.next ??= this.writing.catch(() => {}).then(() => {
-      this.next = null;
-      this.writing = this.write();
-      return this.writing;
-    });
+    this.next ??= this.writing
+      .catch(() => {})
+      .then(() => {
+        this.next = null;
+        this.writing = this.write();
+        return this.writing;
+      });
     return this.next;
   }
 
@@ -204,9 +206,11 @@ export async function startMailStandIn(options: MailStandInOptions = {}): Promis
 
   // Worded like a real relay's replies, which quote the recipient.
   const refusal = (to = "recipient"): Error | null =>
-    mode === "temporary" ? smtpError(451, `4.3.0 <${to}>: temporarily unable to accept mail, try again later`)
-    : mode === "permanent" ? smtpError(550, `5.1.1 <${to}>: mailbox unavailable`)
-    : null;
+    mode === "temporary"
+      ? smtpError(451, `4.3.0 <${to}>: temporarily unable to accept mail, try again later`)
+      : mode === "permanent"
+        ? smtpError(550, `5.1.1 <${to}>: mailbox unavailable`)
+        : null;
 
   const connectionOf = (session: SMTPServerSession) => [...smtp.connections].find((c) => c.id === session.id);
 
@@ -220,10 +224,13 @@ export async function startMailStandIn(options: MailStandInOptions = {}): Promis
     closeTimeout: 1_000,
     onConnect(session, callback) {
       if (mode !== "slow-greeting") return callback();
-      greetingTimers.set(session.id, setTimeout(() => {
-        greetingTimers.delete(session.id);
-        callback();
-      }, SLOW_GREETING_MS));
+      greetingTimers.set(
+        session.id,
+        setTimeout(() => {
+          greetingTimers.delete(session.id);
+          callback();
+        }, SLOW_GREETING_MS),
+      );
     },
     onClose(session) {
       const t = greetingTimers.get(session.id);
@@ -241,8 +248,8 @@ export async function startMailStandIn(options: MailStandInOptions = {}): Promis
         return;
       }
       const dropping = mode === "drop";
-      simpleParser(stream).then(
-        async (parsed) => {
+      simpleParser(stream)
+        .then(async (parsed) => {
           if (stream.sizeExceeded) return callback(smtpError(552, "5.3.4 Message too big"));
           await store.add({
             id: randomUUID(),
@@ -258,8 +265,8 @@ export async function startMailStandIn(options: MailStandInOptions = {}): Promis
           const connection = dropping ? connectionOf(session) : undefined;
           if (connection) connection._socket.destroy();
           else callback();
-        },
-      ).catch((e: Error) => callback(smtpError(451, `4.3.0 Could not store the message (${e.message})`)));
+        })
+        .catch((e: Error) => callback(smtpError(451, `4.3.0 Could not store the message (${e.message})`)));
     },
   });
   greetAtOnce.add(smtp);

@@ -73,7 +73,11 @@ export class IndexedDocuments {
   /** Facet cells per facet and per document (facets.ts). */
   protected readonly facets = new FacetCounts();
 
-  constructor(readonly uid: string, primaryKey: string | null = null, now = new Date().toISOString()) {
+  constructor(
+    readonly uid: string,
+    primaryKey: string | null = null,
+    now = new Date().toISOString(),
+  ) {
     this.primaryKey = primaryKey;
     this.createdAt = now;
     this.updatedAt = now;

@@ -101,7 +101,11 @@ export class SearchIndex extends IndexedDocuments {
     const sort = (req.sort ?? []).map((s) => {
       const m = /^(.+):(asc|desc)$/.exec(s.trim());
       if (!m) {
-        throw new ApiError(400, "invalid_search_sort", `Invalid syntax for the sort parameter: expected expression ending by \`:asc\` or \`:desc\`, found \`${s}\`.`);
+        throw new ApiError(
+          400,
+          "invalid_search_sort",
+          `Invalid syntax for the sort parameter: expected expression ending by \`:asc\` or \`:desc\`, found \`${s}\`.`,
+        );
       }
       const attribute = m[1].trim();
       if (!attributeAllowed(attribute, settings.sortableAttributes)) {
@@ -141,7 +145,11 @@ export class SearchIndex extends IndexedDocuments {
       const searchable = settings.searchableAttributes;
       for (const a of req.attributesToSearchOn) {
         if (!searchable.includes("*") && !attributeAllowed(a, searchable)) {
-          throw new ApiError(400, "invalid_search_attributes_to_search_on", `Attribute \`${a}\` is not searchable. Available searchable attributes are: \`${searchable.join(", ")}\`.`);
+          throw new ApiError(
+            400,
+            "invalid_search_attributes_to_search_on",
+            `Attribute \`${a}\` is not searchable. Available searchable attributes are: \`${searchable.join(", ")}\`.`,
+          );
         }
       }
     }
@@ -229,7 +237,9 @@ export class SearchIndex extends IndexedDocuments {
     }
     this.refresh();
     const mini = this.mini!;
-    const fields = (req.attributesToSearchOn ?? this.miniFields).filter((f) => this.miniFields.includes(f) || this.miniFields.some((m) => m.startsWith(`${f}.`)));
+    const fields = (req.attributesToSearchOn ?? this.miniFields).filter(
+      (f) => this.miniFields.includes(f) || this.miniFields.some((m) => m.startsWith(`${f}.`)),
+    );
     const searchFields = fields.flatMap((f) => (this.miniFields.includes(f) ? [f] : this.miniFields.filter((m) => m.startsWith(`${f}.`))));
     if (searchFields.length === 0) return [];
     const boost: Record<string, number> = {};
@@ -254,7 +264,10 @@ export class SearchIndex extends IndexedDocuments {
     };
     const synonyms = new Map<string, string[][]>();
     for (const [k, list] of Object.entries(this.settings.synonyms)) {
-      synonyms.set(normalize(k), list.map((s) => parseQuery(s).words.map((w) => w.term)));
+      synonyms.set(
+        normalize(k),
+        list.map((s) => parseQuery(s).words.map((w) => w.term)),
+      );
     }
     const last = words.length - 1;
     // A short last word is matched through the prefix index (below), the index's own prefix expansion serves a longer
@@ -269,9 +282,10 @@ export class SearchIndex extends IndexedDocuments {
      */
     const byParts = words.map((w, i) => {
       if (w.parts.length === 0) return false;
-      const found = shortLast && i === last
-        ? this.prefixMini!.search({ combineWith: "OR", queries: [w.term, whole(w.term)] }, prefixIndexOptions)
-        : mini.search({ queries: [w.term], prefix: prefixOn && i === last }, options);
+      const found =
+        shortLast && i === last
+          ? this.prefixMini!.search({ combineWith: "OR", queries: [w.term, whole(w.term)] }, prefixIndexOptions)
+          : mini.search({ queries: [w.term], prefix: prefixOn && i === last }, options);
       return found.length === 0;
     });
     const wordQuery = (w: QueryWord, i: number): Query => {
@@ -287,7 +301,10 @@ export class SearchIndex extends IndexedDocuments {
       // In the prefix index: the word as a prefix (weighed as MiniSearch weighs a prefix match), the word whole, or
       // else a code's parts whole ("b+" → "b"); one search, so MiniSearch adds up the scores of a document found by several.
       const w = words[last];
-      const lastQuery: Query = { combineWith: "OR", queries: [w.term, whole(w.term), ...(byParts[last] ? [{ combineWith: "AND" as const, queries: w.parts.map(whole) }] : [])] };
+      const lastQuery: Query = {
+        combineWith: "OR",
+        queries: [w.term, whole(w.term), ...(byParts[last] ? [{ combineWith: "AND" as const, queries: w.parts.map(whole) }] : [])],
+      };
       const lastHits = this.prefixMini!.search(lastQuery, prefixIndexOptions) as Hit[];
       if (words.length === 1) return lastHits;
       return mergeHits(combineWith, mini.search({ combineWith, queries: words.slice(0, last).map(wordQuery) }, options) as Hit[], lastHits);

@@ -21,7 +21,12 @@ export function errorBody(code: string, message: string, type: ErrorType = "inva
 export class ApiError extends Error {
   override name = "ApiError";
   readonly body: ErrorBody;
-  constructor(readonly status: number, code: string, message: string, type: ErrorType = "invalid_request") {
+  constructor(
+    readonly status: number,
+    code: string,
+    message: string,
+    type: ErrorType = "invalid_request",
+  ) {
     super(message);
     this.body = errorBody(code, message, type);
   }
@@ -35,5 +40,4 @@ export const INDEX_UID_RULE =
 export const DOCUMENT_ID_RULE =
   "A document identifier can be of type integer or string, only composed of alphanumeric characters (a-z A-Z 0-9), hyphens (-) and underscores (_), and can not be more than 511 bytes.";
 
-export const isValidIndexUid = (uid: unknown): uid is string =>
-  typeof uid === "string" && /^[A-Za-z0-9_-]+$/.test(uid) && Buffer.byteLength(uid) <= 400;
+export const isValidIndexUid = (uid: unknown): uid is string => typeof uid === "string" && /^[A-Za-z0-9_-]+$/.test(uid) && Buffer.byteLength(uid) <= 400;

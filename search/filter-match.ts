@@ -156,7 +156,12 @@ export function attributeAllowed(attribute: string, patterns: readonly string[])
   return patterns.some((p) => {
     if (p === attribute || attribute.startsWith(`${p}.`)) return true;
     if (!p.includes("*")) return false;
-    const re = new RegExp(`^${p.split("*").map((s) => s.replace(/[.*+?^${}()|[\]\\]/g, "\\$&")).join(".*")}$`);
+    const re = new RegExp(
+      `^${p
+        .split("*")
+        .map((s) => s.replace(/[.*+?^${}()|[\]\\]/g, "\\$&"))
+        .join(".*")}$`,
+    );
     return re.test(attribute);
   });
 }

@@ -38,7 +38,11 @@ export type FilterNode =
 /** A filter the grammar cannot read. `message` is worded like the service's (with a `line:column` pointer). */
 export class FilterSyntaxError extends Error {
   override name = "FilterSyntaxError";
-  constructor(message: string, readonly start = 0, readonly end = 0) {
+  constructor(
+    message: string,
+    readonly start = 0,
+    readonly end = 0,
+  ) {
     super(message);
   }
 }
@@ -90,7 +94,11 @@ function lex(input: string): Token[] {
         j += 1;
       }
       if (j >= input.length) {
-        throw new FilterSyntaxError(`Expression \`${input.slice(i)}\` is missing the following closing delimiter: \`${c}\`.\n${pointer(input, i, input.length)}`, i, input.length);
+        throw new FilterSyntaxError(
+          `Expression \`${input.slice(i)}\` is missing the following closing delimiter: \`${c}\`.\n${pointer(input, i, input.length)}`,
+          i,
+          input.length,
+        );
       }
       tokens.push({ kind: "quoted", text, start: i, end: j + 1 });
       i = j + 1;
@@ -106,13 +114,20 @@ function lex(input: string): Token[] {
 
 class Parser {
   private pos = 0;
-  constructor(private readonly input: string, private readonly tokens: Token[]) {}
+  constructor(
+    private readonly input: string,
+    private readonly tokens: Token[],
+  ) {}
 
   parse(): FilterNode {
     if (this.tokens.length === 0) return { type: "all" };
     const node = this.or();
     const extra = this.peek();
-    if (extra) this.fail(`Found unexpected characters at the end of the filter: \`${this.input.slice(extra.start)}\`. You probably forgot an \`OR\` or an \`AND\` rule.`, extra);
+    if (extra)
+      this.fail(
+        `Found unexpected characters at the end of the filter: \`${this.input.slice(extra.start)}\`. You probably forgot an \`OR\` or an \`AND\` rule.`,
+        extra,
+      );
     return node;
   }
 

@@ -33,7 +33,8 @@ export function formatHit(index: { project(doc: Doc, fields?: string[] | null): 
         return o;
       }
       const hl = attributeAllowed(path, toHighlight) || toHighlight.includes("*");
-      const cropLen = cropFor.get(path) ?? (cropFor.has("*") ? cropFor.get("*") : [...cropFor.keys()].some((k) => path.startsWith(`${k}.`)) ? cropLength : undefined);
+      const cropLen =
+        cropFor.get(path) ?? (cropFor.has("*") ? cropFor.get("*") : [...cropFor.keys()].some((k) => path.startsWith(`${k}.`)) ? cropLength : undefined);
       if (typeof value === "number" && (hl || cropLen !== undefined)) value = String(value);
       if (typeof value !== "string") return value;
       let text = value;

@@ -52,7 +52,10 @@ export async function documentsBody(req: IncomingMessage): Promise<Doc[]> {
   let parsed: unknown;
   if (type.includes("ndjson")) {
     try {
-      parsed = text.split("\n").filter((l) => l.trim()).map((l) => JSON.parse(l) as unknown);
+      parsed = text
+        .split("\n")
+        .filter((l) => l.trim())
+        .map((l) => JSON.parse(l) as unknown);
     } catch (e) {
       throw new ApiError(400, "malformed_payload", `The \`ndjson\` payload provided is malformed. \`${(e as Error).message}\`.`);
     }
@@ -60,7 +63,11 @@ export async function documentsBody(req: IncomingMessage): Promise<Doc[]> {
     try {
       parsed = JSON.parse(text);
     } catch (e) {
-      throw new ApiError(400, "malformed_payload", `The \`json\` payload provided is malformed. \`Couldn't serialize document value: ${(e as Error).message}\`.`);
+      throw new ApiError(
+        400,
+        "malformed_payload",
+        `The \`json\` payload provided is malformed. \`Couldn't serialize document value: ${(e as Error).message}\`.`,
+      );
     }
   } else {
     throw new ApiError(
@@ -72,7 +79,11 @@ export async function documentsBody(req: IncomingMessage): Promise<Doc[]> {
   const list = Array.isArray(parsed) ? parsed : [parsed];
   for (const d of list) {
     if (!d || typeof d !== "object" || Array.isArray(d)) {
-      throw new ApiError(400, "malformed_payload", `The \`json\` payload provided is malformed. \`Couldn't serialize document value: invalid type: ${JSON.stringify(d)}, expected a map\`.`);
+      throw new ApiError(
+        400,
+        "malformed_payload",
+        `The \`json\` payload provided is malformed. \`Couldn't serialize document value: invalid type: ${JSON.stringify(d)}, expected a map\`.`,
+      );
     }
   }
   return list as Doc[];
@@ -93,7 +104,8 @@ export function rejectUnknown(body: Record<string, unknown>, allowed: readonly s
 }
 
 export const asObject = (v: unknown): Record<string, unknown> => {
-  if (!v || typeof v !== "object" || Array.isArray(v)) throw new ApiError(400, "bad_request", `Json deserialize error: invalid type: ${typeName(v)}, expected a map`);
+  if (!v || typeof v !== "object" || Array.isArray(v))
+    throw new ApiError(400, "bad_request", `Json deserialize error: invalid type: ${typeName(v)}, expected a map`);
   return v as Record<string, unknown>;
 };
 
@@ -111,7 +123,10 @@ export const indexUidParam = (raw: string): string => {
 export const listParam = (params: URLSearchParams, name: string): string[] | null => {
   const v = params.get(name);
   if (v === null || v === "*") return null;
-  return v.split(",").map((s) => s.trim()).filter(Boolean);
+  return v
+    .split(",")
+    .map((s) => s.trim())
+    .filter(Boolean);
 };
 
 export const intParam = (params: URLSearchParams, name: string, fallback: number, code: string): number => {

@@ -104,7 +104,11 @@ function typeName(v: unknown): string {
 export function validateSetting(name: string, value: unknown): void {
   const spec = SETTINGS[name];
   const bad = (expected: string): never => {
-    throw new ApiError(400, `invalid_settings_${snake(name)}`, `Invalid value type at \`.${name}\`: expected ${expected}, but found ${typeName(value)}: \`${JSON.stringify(value)}\``);
+    throw new ApiError(
+      400,
+      `invalid_settings_${snake(name)}`,
+      `Invalid value type at \`.${name}\`: expected ${expected}, but found ${typeName(value)}: \`${JSON.stringify(value)}\``,
+    );
   };
   if (value === null) return;
   switch (spec.kind) {

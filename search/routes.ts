@@ -6,7 +6,16 @@
 import type { IncomingMessage, ServerResponse } from "node:http";
 import type { SearchIndex } from "./engine.ts";
 import { SETTINGS } from "./engine.ts";
-import { addDocuments, deleteAllDocuments, deleteDocument, deleteDocumentBatch, deleteDocumentsByFilter, fetchDocuments, getDocument, listDocuments } from "./handlers/documents.ts";
+import {
+  addDocuments,
+  deleteAllDocuments,
+  deleteDocument,
+  deleteDocumentBatch,
+  deleteDocumentsByFilter,
+  fetchDocuments,
+  getDocument,
+  listDocuments,
+} from "./handlers/documents.ts";
 import { health, stats, version } from "./handlers/health.ts";
 import { createIndex, deleteIndex, getIndex, indexStats, listIndexes, updateIndex } from "./handlers/indexes.ts";
 import { authorize } from "./handlers/keys.ts";
@@ -50,36 +59,39 @@ const settingRoutes = Object.values(SETTINGS).flatMap(({ route }): Route[] => [
 ]);
 
 /** In order: the first route whose path and method match answers (POST …/documents/fetch before GET …/documents/:id). */
-const ROUTES: (Route & { segs: string[] })[] = ([
-  { method: "GET", path: "/health", handler: health, public: true },
-  { method: "GET", path: "/version", handler: version },
-  { method: "GET", path: "/stats", handler: stats },
-  { method: "GET", path: "/tasks", handler: getTasks },
-  { method: "GET", path: "/tasks/:taskUid", handler: getTask },
-  { method: "GET", path: "/indexes", handler: listIndexes },
-  { method: "POST", path: "/indexes", handler: createIndex },
-  { method: "GET", path: "/indexes/:uid", handler: getIndex },
-  { method: "PATCH", path: "/indexes/:uid", handler: updateIndex },
-  { method: "DELETE", path: "/indexes/:uid", handler: deleteIndex },
-  { method: "GET", path: "/indexes/:uid/stats", handler: indexStats },
-  { method: "GET", path: "/indexes/:uid/search", handler: search },
-  { method: "POST", path: "/indexes/:uid/search", handler: search },
-  { method: "GET", path: "/indexes/:uid/documents", handler: listDocuments },
-  { method: "POST", path: "/indexes/:uid/documents", handler: addDocuments },
-  { method: "PUT", path: "/indexes/:uid/documents", handler: addDocuments },
-  { method: "DELETE", path: "/indexes/:uid/documents", handler: deleteAllDocuments },
-  { method: "POST", path: "/indexes/:uid/documents/fetch", handler: fetchDocuments },
-  { method: "POST", path: "/indexes/:uid/documents/delete-batch", handler: deleteDocumentBatch },
-  { method: "POST", path: "/indexes/:uid/documents/delete", handler: deleteDocumentsByFilter },
-  { method: "GET", path: "/indexes/:uid/documents/:id", handler: getDocument },
-  { method: "DELETE", path: "/indexes/:uid/documents/:id", handler: deleteDocument },
-  { method: "GET", path: "/indexes/:uid/settings", handler: getSettings },
-  { method: "PATCH", path: "/indexes/:uid/settings", handler: updateSettings },
-  { method: "DELETE", path: "/indexes/:uid/settings", handler: updateSettings },
-  ...settingRoutes,
-] as Route[]).map((r) => ({ ...r, segs: r.path.split("/").filter(Boolean) }));
+const ROUTES: (Route & { segs: string[] })[] = (
+  [
+    { method: "GET", path: "/health", handler: health, public: true },
+    { method: "GET", path: "/version", handler: version },
+    { method: "GET", path: "/stats", handler: stats },
+    { method: "GET", path: "/tasks", handler: getTasks },
+    { method: "GET", path: "/tasks/:taskUid", handler: getTask },
+    { method: "GET", path: "/indexes", handler: listIndexes },
+    { method: "POST", path: "/indexes", handler: createIndex },
+    { method: "GET", path: "/indexes/:uid", handler: getIndex },
+    { method: "PATCH", path: "/indexes/:uid", handler: updateIndex },
+    { method: "DELETE", path: "/indexes/:uid", handler: deleteIndex },
+    { method: "GET", path: "/indexes/:uid/stats", handler: indexStats },
+    { method: "GET", path: "/indexes/:uid/search", handler: search },
+    { method: "POST", path: "/indexes/:uid/search", handler: search },
+    { method: "GET", path: "/indexes/:uid/documents", handler: listDocuments },
+    { method: "POST", path: "/indexes/:uid/documents", handler: addDocuments },
+    { method: "PUT", path: "/indexes/:uid/documents", handler: addDocuments },
+    { method: "DELETE", path: "/indexes/:uid/documents", handler: deleteAllDocuments },
+    { method: "POST", path: "/indexes/:uid/documents/fetch", handler: fetchDocuments },
+    { method: "POST", path: "/indexes/:uid/documents/delete-batch", handler: deleteDocumentBatch },
+    { method: "POST", path: "/indexes/:uid/documents/delete", handler: deleteDocumentsByFilter },
+    { method: "GET", path: "/indexes/:uid/documents/:id", handler: getDocument },
+    { method: "DELETE", path: "/indexes/:uid/documents/:id", handler: deleteDocument },
+    { method: "GET", path: "/indexes/:uid/settings", handler: getSettings },
+    { method: "PATCH", path: "/indexes/:uid/settings", handler: updateSettings },
+    { method: "DELETE", path: "/indexes/:uid/settings", handler: updateSettings },
+    ...settingRoutes,
+  ] as Route[]
+).map((r) => ({ ...r, segs: r.path.split("/").filter(Boolean) }));
 
-const matches = (route: { segs: string[] }, segs: string[]) => route.segs.length === segs.length && route.segs.every((s, i) => s.startsWith(":") || s === segs[i]);
+const matches = (route: { segs: string[] }, segs: string[]) =>
+  route.segs.length === segs.length && route.segs.every((s, i) => s.startsWith(":") || s === segs[i]);
 
 /** Answer one service request (the fault modes and the control routes are handled before, in server.ts). */
 export async function route(state: StandInState, req: IncomingMessage, res: ServerResponse, url: URL): Promise<void> {

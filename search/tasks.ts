@@ -15,8 +15,19 @@ export type TaskStatus = "enqueued" | "processing" | "succeeded" | "failed" | "c
 export type TaskType = "indexCreation" | "indexUpdate" | "indexDeletion" | "documentAdditionOrUpdate" | "documentDeletion" | "settingsUpdate";
 export const TASK_STATUSES: TaskStatus[] = ["enqueued", "processing", "succeeded", "failed", "canceled"];
 export const TASK_TYPES = [
-  "documentAdditionOrUpdate", "documentEdition", "documentDeletion", "settingsUpdate", "indexCreation", "indexDeletion",
-  "indexUpdate", "indexSwap", "taskCancelation", "taskDeletion", "dumpCreation", "snapshotCreation", "upgradeDatabase",
+  "documentAdditionOrUpdate",
+  "documentEdition",
+  "documentDeletion",
+  "settingsUpdate",
+  "indexCreation",
+  "indexDeletion",
+  "indexUpdate",
+  "indexSwap",
+  "taskCancelation",
+  "taskDeletion",
+  "dumpCreation",
+  "snapshotCreation",
+  "upgradeDatabase",
 ];
 
 export type Payload =
@@ -90,7 +101,6 @@ export function createTaskQueue(indexes: Map<string, SearchIndex>, store: Store,
     kick();
     return task;
   }
-
 
   function kick() {
     if (processing || closed) return;

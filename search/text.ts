@@ -203,7 +203,11 @@ export function crop(text: string, match: MatchInfo, cropLength: number, marker:
   if (words.length <= cropLength) return text;
   const first = matchSpans(text, match)[0];
   let centre = 0;
-  if (first) centre = Math.max(0, words.findIndex((w) => w.end > first.start));
+  if (first)
+    centre = Math.max(
+      0,
+      words.findIndex((w) => w.end > first.start),
+    );
   let from = Math.max(0, centre - Math.floor((cropLength - 1) / 2));
   if (!first) from = 0;
   from = Math.min(from, words.length - cropLength);

@@ -3,8 +3,15 @@
  * along the bottom back to the battery's negative post. Numbered probe points; every point labelled in words.
  */
 export interface DrawnPoint {
-  step: number; label: string; side: "supply" | "return"; code: string | null; baseHex: string | null; tracerHex: string | null; expectWords: string;
-  after: number | null; before: number | null;
+  step: number;
+  label: string;
+  side: "supply" | "return";
+  code: string | null;
+  baseHex: string | null;
+  tracerHex: string | null;
+  expectWords: string;
+  after: number | null;
+  before: number | null;
 }
 
 /** How many points lie between a point and the battery along its own path (branches of a parallel feed share a depth). */
@@ -44,13 +51,24 @@ export function CircuitDrawing({ points, loads, powered, highlight = [] }: { poi
         <circle cx={cx} cy={cy} r={hot ? 15 : 13} fill={p.baseHex ?? "#ffffff"} stroke="#1d2327" strokeWidth={hot ? 4 : 2} />
         {p.tracerHex ? <rect x={cx - 3} y={cy - 12} width={6} height={24} fill={p.tracerHex} stroke="#1d2327" strokeWidth={0.8} /> : null}
         <circle cx={cx} cy={cy} r={8.5} fill="#ffffff" stroke="#1d2327" strokeWidth={1} />
-        <text x={cx} y={cy + 4} textAnchor="middle" fontSize={11} fontWeight={700} fill="#1d2327">{p.step}</text>
-        <text x={cx} y={labelBelow ? cy + 30 : cy - 20} textAnchor="middle" fontSize={10} fill="#1d2327">{p.code ?? ""}</text>
+        <text x={cx} y={cy + 4} textAnchor="middle" fontSize={11} fontWeight={700} fill="#1d2327">
+          {p.step}
+        </text>
+        <text x={cx} y={labelBelow ? cy + 30 : cy - 20} textAnchor="middle" fontSize={10} fill="#1d2327">
+          {p.code ?? ""}
+        </text>
       </g>
     );
   };
   return (
-    <svg viewBox={`0 0 ${width} ${height}`} width="100%" role="img" aria-label={`Circuit drawing with ${points.length} numbered probe points`} className="max-w-full" style={{ height: "auto" }}>
+    <svg
+      viewBox={`0 0 ${width} ${height}`}
+      width="100%"
+      role="img"
+      aria-label={`Circuit drawing with ${points.length} numbered probe points`}
+      className="max-w-full"
+      style={{ height: "auto" }}
+    >
       <title>{`Circuit drawing: ${points.length} probe points, load: ${loads.join("; ")}`}</title>
       {/* The loop itself */}
       <path d={`M ${left - 30} ${yTop} H ${loadX} M ${loadX} ${yBot} H ${left - 30} V ${yTop}`} fill="none" stroke="#1d2327" strokeWidth={2.5} />
@@ -59,19 +77,27 @@ export function CircuitDrawing({ points, loads, powered, highlight = [] }: { poi
       {powered ? (
         <g aria-hidden="true">
           <rect x={left - 52} y={(yTop + yBot) / 2 - 26} width={44} height={52} rx={4} fill="#f7f5f0" stroke="#1d2327" strokeWidth={2} />
-          <text x={left - 30} y={(yTop + yBot) / 2 - 8} textAnchor="middle" fontSize={16} fontWeight={700}>+</text>
-          <text x={left - 30} y={(yTop + yBot) / 2 + 18} textAnchor="middle" fontSize={18} fontWeight={700}>−</text>
+          <text x={left - 30} y={(yTop + yBot) / 2 - 8} textAnchor="middle" fontSize={16} fontWeight={700}>
+            +
+          </text>
+          <text x={left - 30} y={(yTop + yBot) / 2 + 18} textAnchor="middle" fontSize={18} fontWeight={700}>
+            −
+          </text>
         </g>
       ) : (
         <g aria-hidden="true">
           <circle cx={left - 30} cy={(yTop + yBot) / 2} r={20} fill="#f7f5f0" stroke="#1d2327" strokeWidth={2} />
-          <text x={left - 30} y={(yTop + yBot) / 2 + 5} textAnchor="middle" fontSize={14} fontWeight={700}>Ω</text>
+          <text x={left - 30} y={(yTop + yBot) / 2 + 5} textAnchor="middle" fontSize={14} fontWeight={700}>
+            Ω
+          </text>
         </g>
       )}
       {/* Load(s) on the right */}
       <g>
         <rect x={loadX - 34} y={(yTop + yBot) / 2 - 22} width={68} height={44} rx={6} fill="#fff1c2" stroke="#1d2327" strokeWidth={2} />
-        <text x={loadX} y={(yTop + yBot) / 2 + 4} textAnchor="middle" fontSize={11} fontWeight={700}>{loads.length > 1 ? `${loads.length} loads` : "load"}</text>
+        <text x={loadX} y={(yTop + yBot) / 2 + 4} textAnchor="middle" fontSize={11} fontWeight={700}>
+          {loads.length > 1 ? `${loads.length} loads` : "load"}
+        </text>
       </g>
 
       {top.map((p, i) => dot(p, x(i, top.length), yTop, false))}

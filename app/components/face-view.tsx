@@ -56,7 +56,13 @@ function LatchTab(props: { latch: Latch; w: number; h: number; p: number; showTe
   const overlap = 0.15 * p; // tucks the tab under the wall stroke so the two read as one part
   const horizontal = latch === "top" || latch === "bottom";
   const along = Math.min((horizontal ? w : h) * 0.45, 2.4 * p);
-  let x: number, y: number, tw: number, th: number, tx: number, ty: number, rotate = 0;
+  let x: number,
+    y: number,
+    tw: number,
+    th: number,
+    tx: number,
+    ty: number,
+    rotate = 0;
   const gap = 0.25 * p;
   const font = 0.24 * p;
   if (latch === "top") {
@@ -114,12 +120,15 @@ export function FaceView(props: {
   // their origin at the housing's centre, the viewBox just frames what is drawn (no empty band).
   const tab = (full ? 0.95 : 0.55) * p;
   const edge = 0.15 * p;
-  const [left, right, top, bottom] = [g.latch === "left" ? tab : edge, g.latch === "right" ? tab : edge, g.latch === "top" ? tab : edge, g.latch === "bottom" ? tab : edge];
+  const [left, right, top, bottom] = [
+    g.latch === "left" ? tab : edge,
+    g.latch === "right" ? tab : edge,
+    g.latch === "top" ? tab : edge,
+    g.latch === "bottom" ? tab : edge,
+  ];
   const vb = [-w / 2 - left, -h / 2 - top, w + left + right, h + top + bottom];
 
-  const caption =
-    props.caption ??
-    `${g.view === "wire" ? "Wire side" : "Mating face"} of ${g.half === "mate" ? "the mating connector" : "this connector"}`;
+  const caption = props.caption ?? `${g.view === "wire" ? "Wire side" : "Mating face"} of ${g.half === "mate" ? "the mating connector" : "this connector"}`;
   const byCavity = new Map(paint.map((c) => [c.cavity, c]));
 
   // Cavity cell (one pitch square round the centre): the cavity sits in the upper part, its code
@@ -153,16 +162,7 @@ export function FaceView(props: {
       </defs>
 
       <LatchTab latch={g.latch} w={w} h={h} p={p} showText={full} />
-      <rect
-        x={fmt(-w / 2)}
-        y={fmt(-h / 2)}
-        width={fmt(w)}
-        height={fmt(h)}
-        rx={fmt(0.28 * p)}
-        fill={HOUSING_FILL}
-        stroke={LINE}
-        strokeWidth={fmt(0.08 * p)}
-      />
+      <rect x={fmt(-w / 2)} y={fmt(-h / 2)} width={fmt(w)} height={fmt(h)} rx={fmt(0.28 * p)} fill={HOUSING_FILL} stroke={LINE} strokeWidth={fmt(0.08 * p)} />
 
       {g.cavities.map((c) => {
         const pc = byCavity.get(c.cavity);
@@ -197,11 +197,7 @@ export function FaceView(props: {
         });
 
         const body = (
-          <g
-            transform={`translate(${fmt(c.x)} ${fmt(c.y + dy)})`}
-            data-cavity={c.cavity}
-            data-empty={empty ? "true" : undefined}
-          >
+          <g transform={`translate(${fmt(c.x)} ${fmt(c.y + dy)})`} data-cavity={c.cavity} data-empty={empty ? "true" : undefined}>
             <title>{cavityTitle}</title>
             {isHighlight ? (
               <rect

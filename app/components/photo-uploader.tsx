@@ -26,7 +26,9 @@ function serverMessage(xhr: XMLHttpRequest): string | undefined {
   try {
     const body = JSON.parse(xhr.responseText) as { error?: { message?: unknown } };
     if (typeof body.error?.message === "string" && body.error.message) return body.error.message;
-  } catch { /* not JSON */ }
+  } catch {
+    /* not JSON */
+  }
   return undefined;
 }
 
@@ -62,10 +64,13 @@ export function PhotoUploader(props: { submissionId: number; remaining: number; 
   const cancelledRef = useRef(false);
   const revalidator = useRevalidator();
   const [status, setStatus] = useState<Status>({ kind: "idle" });
-  useEffect(() => () => {
-    cancelledRef.current = true; // leaving the page is not an interruption to report
-    xhrRef.current?.abort();
-  }, []);
+  useEffect(
+    () => () => {
+      cancelledRef.current = true; // leaving the page is not an interruption to report
+      xhrRef.current?.abort();
+    },
+    [],
+  );
 
   const busy = status.kind === "sending" || status.kind === "processing";
   const full = remaining <= 0;
@@ -77,7 +82,8 @@ export function PhotoUploader(props: { submissionId: number; remaining: number; 
     const data = new FormData(form);
     const files = data.getAll("photo").filter((f): f is File => f instanceof File && f.size > 0);
     if (files.length === 0) return setStatus({ kind: "error", message: "Choose at least one photo (JPEG, PNG or WebP)." });
-    if (files.length > remaining) return setStatus({ kind: "error", message: `This submission has room for ${remaining} more photo${remaining === 1 ? "" : "s"}.` });
+    if (files.length > remaining)
+      return setStatus({ kind: "error", message: `This submission has room for ${remaining} more photo${remaining === 1 ? "" : "s"}.` });
     const big = files.find((f) => f.size > maxBytes);
     if (big) return setStatus({ kind: "error", message: `“${big.name}” is ${kb(big.size)}; each photo may be at most ${kb(maxBytes)}.` });
     data.set("submission", String(submissionId));
@@ -129,56 +135,127 @@ export function PhotoUploader(props: { submissionId: number; remaining: number; 
 
   const percent = status.kind === "sending" && status.total > 0 ? Math.round((status.loaded / status.total) * 100) : status.kind === "processing" ? 100 : 0;
   const message =
-    status.kind === "sending" ? `Uploading: ${percent} % (${kb(status.loaded)} of ${kb(status.total)})`
-    : status.kind === "processing" ? "Uploaded; processing the photos…"
-    : status.kind === "done" ? `${status.count} photo${status.count === 1 ? "" : "s"} added.`
-    : status.kind === "cancelled" ? "Upload cancelled: nothing was saved."
-    : status.kind === "stopped" ? `The upload stopped: ${status.reason}; nothing was saved. Try again.`
-    : status.kind === "unknown" ? "The connection was lost while the photos were being processed: they may have been added. Check this submission's photos before trying again."
-    : "";
+    status.kind === "sending"
+      ? `Uploading: ${percent} % (${kb(status.loaded)} of ${kb(status.total)})`
+      : status.kind === "processing"
+        ? "Uploaded; processing the photos…"
+        : status.kind === "done"
+          ? `${status.count} photo${status.count === 1 ? "" : "s"} added.`
+          : status.kind === "cancelled"
+            ? "Upload cancelled: nothing was saved."
+            : status.kind === "stopped"
+              ? `The upload stopped: ${status.reason}; nothing was saved. Try again.`
+              : status.kind === "unknown"
+                ? "The connection was lost while the photos were being processed: they may have been added. Check this submission's photos before trying again."
+                : "";
 
   return (
-    <form ref={formRef} method="post" encType="multipart/form-data" action={action} onSubmit={onSubmit}
-      className="space-y-3 rounded-md border border-rule bg-white p-3" aria-labelledby={`${uid}-title`}>
-      <h3 id={`${uid}-title`} className="text-lg font-bold">Add photos</h3>
+    <form
+      ref={formRef}
+      method="post"
+      encType="multipart/form-data"
+      action={action}
+      onSubmit={onSubmit}
+      className="space-y-3 rounded-md border border-rule bg-white p-3"
+      aria-labelledby={`${uid}-title`}
+    >
+      <h3 id={`${uid}-title`} className="text-lg font-bold">
+        Add photos
+      </h3>
       <input type="hidden" name="intent" value="upload" />
       <input type="hidden" name="version" value={version} />
       <p id={`${uid}-hint`} className="text-sm text-muted">
         JPEG, PNG or WebP, up to {kb(maxBytes)} each; room for {Math.max(0, remaining)} more. Location and camera details are removed from every photo.
       </p>
       <div>
-        <label htmlFor={`${uid}-photo`} className="block text-sm font-semibold">Photos</label>
-        <input id={`${uid}-photo`} name="photo" type="file" multiple accept="image/jpeg,image/png,image/webp" required disabled={full || busy}
-          aria-describedby={`${uid}-hint`} className="mt-1 block w-full max-w-md text-base file:mr-3 file:rounded file:border-2 file:border-ink file:bg-paper file:px-3 file:py-1.5 file:font-semibold" />
+        <label htmlFor={`${uid}-photo`} className="block text-sm font-semibold">
+          Photos
+        </label>
+        <input
+          id={`${uid}-photo`}
+          name="photo"
+          type="file"
+          multiple
+          accept="image/jpeg,image/png,image/webp"
+          required
+          disabled={full || busy}
+          aria-describedby={`${uid}-hint`}
+          className="mt-1 block w-full max-w-md text-base file:mr-3 file:rounded file:border-2 file:border-ink file:bg-paper file:px-3 file:py-1.5 file:font-semibold"
+        />
       </div>
       <div>
-        <label htmlFor={`${uid}-caption`} className="block text-sm font-semibold">Caption (optional)</label>
-        <input id={`${uid}-caption`} name="caption" maxLength={200} disabled={busy} placeholder="e.g. wire side, latch up"
-          className="mt-1 block w-full max-w-md rounded border-2 border-ink px-3 py-2 text-base" />
+        <label htmlFor={`${uid}-caption`} className="block text-sm font-semibold">
+          Caption (optional)
+        </label>
+        <input
+          id={`${uid}-caption`}
+          name="caption"
+          maxLength={200}
+          disabled={busy}
+          placeholder="e.g. wire side, latch up"
+          className="mt-1 block w-full max-w-md rounded border-2 border-ink px-3 py-2 text-base"
+        />
       </div>
       <div>
-        <label htmlFor={`${uid}-credit`} className="block text-sm font-semibold">Credit (optional)</label>
-        <input id={`${uid}-credit`} name="credit" maxLength={120} disabled={busy} placeholder="the name to credit, if not yours"
-          className="mt-1 block w-full max-w-md rounded border-2 border-ink px-3 py-2 text-base" />
+        <label htmlFor={`${uid}-credit`} className="block text-sm font-semibold">
+          Credit (optional)
+        </label>
+        <input
+          id={`${uid}-credit`}
+          name="credit"
+          maxLength={120}
+          disabled={busy}
+          placeholder="the name to credit, if not yours"
+          className="mt-1 block w-full max-w-md rounded border-2 border-ink px-3 py-2 text-base"
+        />
       </div>
       <div className="flex items-start gap-2">
         <input id={`${uid}-consent`} name="consent" type="checkbox" value="yes" required disabled={busy} className="mt-1 h-5 w-5 shrink-0 accent-ink" />
         <label htmlFor={`${uid}-consent`} className="text-sm">
           I took these photos or have the right to share them, and I license them under{" "}
-          <a href="https://creativecommons.org/licenses/by-sa/4.0/" className="underline" target="_blank" rel="noopener noreferrer">CC BY-SA 4.0</a>.
-          No faces, number plates or addresses are in frame.
+          <a href="https://creativecommons.org/licenses/by-sa/4.0/" className="underline" target="_blank" rel="noopener noreferrer">
+            CC BY-SA 4.0
+          </a>
+          . No faces, number plates or addresses are in frame.
         </label>
       </div>
       <div className="flex flex-wrap items-center gap-3">
-        <button type="submit" disabled={full || busy} className="rounded bg-ink px-4 py-2 font-semibold text-paper disabled:opacity-50">Upload</button>
-        {busy ? <button type="button" onClick={() => { cancelledRef.current = true; xhrRef.current?.abort(); }} className="rounded border-2 border-ink px-4 py-2 font-semibold">Cancel</button> : null}
+        <button type="submit" disabled={full || busy} className="rounded bg-ink px-4 py-2 font-semibold text-paper disabled:opacity-50">
+          Upload
+        </button>
+        {busy ? (
+          <button
+            type="button"
+            onClick={() => {
+              cancelledRef.current = true;
+              xhrRef.current?.abort();
+            }}
+            className="rounded border-2 border-ink px-4 py-2 font-semibold"
+          >
+            Cancel
+          </button>
+        ) : null}
       </div>
       {status.kind === "sending" || status.kind === "processing" ? (
         <progress value={percent} max={100} aria-label="Upload progress" className="block h-3 w-full max-w-md" />
       ) : null}
-      <p role="status" aria-live="polite" className={status.kind === "stopped" || status.kind === "unknown" ? "rounded border-l-4 border-signal bg-white px-3 py-2 text-sm font-semibold text-signal-dark" : "text-sm"}>{message}</p>
+      <p
+        role="status"
+        aria-live="polite"
+        className={
+          status.kind === "stopped" || status.kind === "unknown"
+            ? "rounded border-l-4 border-signal bg-white px-3 py-2 text-sm font-semibold text-signal-dark"
+            : "text-sm"
+        }
+      >
+        {message}
+      </p>
       {status.kind === "stopped" && status.detail ? <p className="text-sm text-muted">The server said: {status.detail}</p> : null}
-      {status.kind === "error" ? <p role="alert" className="rounded border-l-4 border-signal bg-white px-3 py-2 font-semibold text-signal-dark">{status.message}</p> : null}
+      {status.kind === "error" ? (
+        <p role="alert" className="rounded border-l-4 border-signal bg-white px-3 py-2 font-semibold text-signal-dark">
+          {status.message}
+        </p>
+      ) : null}
       {full ? <p className="text-sm font-semibold">This submission has as many photos as it can take: remove one to add another.</p> : null}
     </form>
   );

@@ -108,7 +108,11 @@ export function SearchBox({ className = "" }: { className?: string }) {
     setText(value);
     setActive(-1);
     const words = value.trim();
-    if (!words) { stop(); setOpen(false); return; }
+    if (!words) {
+      stop();
+      setOpen(false);
+      return;
+    }
     setOpen(true);
     if (words === requested.current && !failed) debounced.cancel();
     else debounced.call(words);
@@ -125,37 +129,83 @@ export function SearchBox({ className = "" }: { className?: string }) {
     if (e.key === "ArrowDown" || e.key === "ArrowUp") {
       if (!q || (!answer && !failed)) return;
       e.preventDefault();
-      if (!open) { setOpen(true); setActive(e.key === "ArrowDown" ? 0 : options.length - 1); return; }
+      if (!open) {
+        setOpen(true);
+        setActive(e.key === "ArrowDown" ? 0 : options.length - 1);
+        return;
+      }
       setActive((a) => moveActive(a, options.length, e.key));
     } else if (e.key === "Enter") {
       const act = enterAction(shown ? active : -1, options.length);
-      if (act.kind === "open") { e.preventDefault(); choose(options[act.index]); }
+      if (act.kind === "open") {
+        e.preventDefault();
+        choose(options[act.index]);
+      }
       // otherwise the form submits: the full results page
     } else if (e.key === "Escape") {
-      if (shown) { e.preventDefault(); setOpen(false); setActive(-1); }
-      else if (text) { e.preventDefault(); onChange(""); }
+      if (shown) {
+        e.preventDefault();
+        setOpen(false);
+        setActive(-1);
+      } else if (text) {
+        e.preventDefault();
+        onChange("");
+      }
     }
   };
 
   let n = -1;
   return (
-    <Form method="get" action="/search" role="search" aria-label="Search the library" className={`relative flex min-w-0 items-stretch ${className}`}
-      onSubmit={() => { stop(); setOpen(false); setActive(-1); }}>
-      <label htmlFor={`${id}-q`} className="sr-only">Search the library</label>
+    <Form
+      method="get"
+      action="/search"
+      role="search"
+      aria-label="Search the library"
+      className={`relative flex min-w-0 items-stretch ${className}`}
+      onSubmit={() => {
+        stop();
+        setOpen(false);
+        setActive(-1);
+      }}
+    >
+      <label htmlFor={`${id}-q`} className="sr-only">
+        Search the library
+      </label>
       <input
-        id={`${id}-q`} name="q" type="search" value={text} maxLength={200} autoComplete="off" spellCheck={false} enterKeyHint="search"
+        id={`${id}-q`}
+        name="q"
+        type="search"
+        value={text}
+        maxLength={200}
+        autoComplete="off"
+        spellCheck={false}
+        enterKeyHint="search"
         placeholder="Family, circuit, colour code, terminal…"
-        role="combobox" aria-autocomplete="list" aria-expanded={shown} aria-controls={listId}
+        role="combobox"
+        aria-autocomplete="list"
+        aria-expanded={shown}
+        aria-controls={listId}
         aria-activedescendant={shown && active >= 0 ? optionId(active) : undefined}
-        onChange={(e) => onChange(e.target.value)} onKeyDown={onKeyDown}
-        onFocus={() => { if (q && (answer || failed)) setOpen(true); }}
-        onBlur={() => { setOpen(false); setActive(-1); }}
+        onChange={(e) => onChange(e.target.value)}
+        onKeyDown={onKeyDown}
+        onFocus={() => {
+          if (q && (answer || failed)) setOpen(true);
+        }}
+        onBlur={() => {
+          setOpen(false);
+          setActive(-1);
+        }}
         className="min-w-0 flex-1 rounded-l border-2 border-r-0 border-paper bg-white px-2 py-1 text-base text-ink placeholder:text-muted/80"
       />
-      <button type="submit" className="rounded-r border-2 border-paper bg-paper px-3 py-1 text-sm font-semibold text-ink hover:bg-white">Search</button>
+      <button type="submit" className="rounded-r border-2 border-paper bg-paper px-3 py-1 text-sm font-semibold text-ink hover:bg-white">
+        Search
+      </button>
 
-      <div hidden={!shown} data-testid="type-ahead"
-        className="absolute left-0 right-0 top-full z-50 mt-1 max-h-[70vh] overflow-y-auto rounded-md border-2 border-ink bg-white text-ink shadow-lg lg:left-auto lg:w-[30rem]">
+      <div
+        hidden={!shown}
+        data-testid="type-ahead"
+        className="absolute top-full right-0 left-0 z-50 mt-1 max-h-[70vh] overflow-y-auto rounded-md border-2 border-ink bg-white text-ink shadow-lg lg:left-auto lg:w-[30rem]"
+      >
         {current?.data.source === "database" ? (
           <p className="border-b border-caution-edge bg-caution px-3 py-1.5 text-xs" data-testid="type-ahead-reduced">
             <strong>Reduced results:</strong> the search service is not answering, so typos are not forgiven and words match only from their start.
@@ -170,35 +220,71 @@ export function SearchBox({ className = "" }: { className?: string }) {
         <div role="listbox" id={listId} aria-label="Search suggestions" data-query={current?.q ?? ""} aria-busy={loading}>
           {groups.map((g) => (
             <div role="group" key={g.type} aria-labelledby={`${id}-g-${g.type}`}>
-              <div role="presentation" id={`${id}-g-${g.type}`} className="bg-paper px-3 pt-1.5 pb-0.5 text-xs font-bold tracking-wide text-muted uppercase">{g.label}</div>
+              <div role="presentation" id={`${id}-g-${g.type}`} className="bg-paper px-3 pt-1.5 pb-0.5 text-xs font-bold tracking-wide text-muted uppercase">
+                {g.label}
+              </div>
               {g.hits.map((hit) => {
                 const i = ++n;
                 return (
-                  <div key={`${hit.type}:${hit.url}`} id={optionId(i)} role="option" aria-selected={i === active} data-type={hit.type} data-href={hit.url}
-                    onMouseDown={(e) => e.preventDefault()} onClick={() => choose(options[i])} onMouseMove={() => { if (active !== i) setActive(i); }}
-                    className={`cursor-pointer border-l-4 px-3 py-1.5 ${i === active ? "border-signal bg-caution/60" : "border-transparent"}`}>
+                  <div
+                    key={`${hit.type}:${hit.url}`}
+                    id={optionId(i)}
+                    role="option"
+                    aria-selected={i === active}
+                    data-type={hit.type}
+                    data-href={hit.url}
+                    onMouseDown={(e) => e.preventDefault()}
+                    onClick={() => choose(options[i])}
+                    onMouseMove={() => {
+                      if (active !== i) setActive(i);
+                    }}
+                    className={`cursor-pointer border-l-4 px-3 py-1.5 ${i === active ? "border-signal bg-caution/60" : "border-transparent"}`}
+                  >
                     <span className="block truncate font-semibold">{hit.title}</span>
                     <span className="block truncate text-sm text-muted">
-                      {hit.subtitle}{hit.type === "pin" ? ` — ${hit.family}` : ""}
+                      {hit.subtitle}
+                      {hit.type === "pin" ? ` — ${hit.family}` : ""}
                     </span>
                   </div>
                 );
               })}
             </div>
           ))}
-          {q ? (() => {
-            const i = options.length - 1;
-            return (
-              <div id={optionId(i)} role="option" aria-selected={i === active} data-type="all" data-href={options[i].href}
-                onMouseDown={(e) => e.preventDefault()} onClick={() => choose(options[i])} onMouseMove={() => { if (active !== i) setActive(i); }}
-                className={`sticky bottom-0 cursor-pointer border-t border-rule border-l-4 px-3 py-2 font-semibold text-signal-dark ${i === active ? "border-l-signal bg-caution" : "border-l-transparent bg-white"}`}>
-                All results for “{q}”{current?.q === q ? <span className="font-normal text-muted"> ({current.data.total} in the library)</span> : null}
-              </div>
-            );
-          })() : null}
+          {q
+            ? (() => {
+                const i = options.length - 1;
+                return (
+                  <div
+                    id={optionId(i)}
+                    role="option"
+                    aria-selected={i === active}
+                    data-type="all"
+                    data-href={options[i].href}
+                    onMouseDown={(e) => e.preventDefault()}
+                    onClick={() => choose(options[i])}
+                    onMouseMove={() => {
+                      if (active !== i) setActive(i);
+                    }}
+                    className={`sticky bottom-0 cursor-pointer border-t border-l-4 border-rule px-3 py-2 font-semibold text-signal-dark ${i === active ? "border-l-signal bg-caution" : "border-l-transparent bg-white"}`}
+                  >
+                    All results for “{q}”{current?.q === q ? <span className="font-normal text-muted"> ({current.data.total} in the library)</span> : null}
+                  </div>
+                );
+              })()
+            : null}
         </div>
       </div>
-      <p role="status" className="sr-only">{!shown ? "" : failed ? "Suggestions are not available just now." : current && current.data.hits.length ? `${current.data.hits.length} suggestions for “${current.q}”; arrow keys to choose.` : current ? `No suggestions for “${current.q}”.` : ""}</p>
+      <p role="status" className="sr-only">
+        {!shown
+          ? ""
+          : failed
+            ? "Suggestions are not available just now."
+            : current && current.data.hits.length
+              ? `${current.data.hits.length} suggestions for “${current.q}”; arrow keys to choose.`
+              : current
+                ? `No suggestions for “${current.q}”.`
+                : ""}
+      </p>
     </Form>
   );
 }

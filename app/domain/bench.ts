@@ -101,21 +101,30 @@ const LAMP = /\b(?:lamps?|bulbs?|filaments?|headlamps?|headlights?|tail ?lights?
 const INSULATION = /\b(?:insulation|leakage|to (?:earth|frame|ground|chassis))\b/;
 const CARBON = /\b(?:caps?|suppressors?|suppression|carbon|(?:ht|high[- ]tension|plug|spark|ignition) leads?)\b/;
 const RESISTOR = /\b(?:resistors?|ballast)\b/;
-const COPPER = /\b(?:windings?|coils?|primar(?:y|ies)|secondar(?:y|ies)|stators?|pick-?ups?|pick ups?|pulsers?|field|rotors?|armatures?|solenoids?|wires?|wiring|cables?|straps?|loom|harness|runs?)\b/;
+const COPPER =
+  /\b(?:windings?|coils?|primar(?:y|ies)|secondar(?:y|ies)|stators?|pick-?ups?|pick ups?|pulsers?|field|rotors?|armatures?|solenoids?|wires?|wiring|cables?|straps?|loom|harness|runs?)\b/;
 
 /** The material a reading is taken to be when none is given, from its name and spec, with the reason in words. */
-export function defaultMaterial(name: string, spec: { ohms: boolean; open: boolean }): { material: SpecMaterial; by: Exclude<MaterialBy, "given">; why: string } {
+export function defaultMaterial(
+  name: string,
+  spec: { ohms: boolean; open: boolean },
+): { material: SpecMaterial; by: Exclude<MaterialBy, "given">; why: string } {
   if (!spec.ohms) return { material: "other", by: "fallback", why: "Not a resistance, so no material applies." };
   const n = name.normalize("NFKC").toLowerCase();
   const alsoWinding = COPPER.test(n)
     ? " The name also names a winding: a reading through a non-copper part is not corrected as a whole; measure the winding on its own for a corrected figure."
     : "";
   if (LAMP.test(n)) {
-    return { material: "other", by: "name", why: `Material not given: other, from the name. A lamp filament is tungsten, not copper: never corrected with copper's α.${alsoWinding}` };
+    return {
+      material: "other",
+      by: "name",
+      why: `Material not given: other, from the name. A lamp filament is tungsten, not copper: never corrected with copper's α.${alsoWinding}`,
+    };
   }
   if (spec.open || INSULATION.test(n)) {
     return {
-      material: "other", by: spec.open ? "fallback" : "name",
+      material: "other",
+      by: spec.open ? "fallback" : "name",
       why: "Material not given: other. An insulation (open-circuit) test measures the insulation, not a copper winding's resistance, so it is not corrected.",
     };
   }
@@ -129,7 +138,8 @@ export function defaultMaterial(name: string, spec: { ohms: boolean; open: boole
     return { material: "copper", by: "name", why: "Material not given: copper, from the name (a winding, coil, stator, pickup or wire)." };
   }
   return {
-    material: "copper", by: "fallback",
+    material: "copper",
+    by: "fallback",
     why: "Material not given and not recognised from the name: taken as copper, the default for a resistance in ohms. Choose carbon or other if it is not a winding or wire.",
   };
 }
@@ -191,15 +201,15 @@ export function benchReading(reading: BenchReading, field = "reading"): BenchRes
   let at20C: Measured = measured;
   let correctionFactor = 1;
   if (measured === OVER_LIMIT) {
-    steps.push(`The meter reads ${OVER_LIMIT} (over its limit): an open circuit, higher than any number${copper ? "; no temperature correction changes that" : ""}.`);
+    steps.push(
+      `The meter reads ${OVER_LIMIT} (over its limit): an open circuit, higher than any number${copper ? "; no temperature correction changes that" : ""}.`,
+    );
   } else if (copper) {
     const divisor = 1 + COPPER_ALPHA_20C * (tempC - 20);
     correctionFactor = 1 / divisor;
     at20C = measured / divisor;
     steps.push(`Copper winding: corrected to 20 °C with α = ${COPPER_ALPHA_20C} /°C (IEC 60028 / IACS).`);
-    steps.push(
-      `R20 = R / (1 + ${COPPER_ALPHA_20C} × (${exact(tempC)} − 20)) = ${exact(measured)} / ${exact(divisor)} = ${num(at20C)} ${unit}`,
-    );
+    steps.push(`R20 = R / (1 + ${COPPER_ALPHA_20C} × (${exact(tempC)} − 20)) = ${exact(measured)} / ${exact(divisor)} = ${num(at20C)} ${unit}`);
   } else {
     steps.push(
       !ohms

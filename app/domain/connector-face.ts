@@ -47,10 +47,7 @@ function mirrorLatch(latch: Latch): Latch {
 }
 
 /** Cavity centres in one coordinate system whose origin is the housing's centre, x to the viewer's right, y down. */
-export function faceGeometry(
-  layout: HousingLayout,
-  opts: { view?: FaceSide; half?: FaceHalf; pitch?: number } = {},
-): FaceGeometry {
+export function faceGeometry(layout: HousingLayout, opts: { view?: FaceSide; half?: FaceHalf; pitch?: number } = {}): FaceGeometry {
   const view = opts.view ?? "mating";
   const half = opts.half ?? "this";
   const pitch = opts.pitch ?? DEFAULT_PITCH;
@@ -133,11 +130,7 @@ export function layoutProblems(layout: HousingLayout): string[] {
 }
 
 /** Build a simple layout: `rows`×`cols`, cavities numbered "1".."n" row by row left to right, optionally skipping cells (`missing`: list of [row,col]). */
-export function gridLayout(
-  rows: number,
-  cols: number,
-  opts: { missing?: [number, number][]; pin1?: string; latch?: Latch } = {},
-): HousingLayout {
+export function gridLayout(rows: number, cols: number, opts: { missing?: [number, number][]; pin1?: string; latch?: Latch } = {}): HousingLayout {
   const missing = new Set((opts.missing ?? []).map(([r, c]) => `${r},${c}`));
   const cavities: HousingLayout["cavities"] = [];
   for (let row = 1; row <= rows; row++) {

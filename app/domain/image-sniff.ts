@@ -5,12 +5,9 @@
  */
 
 export type AcceptedKind = "jpeg" | "png" | "webp";
-export type RejectedFormat =
-  | "heic" | "avif" | "gif" | "tiff" | "svg" | "html" | "xml" | "pdf" | "bmp" | "ico" | "psd" | "jxl" | "jp2" | "text" | "unknown";
+export type RejectedFormat = "heic" | "avif" | "gif" | "tiff" | "svg" | "html" | "xml" | "pdf" | "bmp" | "ico" | "psd" | "jxl" | "jp2" | "text" | "unknown";
 
-export type Sniffed =
-  | { ok: true; kind: AcceptedKind; animated: boolean }
-  | { ok: false; format: RejectedFormat | "empty" };
+export type Sniffed = { ok: true; kind: AcceptedKind; animated: boolean } | { ok: false; format: RejectedFormat | "empty" };
 
 /** How many leading bytes `sniffImage` looks at (enough for the WebP VP8X flags and a text prologue). */
 export const SNIFF_BYTES = 512;
@@ -47,8 +44,13 @@ export function sniffImage(head: Uint8Array): Sniffed {
   // GIF87a / GIF89a (GIF89a specification, 17. Header).
   if (ascii(head, 0, 3) === "GIF") return { ok: false, format: "gif" };
   // TIFF: "II*\0" little-endian or "MM\0*" big-endian (TIFF 6.0, section 2), and BigTIFF's 43 in place of 42.
-  if (startsWith(head, [0x49, 0x49, 0x2a, 0x00]) || startsWith(head, [0x4d, 0x4d, 0x00, 0x2a])
-    || startsWith(head, [0x49, 0x49, 0x2b, 0x00]) || startsWith(head, [0x4d, 0x4d, 0x00, 0x2b])) return { ok: false, format: "tiff" };
+  if (
+    startsWith(head, [0x49, 0x49, 0x2a, 0x00]) ||
+    startsWith(head, [0x4d, 0x4d, 0x00, 0x2a]) ||
+    startsWith(head, [0x49, 0x49, 0x2b, 0x00]) ||
+    startsWith(head, [0x4d, 0x4d, 0x00, 0x2b])
+  )
+    return { ok: false, format: "tiff" };
   if (ascii(head, 0, 5) === "%PDF-") return { ok: false, format: "pdf" };
   if (ascii(head, 0, 2) === "BM") return { ok: false, format: "bmp" };
   if (startsWith(head, [0x00, 0x00, 0x01, 0x00])) return { ok: false, format: "ico" };
@@ -73,14 +75,27 @@ function sniffText(head: Uint8Array): Sniffed {
 }
 
 const NAMES: Record<RejectedFormat, string> = {
-  heic: "a HEIC/HEIF photo", avif: "an AVIF image", gif: "a GIF", tiff: "a TIFF", svg: "an SVG drawing", html: "a web page (HTML)",
-  xml: "an XML document", pdf: "a PDF", bmp: "a BMP bitmap", ico: "an icon file", psd: "a Photoshop document", jxl: "a JPEG XL image",
-  jp2: "a JPEG 2000 image", text: "a text file", unknown: "not an image we can read",
+  heic: "a HEIC/HEIF photo",
+  avif: "an AVIF image",
+  gif: "a GIF",
+  tiff: "a TIFF",
+  svg: "an SVG drawing",
+  html: "a web page (HTML)",
+  xml: "an XML document",
+  pdf: "a PDF",
+  bmp: "a BMP bitmap",
+  ico: "an icon file",
+  psd: "a Photoshop document",
+  jxl: "a JPEG XL image",
+  jp2: "a JPEG 2000 image",
+  text: "a text file",
+  unknown: "not an image we can read",
 };
 
 /** The sentence a contributor reads when a file's format is refused. */
 export function rejectionMessage(format: RejectedFormat): string {
-  if (format === "heic") return "HEIC/HEIF photos are not accepted: export the photo as JPEG (most phones and photo apps can: \"Most compatible\" or \"Export as JPEG\") and upload that.";
+  if (format === "heic")
+    return 'HEIC/HEIF photos are not accepted: export the photo as JPEG (most phones and photo apps can: "Most compatible" or "Export as JPEG") and upload that.';
   if (format === "unknown") return "This file is not a JPEG, PNG or WebP photo. Only those three are accepted.";
   return `This file is ${NAMES[format]}. Only JPEG, PNG and WebP photos are accepted.`;
 }

@@ -25,8 +25,17 @@ export type SwitchState = Record<SwitchId, string>;
 
 /** What an omitted switch is taken to be: the riding positions (main on, kill run), the engine stopped, in neutral. */
 export const RIDING_POSITIONS: SwitchState = {
-  main: "on", kill: "run", start: "released", lights: "off", brake: "released", beam: "low", indicators: "off", horn: "released",
-  gear: "neutral", engine: "stopped", points: "closed",
+  main: "on",
+  kill: "run",
+  start: "released",
+  lights: "off",
+  brake: "released",
+  beam: "low",
+  indicators: "off",
+  horn: "released",
+  gear: "neutral",
+  engine: "stopped",
+  points: "closed",
 };
 
 export type EdgeKind = "wire" | "mate" | "contact" | "fuse" | "transistor" | "breaker" | "winding" | "load" | "lamp" | "sense" | "source";
@@ -103,7 +112,7 @@ export class LoomGraph {
         if (next === to) {
           const nodes = [to];
           const edges: GraphEdge[] = [];
-          for (let n = to; n !== from; ) {
+          for (let n = to; n !== from;) {
             const p = prev.get(n)!;
             edges.unshift(p.edge);
             nodes.unshift(p.node);
@@ -122,7 +131,10 @@ export class LoomGraph {
    * Current passes conductors freely but no other load: a series circuit must close through its own load.
    */
   loop(from: string, via: GraphEdge, to: string, switches: SwitchState) {
-    for (const [x, y] of [[via.a, via.b], [via.b, via.a]] as const) {
+    for (const [x, y] of [
+      [via.a, via.b],
+      [via.b, via.a],
+    ] as const) {
       const supply = this.path(from, x, switches);
       const ret = supply && this.path(y, to, switches);
       if (supply && ret) return { supply, load: via, ret };

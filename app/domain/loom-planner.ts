@@ -10,18 +10,7 @@
 //
 // The one entry point (import from "~/domain/loom-planner"); the parts live in loom-planner/, one job each.
 
-export type {
-  CircuitDrop,
-  CutRow,
-  FuseRow,
-  LegendRow,
-  PartRow,
-  PlanResult,
-  PlannerCircuit,
-  PlannerInput,
-  PlannerWire,
-  WireRole,
-} from "./loom-planner/types";
+export type { CircuitDrop, CutRow, FuseRow, LegendRow, PartRow, PlanResult, PlannerCircuit, PlannerInput, PlannerWire, WireRole } from "./loom-planner/types";
 export { ASSUMED_RUN_M, CUTTING_ALLOWANCE, FUSE_MOMENTARY_FACTOR, MAX_RUN_M, MIN_PRACTICAL_MM2, circuitDropPct } from "./loom-planner/rules";
 export { SIMPLE_SCHEME } from "./loom-planner/colours";
 export { planLoom } from "./loom-planner/plan";

@@ -34,8 +34,11 @@ export function escapeHtml(value: string): string {
 
 /** One line, trimmed, control characters (CR/LF included) turned into spaces; cut to `max` characters. */
 function oneLine(value: string, max = 120): string {
-  // eslint-disable-next-line no-control-regex -- control characters are what this checks for
-  const line = value.replace(/[\u0000-\u001f\u007f]+/g, " ").replace(/\s+/g, " ").trim();
+  const line = value
+    // eslint-disable-next-line no-control-regex -- control characters are what this checks for
+    .replace(/[\u0000-\u001f\u007f]+/g, " ")
+    .replace(/\s+/g, " ")
+    .trim();
   return line.length > max ? `${line.slice(0, max - 1).trimEnd()}…` : line;
 }
 
@@ -136,7 +139,8 @@ export function accountExistsMessage({ link }: { link: string }): MailContent {
 const OUTCOMES: Record<ReviewOutcome, { subject: (card: string) => string; lead: (card: string) => string; label: string; next: string }> = {
   published: {
     subject: (card) => `Your change to ${card} is published`,
-    lead: (card) => `A moderator has reviewed your change to ${card} and published it. Everyone reading the card now sees it. Thank you for improving the library.`,
+    lead: (card) =>
+      `A moderator has reviewed your change to ${card} and published it. Everyone reading the card now sees it. Thank you for improving the library.`,
     label: "See the card",
     next: "",
   },

@@ -14,7 +14,16 @@ const blankPin = (cavity: string): ProposedPin => ({ cavity, code: null, circuit
 
 /** A spec row not filled in yet: its numbers are NaN, which the editor shows as empty boxes. */
 const blankSpec = (): ProposedSpec => ({
-  name: "", min: Number.NaN, max: Number.NaN, unit: "", between: ["", ""], atC: 20, source: "", conditions: "", kind: "resistance", material: null,
+  name: "",
+  min: Number.NaN,
+  max: Number.NaN,
+  unit: "",
+  between: ["", ""],
+  atC: 20,
+  source: "",
+  conditions: "",
+  kind: "resistance",
+  material: null,
 });
 
 const isPlaceholder = (pin: ProposedPin) => !pin.code && !pin.circuit.trim() && !pin.terminal && !pin.goesTo;
@@ -75,8 +84,7 @@ export function resizeLayout(p: CardProposal, rows: number, cols: number): CardP
   const size = (n: number, current: number, max: number) => (Number.isFinite(n) ? clamp(Math.trunc(n), 1, max) : clamp(current, 1, max));
   const r = size(rows, p.layout.rows, LIMITS.rows);
   const c = size(cols, p.layout.cols, LIMITS.cols);
-  const cavities = readingOrder(p.layout.cavities.filter((cav) => cav.row >= 1 && cav.row <= r && cav.col >= 1 && cav.col <= c))
-    .slice(0, LIMITS.cavities);
+  const cavities = readingOrder(p.layout.cavities.filter((cav) => cav.row >= 1 && cav.row <= r && cav.col >= 1 && cav.col <= c)).slice(0, LIMITS.cavities);
   const pin1 = cavities.some((cav) => cav.cavity === p.layout.pin1) ? p.layout.pin1 : (cavities[0]?.cavity ?? "");
   return { ...p, layout: { ...p.layout, rows: r, cols: c, cavities, pin1 } };
 }
@@ -121,7 +129,8 @@ const isBlankRow = (row: readonly string[]) => row.every((c) => c.trim() === "")
  */
 export function pastePins(p: CardProposal, text: string, mode: "replace" | "append"): PasteResult {
   const none = (message: string): PasteResult => ({ proposal: p, added: 0, skipped: 0, problems: [{ field: "paste", message }] });
-  if (text.length > MAX_PASTE_CHARS) return none(`The pasted text is longer than ${MAX_PASTE_CHARS.toLocaleString("en-GB")} characters; paste the pin map only.`);
+  if (text.length > MAX_PASTE_CHARS)
+    return none(`The pasted text is longer than ${MAX_PASTE_CHARS.toLocaleString("en-GB")} characters; paste the pin map only.`);
   const input = text.replace(/^\uFEFF/, "");
   if (input.trim() === "") return none("There is nothing in the paste box.");
 
@@ -135,7 +144,13 @@ export function pastePins(p: CardProposal, text: string, mode: "replace" | "appe
   const problems: Problem[] = [];
   for (const e of parsed.errors) {
     if (e.code === "UndetectableDelimiter") continue; // one column only: read as cavities, which is fine
-    problems.push({ field: "paste", message: e.code === "MissingQuotes" || e.code === "InvalidQuotes" ? `Line ${(e.row ?? 0) + 1}: a quoted cell is not closed.` : `Line ${(e.row ?? 0) + 1}: ${e.message}.` });
+    problems.push({
+      field: "paste",
+      message:
+        e.code === "MissingQuotes" || e.code === "InvalidQuotes"
+          ? `Line ${(e.row ?? 0) + 1}: a quoted cell is not closed.`
+          : `Line ${(e.row ?? 0) + 1}: ${e.message}.`,
+    });
   }
   const raw = parsed.data.map((row) => row.map((c) => undefuse(String(c ?? ""))));
   const lineOf = raw.map((row, i) => (isBlankRow(row) ? -1 : i + 1)).filter((n) => n > 0);
@@ -145,13 +160,18 @@ export function pastePins(p: CardProposal, text: string, mode: "replace" | "appe
 
   const pins = mode === "replace" ? [] : [...p.pins];
   const byCavity = new Map<string, number>();
-  pins.forEach((pin, i) => { if (!byCavity.has(pin.cavity.trim())) byCavity.set(pin.cavity.trim(), i); });
+  pins.forEach((pin, i) => {
+    if (!byCavity.has(pin.cavity.trim())) byCavity.set(pin.cavity.trim(), i);
+  });
   const filled = new Set<string>(); // cavities this paste has put a row on
   let added = 0;
   let skipped = 0;
   rows.forEach((row, k) => {
     const line = lineOf[k + offset];
-    const skip = (message: string) => { skipped++; problems.push({ field: "paste", message: `Line ${line}: ${message}` }); };
+    const skip = (message: string) => {
+      skipped++;
+      problems.push({ field: "paste", message: `Line ${line}: ${message}` });
+    };
     if (!row.cavity) return skip("no cavity, so the row was left out.");
     const at = byCavity.get(row.cavity);
     if (at !== undefined) {
@@ -210,7 +230,13 @@ export function applyEditorIntent(
       const next = resizeLayout(p, num(form.rows, p.layout.rows), num(form.cols, p.layout.cols));
       const dropped = p.layout.cavities.length - next.layout.cavities.length;
       const size = `${next.layout.rows} × ${next.layout.cols}`;
-      return { proposal: next, notice: dropped > 0 ? `The grid is now ${size}; ${dropped} ${dropped === 1 ? "cavity" : "cavities"} outside it ${dropped === 1 ? "was" : "were"} dropped.` : `The grid is now ${size}.` };
+      return {
+        proposal: next,
+        notice:
+          dropped > 0
+            ? `The grid is now ${size}; ${dropped} ${dropped === 1 ? "cavity" : "cavities"} outside it ${dropped === 1 ? "was" : "were"} dropped.`
+            : `The grid is now ${size}.`,
+      };
     }
     case "paste": {
       const r = pastePins(p, form.paste ?? "", form.pasteMode === "append" ? "append" : "replace");
@@ -224,10 +250,8 @@ export function applyEditorIntent(
   const m = INDEXED.exec(intent);
   if (!m) return null;
   const i = Number(m[2]);
-  const next = m[1] === "remove-row" ? removePinRow(p, i)
-    : m[1] === "move-up" ? movePinRow(p, i, -1)
-    : m[1] === "move-down" ? movePinRow(p, i, 1)
-    : removeSpecRow(p, i);
+  const next =
+    m[1] === "remove-row" ? removePinRow(p, i) : m[1] === "move-up" ? movePinRow(p, i, -1) : m[1] === "move-down" ? movePinRow(p, i, 1) : removeSpecRow(p, i);
   const list = m[1] === "remove-spec" ? p.specs : p.pins;
   if (!inRange(i, list.length)) return gone;
   return { proposal: next };

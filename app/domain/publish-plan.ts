@@ -17,8 +17,17 @@ export interface PlanPin {
   terminal: string | null;
   position: number;
 }
-export interface PlanWire { id: number; fromPinId: number; toPinId: number; colourCode: string }
-export interface PlanConnector { id: number; slug: string; matesWithId: number | null }
+export interface PlanWire {
+  id: number;
+  fromPinId: number;
+  toPinId: number;
+  colourCode: string;
+}
+export interface PlanConnector {
+  id: number;
+  slug: string;
+  matesWithId: number | null;
+}
 type Far = { connector: string; cavity: string } | null;
 
 export interface PublishInput {
@@ -165,6 +174,11 @@ export function planPublish(input: PublishInput): PublishPlan {
   }
   return {
     deleteWires: input.wires.filter((w) => !wires.has(w.id)).map((w) => w.id),
-    deletePins, updatePins, createPins, wireColours, createWires, touched: [...touched],
+    deletePins,
+    updatePins,
+    createPins,
+    wireColours,
+    createWires,
+    touched: [...touched],
   };
 }

@@ -57,10 +57,11 @@ export function codeVariants(code: string | null, system: ColourSystemId): strin
   const out = new Set<string>([code]);
   const base = d.value.base?.name ?? d.value.colours[0];
   const tracers = d.value.base ? d.value.tracers.map((t) => t.name) : d.value.colours.slice(1);
-  if (base) for (const s of COLOUR_SYSTEM_IDS) {
-    const c = encodeColour(base, tracers, s);
-    if (c) out.add(c);
-  }
+  if (base)
+    for (const s of COLOUR_SYSTEM_IDS) {
+      const c = encodeColour(base, tracers, s);
+      if (c) out.add(c);
+    }
   if (d.value.iec) out.add(d.value.iec);
   return [...out];
 }
@@ -76,32 +77,72 @@ const years = (from: number, to: number) => Array.from({ length: Math.max(0, to 
 const idPart = (s: string) => s.toLowerCase().replace(/[^a-z0-9_-]+/g, "_");
 
 export interface FamilyInput {
-  slug: string; name: string; modelRange: string; yearFrom: number; yearTo: number; engine: string; ignition: string;
+  slug: string;
+  name: string;
+  modelRange: string;
+  yearFrom: number;
+  yearTo: number;
+  engine: string;
+  ignition: string;
   make: { slug: string; name: string };
 }
 export interface ConnectorInput {
-  slug: string; name: string; location: string; housing: string; system: string; revision: number;
+  slug: string;
+  name: string;
+  location: string;
+  housing: string;
+  system: string;
+  revision: number;
   pins: { cavity: string; code: string | null; circuit: string; terminal: string | null; goesTo: string | null }[];
 }
 
 /** The family's own document. */
 export function familyDoc(f: FamilyInput): SearchDoc {
   return {
-    id: `family-${f.slug}`, type: "family", slug: f.slug, cavity: null, title: `${f.make.name} ${f.name}`, subtitle: `${f.yearFrom}–${f.yearTo} · ${f.engine} · ${f.ignition}`,
-    url: `/families/${f.slug}`, make: f.make.name, makeSlug: f.make.slug, family: f.name, familySlug: f.slug, system: null, pinCount: null,
-    years: years(f.yearFrom, f.yearTo), codes: [], colours: [], circuits: [], terminals: [], text: `${f.modelRange} ${f.engine} ${f.ignition}`, version: 1,
+    id: `family-${f.slug}`,
+    type: "family",
+    slug: f.slug,
+    cavity: null,
+    title: `${f.make.name} ${f.name}`,
+    subtitle: `${f.yearFrom}–${f.yearTo} · ${f.engine} · ${f.ignition}`,
+    url: `/families/${f.slug}`,
+    make: f.make.name,
+    makeSlug: f.make.slug,
+    family: f.name,
+    familySlug: f.slug,
+    system: null,
+    pinCount: null,
+    years: years(f.yearFrom, f.yearTo),
+    codes: [],
+    colours: [],
+    circuits: [],
+    terminals: [],
+    text: `${f.modelRange} ${f.engine} ${f.ignition}`,
+    version: 1,
   };
 }
 
 /** A connector card's document and one per pin. */
 export function connectorDocs(f: FamilyInput, c: ConnectorInput, colourSystem: ColourSystemId): SearchDoc[] {
   const base = {
-    make: f.make.name, makeSlug: f.make.slug, family: f.name, familySlug: f.slug, system: c.system, pinCount: c.pins.length, slug: c.slug,
-    years: years(f.yearFrom, f.yearTo), version: c.revision,
+    make: f.make.name,
+    makeSlug: f.make.slug,
+    family: f.name,
+    familySlug: f.slug,
+    system: c.system,
+    pinCount: c.pins.length,
+    slug: c.slug,
+    years: years(f.yearFrom, f.yearTo),
+    version: c.revision,
   };
   const codes = (p: ConnectorInput["pins"][number]) => codeVariants(p.code, colourSystem);
   const card: SearchDoc = {
-    ...base, id: `connector-${c.slug}`, type: "connector", cavity: null, title: c.name, subtitle: `${f.make.name} ${f.name} · ${c.system} · ${c.location}`,
+    ...base,
+    id: `connector-${c.slug}`,
+    type: "connector",
+    cavity: null,
+    title: c.name,
+    subtitle: `${f.make.name} ${f.name} · ${c.system} · ${c.location}`,
     url: `/connectors/${c.slug}`,
     codes: [...new Set(c.pins.flatMap(codes))],
     colours: [...new Set(c.pins.map((p) => colourWords(p.code, colourSystem)).filter((x): x is string => !!x))],
@@ -110,11 +151,18 @@ export function connectorDocs(f: FamilyInput, c: ConnectorInput, colourSystem: C
     text: `${c.location} ${c.housing}`,
   };
   const pins = c.pins.map((p): SearchDoc => ({
-    ...base, id: `pin-${c.slug}-${idPart(p.cavity)}`, type: "pin", cavity: p.cavity, title: `${c.name}, cavity ${p.cavity}`,
+    ...base,
+    id: `pin-${c.slug}-${idPart(p.cavity)}`,
+    type: "pin",
+    cavity: p.cavity,
+    title: `${c.name}, cavity ${p.cavity}`,
     subtitle: [p.code, colourWords(p.code, colourSystem), p.circuit, p.terminal ? `terminal ${p.terminal}` : null].filter(Boolean).join(" · "),
     url: `/connectors/${c.slug}?cavity=${encodeURIComponent(p.cavity)}#pin-${encodeURIComponent(p.cavity)}`,
-    codes: codes(p), colours: [colourWords(p.code, colourSystem)].filter((x): x is string => !!x), circuits: p.circuit ? [p.circuit] : [],
-    terminals: p.terminal ? [p.terminal] : [], text: p.goesTo ?? "",
+    codes: codes(p),
+    colours: [colourWords(p.code, colourSystem)].filter((x): x is string => !!x),
+    circuits: p.circuit ? [p.circuit] : [],
+    terminals: p.terminal ? [p.terminal] : [],
+    text: p.goesTo ?? "",
   }));
   return [card, ...pins];
 }

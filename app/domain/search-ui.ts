@@ -75,11 +75,16 @@ export function facetEntries(counts: Record<string, number>, numeric = false): [
 export function moveActive(active: number, count: number, key: string): number {
   if (count <= 0) return -1;
   switch (key) {
-    case "ArrowDown": return active >= count - 1 ? -1 : active + 1;
-    case "ArrowUp": return active < 0 ? count - 1 : active - 1;
-    case "Home": return 0;
-    case "End": return count - 1;
-    default: return active;
+    case "ArrowDown":
+      return active >= count - 1 ? -1 : active + 1;
+    case "ArrowUp":
+      return active < 0 ? count - 1 : active - 1;
+    case "Home":
+      return 0;
+    case "End":
+      return count - 1;
+    default:
+      return active;
   }
 }
 
@@ -145,10 +150,25 @@ export function debounce<T>(fn: (value: T) => void, opts: { wait: number; maxWai
 
 // --- the answer of GET /api/v1/search, as the browser sees it -------------------------------------------------------
 
-export interface SearchAnswerHit { type: HitType; slug: string; cavity: string | null; title: string; subtitle: string; url: string; family: string; make: string }
+export interface SearchAnswerHit {
+  type: HitType;
+  slug: string;
+  cavity: string | null;
+  title: string;
+  subtitle: string;
+  url: string;
+  family: string;
+  make: string;
+}
 export interface SearchAnswer {
   hits: SearchAnswerHit[];
-  facets: { type: Record<string, number>; make: Record<string, number>; family: Record<string, number>; system: Record<string, number>; pinCount: Record<string, number> };
+  facets: {
+    type: Record<string, number>;
+    make: Record<string, number>;
+    family: Record<string, number>;
+    system: Record<string, number>;
+    pinCount: Record<string, number>;
+  };
   total: number;
   limit: number;
   offset: number;
@@ -168,6 +188,8 @@ export function latestOnly() {
   return {
     begin: (): number => ++newest,
     isLatest: (ticket: number): boolean => ticket === newest,
-    drop: (): void => { newest++; },
+    drop: (): void => {
+      newest++;
+    },
   };
 }

@@ -56,7 +56,16 @@ export const LATCH_SIDES = ["top", "bottom", "left", "right"] as const;
 
 /** Size limits of a proposal (the schema in app/validation/submissions.ts enforces them; the editor shows them). */
 export const LIMITS = Object.freeze({
-  rows: 20, cols: 20, cavities: 200, pins: 200, specs: 50, photos: 12, notes: 20_000, text: 200, message: 4_000, conditions: 300,
+  rows: 20,
+  cols: 20,
+  cavities: 200,
+  pins: 200,
+  specs: 50,
+  photos: 12,
+  notes: 20_000,
+  text: 200,
+  message: 4_000,
+  conditions: 300,
 });
 
 /** A family's main systems (PRODUCT.md). */
@@ -113,13 +122,29 @@ export interface CardProposal {
 /** An empty proposal to start a new card from. */
 export function blankProposal(system = "ignition"): CardProposal {
   return {
-    name: "", location: "", housing: "", gender: "socket", system, matesWith: null,
-    layout: { rows: 1, cols: 2, cavities: [{ cavity: "1", row: 1, col: 1 }, { cavity: "2", row: 1, col: 2 }], pin1: "1", latch: "top" },
+    name: "",
+    location: "",
+    housing: "",
+    gender: "socket",
+    system,
+    matesWith: null,
+    layout: {
+      rows: 1,
+      cols: 2,
+      cavities: [
+        { cavity: "1", row: 1, col: 1 },
+        { cavity: "2", row: 1, col: 2 },
+      ],
+      pin1: "1",
+      latch: "top",
+    },
     pins: [
       { cavity: "1", code: null, circuit: "", terminal: null, goesTo: null },
       { cavity: "2", code: null, circuit: "", terminal: null, goesTo: null },
     ],
-    specs: [], notes: "", photos: [],
+    specs: [],
+    notes: "",
+    photos: [],
   };
 }
 
@@ -194,7 +219,10 @@ export function proposalProblems(
     }
     for (const c of s.between) {
       if (!cavities.has(c) && !isOffCardPoint(c)) {
-        out.push({ field: `${at}.between`, message: `Spec ${i + 1}: “${c}” is neither a cavity of the layout nor ${SPEC_OFF_CARD_POINTS.map((x) => `“${x}”`).join(", ")}.` });
+        out.push({
+          field: `${at}.between`,
+          message: `Spec ${i + 1}: “${c}” is neither a cavity of the layout nor ${SPEC_OFF_CARD_POINTS.map((x) => `“${x}”`).join(", ")}.`,
+        });
       }
     }
     if (opts.specsBefore && !unchanged.has(specFingerprint(s))) {
@@ -205,7 +233,10 @@ export function proposalProblems(
         });
       }
       if (specKindOf(s.kind) === "insulation" && s.max !== null) {
-        out.push({ field: `${at}.max`, message: `Spec ${i + 1}: an insulation test has no upper limit (it must read open): tick “no upper limit” and give the least it must read.` });
+        out.push({
+          field: `${at}.max`,
+          message: `Spec ${i + 1}: an insulation test has no upper limit (it must read open): tick “no upper limit” and give the least it must read.`,
+        });
       }
     }
   });
@@ -262,13 +293,25 @@ const specKey = (s: ProposedSpec) => `${s.name.trim().toLowerCase()}|${s.between
 const SPEC_FIELDS = ["min", "max", "unit", "atC", "source", "conditions", "kind", "material"] as const;
 // Revisions written before specs had conditions, a kind and a material read as "", resistance and not stated.
 const specValue = (s: ProposedSpec, f: (typeof SPEC_FIELDS)[number]) =>
-  f === "conditions" ? (s.conditions ?? "") : f === "kind" ? specKindOf(s.kind) : f === "material" ? (s.material ?? null) : f === "max" ? (s.max ?? null) : s[f];
+  f === "conditions"
+    ? (s.conditions ?? "")
+    : f === "kind"
+      ? specKindOf(s.kind)
+      : f === "material"
+        ? (s.material ?? null)
+        : f === "max"
+          ? (s.max ?? null)
+          : s[f];
 const specFieldsDiffer = (a: ProposedSpec, b: ProposedSpec): (keyof ProposedSpec)[] => SPEC_FIELDS.filter((f) => specValue(a, f) !== specValue(b, f));
 const specFingerprint = (s: ProposedSpec) => JSON.stringify([specKey(s), ...SPEC_FIELDS.map((f) => specValue(s, f))]);
 
 function sameLayout(a: HousingLayout, b: HousingLayout): boolean {
   if (a.rows !== b.rows || a.cols !== b.cols || a.pin1 !== b.pin1 || a.latch !== b.latch) return false;
-  const key = (l: HousingLayout) => l.cavities.map((c) => `${c.cavity}@${c.row},${c.col}`).sort().join(";");
+  const key = (l: HousingLayout) =>
+    l.cavities
+      .map((c) => `${c.cavity}@${c.row},${c.col}`)
+      .sort()
+      .join(";");
   return key(a) === key(b);
 }
 
@@ -279,7 +322,7 @@ function sameLayout(a: HousingLayout, b: HousingLayout): boolean {
 export function diffCards(before: CardProposal | null, after: CardProposal): CardDiff {
   const fields: CardDiff["fields"] = [];
   for (const f of ["name", "location", "housing", "gender", "system", "matesWith"] as const) {
-    const b = before ? before[f] ?? null : null;
+    const b = before ? (before[f] ?? null) : null;
     const a = after[f] ?? null;
     if (b !== a) fields.push({ field: f, before: b, after: a });
   }
@@ -313,8 +356,14 @@ export function diffCards(before: CardProposal | null, after: CardProposal): Car
   };
   const layoutChanged = !before || !sameLayout(before.layout, after.layout);
   const notesChanged = (before?.notes ?? "") !== after.notes;
-  const any = fields.length > 0 || layoutChanged || notesChanged || pins.some((r) => r.change !== "same") ||
-    specs.some((s) => s.change !== "same") || photos.added.length > 0 || photos.removed.length > 0;
+  const any =
+    fields.length > 0 ||
+    layoutChanged ||
+    notesChanged ||
+    pins.some((r) => r.change !== "same") ||
+    specs.some((s) => s.change !== "same") ||
+    photos.added.length > 0 ||
+    photos.removed.length > 0;
   return {
     fields,
     layout: { changed: layoutChanged, before: before?.layout ?? null, after: after.layout },
@@ -327,12 +376,27 @@ export function diffCards(before: CardProposal | null, after: CardProposal): Car
 }
 
 const HEADER_ALIASES: Record<string, keyof ProposedPin | "goesToConnector" | "goesToCavity"> = {
-  cavity: "cavity", pin: "cavity", "#": "cavity", no: "cavity",
-  colour: "code", color: "code", code: "code", colour_code: "code", "colour code": "code", wire: "code",
-  circuit: "circuit", function: "circuit", signal: "circuit",
-  terminal: "terminal", din: "terminal", "din 72552": "terminal",
-  goes_to_connector: "goesToConnector", "goes to connector": "goesToConnector", connector: "goesToConnector",
-  goes_to_cavity: "goesToCavity", "goes to cavity": "goesToCavity",
+  cavity: "cavity",
+  pin: "cavity",
+  "#": "cavity",
+  no: "cavity",
+  colour: "code",
+  color: "code",
+  code: "code",
+  colour_code: "code",
+  "colour code": "code",
+  wire: "code",
+  circuit: "circuit",
+  function: "circuit",
+  signal: "circuit",
+  terminal: "terminal",
+  din: "terminal",
+  "din 72552": "terminal",
+  goes_to_connector: "goesToConnector",
+  "goes to connector": "goesToConnector",
+  connector: "goesToConnector",
+  goes_to_cavity: "goesToCavity",
+  "goes to cavity": "goesToCavity",
 };
 
 /**

@@ -17,8 +17,19 @@ export interface Fitting {
 }
 
 // From memory: typical continuous ratings (20 °C ambient) of the common automotive terminal sizes.
-const BLADE_A: readonly [number, number][] = [[1.5, 5], [2.3, 8], [2.8, 15], [4.8, 20], [6.3, 25], [9.5, 40]];
-const BULLET_A: readonly [number, number][] = [[3.5, 15], [4.7, 20], [5, 20]];
+const BLADE_A: readonly [number, number][] = [
+  [1.5, 5],
+  [2.3, 8],
+  [2.8, 15],
+  [4.8, 20],
+  [6.3, 25],
+  [9.5, 40],
+];
+const BULLET_A: readonly [number, number][] = [
+  [3.5, 15],
+  [4.7, 20],
+  [5, 20],
+];
 /** Source words for every rating here. */
 export const FITTING_SOURCE = "typical maker ratings for tin-plated brass terminals at 20 °C ambient, from memory: check the datasheet of the part you fit";
 

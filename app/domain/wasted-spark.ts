@@ -108,14 +108,22 @@ export function wastedSparkPairs(firingOrder: string, opts: WastedSparkOptions):
 
   if (cylinders === 1) {
     return {
-      suitable: false, status: "not-applicable", pairs: [], columns: [], intervalsDeg: [720],
+      suitable: false,
+      status: "not-applicable",
+      pairs: [],
+      columns: [],
+      intervalsDeg: [720],
       reason: "Single cylinder: wasted-spark pairing does not apply, there is no companion cylinder to share a coil with.",
       method: "None: pairing needs at least two cylinders.",
     };
   }
   if (cylinders % 2 === 1) {
     return {
-      suitable: false, status: "not-suitable", pairs: [], columns: [], intervalsDeg: given ? [...given] : null,
+      suitable: false,
+      status: "not-suitable",
+      pairs: [],
+      columns: [],
+      intervalsDeg: given ? [...given] : null,
       reason: `${cylinders} cylinders: an odd count cannot be split into pairs 360° apart, so wasted spark is not suitable; each cylinder needs its own coil.`,
       method: `${METHOD} ${shown} has no second half of equal length.`,
     };
@@ -133,14 +141,24 @@ export function wastedSparkPairs(firingOrder: string, opts: WastedSparkOptions):
     if (!Array.isArray(given) || given.length !== cylinders || given.some((x) => typeof x !== "number" || !Number.isFinite(x) || x <= 0)) {
       throw new WorkshopInputError("intervalsDeg", `must be ${cylinders} positive numbers of degrees, one per cylinder in firing order`);
     }
-    if (!near(given.reduce((s, x) => s + x, 0), 720)) throw new WorkshopInputError("intervalsDeg", "must add up to 720° (one four-stroke cycle)");
+    if (
+      !near(
+        given.reduce((s, x) => s + x, 0),
+        720,
+      )
+    )
+      throw new WorkshopInputError("intervalsDeg", "must add up to 720° (one four-stroke cycle)");
     intervals = [...given];
   } else if (cylinders === 2) {
     const kind = layout === "v" ? "v-twin" : layout === "flat" ? "flat-twin" : layout === "inline" ? "parallel-twin" : layout;
     if (kind === "parallel-twin") {
       if (crankDeg === null) {
         return {
-          suitable: false, status: "undetermined", pairs: [], columns, intervalsDeg: null,
+          suitable: false,
+          status: "undetermined",
+          pairs: [],
+          columns,
+          intervalsDeg: null,
           reason: "Parallel twin with the crank not given: a 360° twin can share one double-ended coil, a 180° or 270° twin cannot. Give crankDeg.",
           method,
         };
@@ -156,14 +174,23 @@ export function wastedSparkPairs(firingOrder: string, opts: WastedSparkOptions):
         // One shared crankpin: the second TDC comes one bank angle after the first, never 360° later.
         if (bankDeg === null) {
           return {
-            suitable: false, status: "not-suitable", pairs: [], columns, intervalsDeg: null,
-            reason: "V-twin on one shared crankpin: the cylinders fire a bank angle apart (e.g. 315–405 on a 45° V), never 360° apart, so each cylinder needs its own trigger and coil.",
+            suitable: false,
+            status: "not-suitable",
+            pairs: [],
+            columns,
+            intervalsDeg: null,
+            reason:
+              "V-twin on one shared crankpin: the cylinders fire a bank angle apart (e.g. 315–405 on a 45° V), never 360° apart, so each cylinder needs its own trigger and coil.",
             method,
           };
         }
       } else if (bankDeg === null) {
         return {
-          suitable: false, status: "undetermined", pairs: [], columns, intervalsDeg: null,
+          suitable: false,
+          status: "undetermined",
+          pairs: [],
+          columns,
+          intervalsDeg: null,
           reason: "V-twin with offset crankpins: give bankDeg (or intervalsDeg) to tell whether the cylinders fire 360° apart.",
           method,
         };
@@ -175,7 +202,11 @@ export function wastedSparkPairs(firingOrder: string, opts: WastedSparkOptions):
     const even = 720 / cylinders;
     if (crankDeg !== null && !near(crankDeg, even)) {
       return {
-        suitable: false, status: "not-suitable", pairs: [], columns, intervalsDeg: null,
+        suitable: false,
+        status: "not-suitable",
+        pairs: [],
+        columns,
+        intervalsDeg: null,
         reason: `Inline ${cylinders} with throws ${crankDeg}° apart: not the even-firing crank (${even}°), so the columns are not 360° apart; give intervalsDeg if you know they are.`,
         method,
       };
@@ -184,7 +215,10 @@ export function wastedSparkPairs(firingOrder: string, opts: WastedSparkOptions):
     note = crankDeg === null ? `Inline ${cylinders}, even-firing crank assumed (throws ${even}° apart)` : `Inline ${cylinders}, throws ${even}° apart`;
   } else {
     if (crankDeg !== null) {
-      throw new WorkshopInputError("crankDeg", `crankDeg alone does not fix the firing intervals of a ${cylinders}-cylinder ${layout} engine; give intervalsDeg instead`);
+      throw new WorkshopInputError(
+        "crankDeg",
+        `crankDeg alone does not fix the firing intervals of a ${cylinders}-cylinder ${layout} engine; give intervalsDeg instead`,
+      );
     }
     intervals = Array.from({ length: cylinders }, () => 720 / cylinders);
     note = `${cylinders}-cylinder ${layout === "v" ? "V" : "flat"} engine, even firing assumed (every ${720 / cylinders}°; give intervalsDeg if uneven)`;
@@ -207,17 +241,26 @@ export function wastedSparkPairs(firingOrder: string, opts: WastedSparkOptions):
         ? ` The pistons never reach top dead centre together, so one coil firing both plugs would spark the other cylinder ${near(off[0]!, 180) || near(off[0]!, 540) ? "at bottom dead centre" : "away from top dead centre"}; each cylinder needs its own trigger and coil.`
         : " Each cylinder (or each truly 360°-apart pair) needs its own trigger and coil.";
     return {
-      suitable: false, status: "not-suitable", pairs: [], columns, intervalsDeg: intervals,
+      suitable: false,
+      status: "not-suitable",
+      pairs: [],
+      columns,
+      intervalsDeg: intervals,
       reason: `${lead}firing intervals ${iv}, so the companion columns are not 360° apart (${bad}).${twinWords}`,
       method,
     };
   }
-  const pairs = columns
-    .map(([a, b]) => (a < b ? [a, b] : [b, a]) as [number, number])
-    .sort((p, q) => p[0] - q[0]);
-  const coils = pairs.length === 1 ? "one double-ended coil fires both plugs every revolution" : `${pairs.length} double-ended coils, each firing its pair every revolution`;
+  const pairs = columns.map(([a, b]) => (a < b ? [a, b] : [b, a]) as [number, number]).sort((p, q) => p[0] - q[0]);
+  const coils =
+    pairs.length === 1
+      ? "one double-ended coil fires both plugs every revolution"
+      : `${pairs.length} double-ended coils, each firing its pair every revolution`;
   return {
-    suitable: true, status: "suitable", pairs, columns, intervalsDeg: intervals,
+    suitable: true,
+    status: "suitable",
+    pairs,
+    columns,
+    intervalsDeg: intervals,
     reason: `${lead}firing intervals ${iv}, each column's cylinders fire 360° apart (one on compression, its companion on exhaust), so ${coils}.`,
     method,
   };

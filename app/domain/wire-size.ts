@@ -37,12 +37,21 @@ export const FUSE_RATINGS_A: readonly number[] = [3, 5, 7.5, 10, 15, 20, 25, 30,
  * memory (the same standard's table).
  */
 export const IEC_60228_CLASS5_OHM_PER_KM: Readonly<Record<string, number>> = Object.freeze({
-  "0.5": 39.0, "0.75": 26.0, "1": 19.5, "1.5": 13.3, "2.5": 7.98, "4": 4.95, "6": 3.3, "10": 1.91, "16": 1.21, "25": 0.78, "35": 0.554, "50": 0.386,
+  "0.5": 39.0,
+  "0.75": 26.0,
+  "1": 19.5,
+  "1.5": 13.3,
+  "2.5": 7.98,
+  "4": 4.95,
+  "6": 3.3,
+  "10": 1.91,
+  "16": 1.21,
+  "25": 0.78,
+  "35": 0.554,
+  "50": 0.386,
 });
 /** The largest resistance × area product of the class 5 table, Ω·mm²/km: used for sizes the table has no row for (0.3, 0.35, 0.85, 1.25, 2, 3, 5, 8 mm²), so they are never taken as better than the table. */
-export const CLASS5_WORST_OHM_MM2_PER_KM = Math.max(
-  ...Object.entries(IEC_60228_CLASS5_OHM_PER_KM).map(([a, r]) => Number(a) * r),
-);
+export const CLASS5_WORST_OHM_MM2_PER_KM = Math.max(...Object.entries(IEC_60228_CLASS5_OHM_PER_KM).map(([a, r]) => Number(a) * r));
 
 /** Stranded automotive cable's resistance per metre at 20 °C, Ω/m: IEC 60228 class 5 maximum, or the table's worst R·A for sizes it lacks. */
 export function strandedOhmsPerM(areaMm2: number): number {
@@ -242,7 +251,9 @@ export function wireSize(input: WireSizeInput): WireSizeResult {
   const candidate = FUSE_RATINGS_A.find((r) => r >= minFuseA * (1 - EPS));
   let fuseA: number | null = null;
   if (candidate === undefined) {
-    warnings.push(`No standard blade or glass fuse is rated ${fmt(minFuseA)} A (1.25 × ${fmt(currentA)} A) or more; the largest is ${FUSE_RATINGS_A[FUSE_RATINGS_A.length - 1]} A. Split the load.`);
+    warnings.push(
+      `No standard blade or glass fuse is rated ${fmt(minFuseA)} A (1.25 × ${fmt(currentA)} A) or more; the largest is ${FUSE_RATINGS_A[FUSE_RATINGS_A.length - 1]} A. Split the load.`,
+    );
   } else if (candidate > wireLimitA * (1 + EPS)) {
     warnings.push(
       `The ${candidate} A fuse (the smallest at or above 1.25 × ${fmt(currentA)} A) is more than ${metric.sizeMm2} mm² / ${awg.label} stands short-term ` +
@@ -271,7 +282,12 @@ export function wireSize(input: WireSizeInput): WireSizeResult {
     },
     { quantity: "continuous current density", value: AMPACITY_A_PER_MM2, unit: "A/mm²", source: "rule of thumb (German automotive practice), not a standard" },
     { quantity: "fuse margin", value: FUSE_MARGIN, unit: "× current", source: "common practice: fuse ≥ 1.25 × continuous current" },
-    { quantity: "short-term current density (fuse limit)", value: SHORT_TERM_A_PER_MM2, unit: "A/mm²", source: "rule of thumb (German automotive practice): the fuse must not exceed what the wire stands short-term" },
+    {
+      quantity: "short-term current density (fuse limit)",
+      value: SHORT_TERM_A_PER_MM2,
+      unit: "A/mm²",
+      source: "rule of thumb (German automotive practice): the fuse must not exceed what the wire stands short-term",
+    },
     {
       quantity: "metric size",
       value: metric.sizeMm2,

@@ -17,7 +17,11 @@ export function watchEventLoop(): void {
   since = Date.now();
 }
 
-export interface EventLoopReport { maxMs: number; p99Ms: number; windowS: number }
+export interface EventLoopReport {
+  maxMs: number;
+  p99Ms: number;
+  windowS: number;
+}
 
 /** The delay since the previous report (or since start), in milliseconds; the window starts again. */
 export function eventLoopReport(): EventLoopReport {

@@ -28,7 +28,10 @@ parentPort.on("message", async ({ id, op, a, b }) => {
 });`;
 
 type Job = { resolve: (v: unknown) => void; reject: (e: Error) => void };
-interface Slot { worker: Worker; pending: Map<number, Job> }
+interface Slot {
+  worker: Worker;
+  pending: Map<number, Job>;
+}
 let slots: Slot[] | null = null;
 let nextId = 1;
 let turn = 0;
@@ -81,7 +84,9 @@ function run<T>(op: "hash" | "compare", a: string, b: string | number, inThread:
   const live = pool();
   if (!wait && inFlight >= queueMax(live.length)) return Promise.reject(new HashingBusy(2));
   inFlight++;
-  return admitted(live, op, a, b, inThread).finally(() => { inFlight--; });
+  return admitted(live, op, a, b, inThread).finally(() => {
+    inFlight--;
+  });
 }
 
 function admitted<T>(live: Slot[], op: "hash" | "compare", a: string, b: string | number, inThread: () => Promise<T>): Promise<T> {

@@ -24,14 +24,27 @@ export async function action({ request, context }: Route.ActionArgs) {
   const intent = form.get("intent");
   if (intent === "resend") {
     const r = await resendVerification(user, context?.ip ?? "unknown");
-    return r.ok ? { notice: "A new confirmation link is on its way.", errors: {} as Record<string, string> }
-      : data({ notice: "", errors: { form: "Too many requests. Try again later." } as Record<string, string> }, { status: 429, headers: { "Retry-After": String(r.retryAfterS ?? 60) } });
+    return r.ok
+      ? { notice: "A new confirmation link is on its way.", errors: {} as Record<string, string> }
+      : data(
+          { notice: "", errors: { form: "Too many requests. Try again later." } as Record<string, string> },
+          { status: 429, headers: { "Retry-After": String(r.retryAfterS ?? 60) } },
+        );
   }
   if (intent === "password") {
     // Before any bcrypt work: the current-password check is a guessing oracle for whoever holds the session.
     const limited = await takeAction("password-check", user.id);
     if (!limited.ok) {
-      return data({ notice: "", errors: { form: `Too many attempts. Try again in ${Math.ceil(limited.retryAfterS / 60)} minute(s), or sign out and reset your password.` } as Record<string, string> }, tooMany(limited.retryAfterS));
+      return data(
+        {
+          notice: "",
+          errors: { form: `Too many attempts. Try again in ${Math.ceil(limited.retryAfterS / 60)} minute(s), or sign out and reset your password.` } as Record<
+            string,
+            string
+          >,
+        },
+        tooMany(limited.retryAfterS),
+      );
     }
     const parsed = changePasswordForm.safeParse(formFields(form));
     if (!parsed.success) return data({ notice: "", errors: fieldErrors(parsed.error.issues) }, { status: 400 });
@@ -50,14 +63,20 @@ export default function AccountPage({ loaderData, actionData }: Route.ComponentP
     <div className="max-w-2xl space-y-8">
       <header>
         <h1 className="text-3xl font-bold">Your account</h1>
-        <p className="mt-1">{user.displayName} · {user.email} · <span className="font-semibold">{user.role}</span></p>
+        <p className="mt-1">
+          {user.displayName} · {user.email} · <span className="font-semibold">{user.role}</span>
+        </p>
       </header>
       <FormMessage error={errors.form} notice={actionData?.notice || (loaderData.changed ? "Your password is changed." : undefined)} />
       {!user.verified ? (
         <section className="rounded-md border border-rule bg-white p-4">
           <h2 className="text-xl font-bold">Confirm your address</h2>
           <p className="mt-1">Confirm {user.email} to contribute cards. The link we sent works for 48 hours.</p>
-          <Form method="post" className="mt-2"><button name="intent" value="resend" className="rounded border-2 border-ink bg-white px-3 py-1.5 font-semibold">Send a new link</button></Form>
+          <Form method="post" className="mt-2">
+            <button name="intent" value="resend" className="rounded border-2 border-ink bg-white px-3 py-1.5 font-semibold">
+              Send a new link
+            </button>
+          </Form>
         </section>
       ) : null}
       <section className="rounded-md border border-rule bg-white p-4">
@@ -65,12 +84,27 @@ export default function AccountPage({ loaderData, actionData }: Route.ComponentP
         <Form method="post" className="mt-3 space-y-4" noValidate>
           <input type="hidden" name="intent" value="password" />
           <Field name="current" label="Current password" type="password" error={errors.current} autoComplete="current-password" required />
-          <Field name="password" label="New password" type="password" error={errors.password} autoComplete="new-password" required minLength={MIN_PASSWORD_CHARS} hint={`At least ${MIN_PASSWORD_CHARS} characters.`} />
-          <label className="flex items-center gap-2"><input type="checkbox" name="signOutOthers" defaultChecked /> Sign out everywhere else</label>
-          <button type="submit" className="rounded bg-signal px-5 py-2 font-semibold text-white hover:bg-signal-dark">Change password</button>
+          <Field
+            name="password"
+            label="New password"
+            type="password"
+            error={errors.password}
+            autoComplete="new-password"
+            required
+            minLength={MIN_PASSWORD_CHARS}
+            hint={`At least ${MIN_PASSWORD_CHARS} characters.`}
+          />
+          <label className="flex items-center gap-2">
+            <input type="checkbox" name="signOutOthers" defaultChecked /> Sign out everywhere else
+          </label>
+          <button type="submit" className="rounded bg-signal px-5 py-2 font-semibold text-white hover:bg-signal-dark">
+            Change password
+          </button>
         </Form>
       </section>
-      <Form method="post" action="/logout" reloadDocument><button className="rounded border-2 border-ink bg-white px-4 py-2 font-semibold">Sign out</button></Form>
+      <Form method="post" action="/logout" reloadDocument>
+        <button className="rounded border-2 border-ink bg-white px-4 py-2 font-semibold">Sign out</button>
+      </Form>
     </div>
   );
 }

@@ -16,7 +16,8 @@ export async function action({ request }: Route.ActionArgs) {
   if (!result.ok) return apiError(400, result.error.code, result.error.message, result.error.field);
   return Response.json({
     candidates: result.candidates.map((c) => ({
-      connector: c.connector, score: Math.round(c.score * 1000) / 1000,
+      connector: c.connector,
+      score: Math.round(c.score * 1000) / 1000,
       // readAs: which reading of the typed code the match used (notation, house, colours base first, in words).
       matches: c.matches.map((m) => ({ wire: m.wire, cavity: m.cavity, pinColour: m.pinColour, quality: m.quality, readAs: m.readAs })),
     })),

@@ -13,7 +13,10 @@ export async function action({ request, params }: Route.ActionArgs) {
   assertSameOrigin(request);
   const body = await readJson(request, diagnoseBody);
   if (!body.ok) return body.response;
-  const d = await diagnoseFor(params.slug, params.circuit, body.data.switches, body.data.readings, "riding", { engine: body.data.engine, points: body.data.points });
+  const d = await diagnoseFor(params.slug, params.circuit, body.data.switches, body.data.readings, "riding", {
+    engine: body.data.engine,
+    points: body.data.points,
+  });
   if (!d.ok) return apiError(d.error.status, d.error.code, d.error.message, d.error.field);
   return Response.json({
     fault: d.diagnosis.fault,

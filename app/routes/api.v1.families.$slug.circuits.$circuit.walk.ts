@@ -20,8 +20,16 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     notes: w.walk.notes,
     cautions: cautionTexts(cautionsFor("walk", w.state.engine)),
     probePoints: w.walk.probePoints.map((p) => ({
-      step: p.step, connector: p.connector, cavity: p.cavity, colour: p.colour, expect: p.expect, how: p.how,
-      label: p.label, side: p.side, after: p.after, elementsBefore: p.elementsBefore,
+      step: p.step,
+      connector: p.connector,
+      cavity: p.cavity,
+      colour: p.colour,
+      expect: p.expect,
+      how: p.how,
+      label: p.label,
+      side: p.side,
+      after: p.after,
+      elementsBefore: p.elementsBefore,
     })),
     segments: w.walk.segments.map((s) => ({ from: s.from, to: s.to, contacts: s.contacts, loaded: s.loaded, allowedV: s.allowedV, elements: s.elements })),
   });

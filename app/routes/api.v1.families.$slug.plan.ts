@@ -9,7 +9,11 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const { query, errors } = parsePlanQuery(url);
   const firstError = Object.entries(errors)[0];
   if (firstError) return apiError(400, "bad_request", firstError[1], firstError[0]);
-  const keep = url.searchParams.getAll("keep").flatMap((k) => k.split(",")).map((k) => k.trim()).filter(Boolean);
+  const keep = url.searchParams
+    .getAll("keep")
+    .flatMap((k) => k.split(","))
+    .map((k) => k.trim())
+    .filter(Boolean);
   const planned = await planFor({ ...query, family: params.slug, keep: url.searchParams.has("keep") ? keep : null });
   if (!planned) return apiError(404, "not_found", `There is no family "${params.slug}" in the library.`);
   if (planned.yearError) return apiError(400, "bad_request", planned.yearError, "year");
@@ -21,9 +25,26 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     keep: planned.keep,
     scheme: query.scheme,
     wires: p.rows.map((r) => ({
-      id: r.wire, from: r.from, to: r.to, colour: r.colour, colours: r.colours, net: r.net, role: r.role, currentA: round(r.currentA), continuousA: round(r.continuousA),
-      peakA: round(r.peakA), momentary: r.momentary, lengthM: r.lengthM, lengthSource: r.lengthSource, sizeMm2: r.sizeMm2, awg: r.awg, dropV: round(r.dropV, 3),
-      decidedBy: r.decidedBy, fittings: r.fittings, circuits: r.circuits, notes: r.notes,
+      id: r.wire,
+      from: r.from,
+      to: r.to,
+      colour: r.colour,
+      colours: r.colours,
+      net: r.net,
+      role: r.role,
+      currentA: round(r.currentA),
+      continuousA: round(r.continuousA),
+      peakA: round(r.peakA),
+      momentary: r.momentary,
+      lengthM: r.lengthM,
+      lengthSource: r.lengthSource,
+      sizeMm2: r.sizeMm2,
+      awg: r.awg,
+      dropV: round(r.dropV, 3),
+      decidedBy: r.decidedBy,
+      fittings: r.fittings,
+      circuits: r.circuits,
+      notes: r.notes,
     })),
     fuses: p.fuses.map((f) => ({ ...f, continuousA: round(f.continuousA), peakA: round(f.peakA) })),
     circuitDrops: p.circuitDrops,

@@ -11,7 +11,10 @@ export async function loader() {
   const status = Object.values(checks).every((c) => c === "ok") ? "ok" : "degraded";
   // While the search service is away, /api/v1/search answers from the database (its breaker says how it is doing).
   // eventLoop: how long the loop was held since the previous health check (maxMs stays near the 10 ms sampling step).
-  return Response.json({ status, checks, searchBreaker: searchBreaker(), eventLoop: eventLoopReport() }, { status: db ? 200 : 503, headers: { "Cache-Control": "no-store" } });
+  return Response.json(
+    { status, checks, searchBreaker: searchBreaker(), eventLoop: eventLoopReport() },
+    { status: db ? 200 : 503, headers: { "Cache-Control": "no-store" } },
+  );
 }
 
 export const action = () => methodNotAllowed();

@@ -5,7 +5,9 @@ import { listMakes } from "~/services/library.server";
 /** Every make with its colour notation and family count. */
 export async function loader({ request }: Route.LoaderArgs) {
   const makes = await listMakes();
-  return cachedJson(request, { makes: makes.map(({ slug, name, colourSystem, houseStyle, familyCount }) => ({ slug, name, colourSystem, houseStyle, familyCount })) });
+  return cachedJson(request, {
+    makes: makes.map(({ slug, name, colourSystem, houseStyle, familyCount }) => ({ slug, name, colourSystem, houseStyle, familyCount })),
+  });
 }
 
 export const action = () => methodNotAllowed();

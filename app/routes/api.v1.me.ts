@@ -6,7 +6,10 @@ import { optionalUser } from "~/services/guards.server";
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await optionalUser(request);
   if (!user) return apiError(401, "not_signed_in", "Sign in first.", undefined, { "Cache-Control": "no-store" });
-  return Response.json({ user: { id: user.id, displayName: user.displayName, role: user.role, verified: user.verified } }, { headers: { "Cache-Control": "private, no-store" } });
+  return Response.json(
+    { user: { id: user.id, displayName: user.displayName, role: user.role, verified: user.verified } },
+    { headers: { "Cache-Control": "private, no-store" } },
+  );
 }
 
 export const action = () => methodNotAllowed();

@@ -14,7 +14,16 @@ export async function loader({ request }: Route.LoaderArgs) {
   if (!q.success) return validationError(q.error.issues);
   const r = await searchLibrary(q.data);
   return Response.json(
-    { hits: r.hits.map(toApiSearchHit), facets: r.facets, total: r.total, limit: q.data.limit, offset: q.data.offset, source: r.source, reduced: r.source === "database", tookMs: r.tookMs },
+    {
+      hits: r.hits.map(toApiSearchHit),
+      facets: r.facets,
+      total: r.total,
+      limit: q.data.limit,
+      offset: q.data.offset,
+      source: r.source,
+      reduced: r.source === "database",
+      tookMs: r.tookMs,
+    },
     { headers: { "Cache-Control": "no-store" } },
   );
 }

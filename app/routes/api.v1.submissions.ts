@@ -27,7 +27,10 @@ export async function action({ request }: Route.ActionArgs) {
   try {
     const { id, created } = await startSubmission(user, body.data);
     const view = await viewSubmission(user, id);
-    return Response.json({ submission: submissionJson(view!) }, { status: created ? 201 : 200, headers: { ...noStore, Location: `/api/v1/submissions/${id}` } });
+    return Response.json(
+      { submission: submissionJson(view!) },
+      { status: created ? 201 : 200, headers: { ...noStore, Location: `/api/v1/submissions/${id}` } },
+    );
   } catch (e) {
     return submissionApiError(e);
   }

@@ -1,10 +1,12 @@
 import { data, Form, Link } from "react-router";
 import type { Route } from "./+types/connectors.$connector";
+import { CardPhotos } from "~/components/card-photos";
+import { CardSpecs } from "~/components/card-specs";
 import { Cautions, type CautionKind } from "~/components/cautions";
 import { ColourChip } from "~/components/colour-chip";
 import { FaceView } from "~/components/face-view";
 import { faceGeometry } from "~/domain/connector-face";
-import { SPEC_KIND_LABELS, specKindOf, splitSharedConditions } from "~/domain/specs";
+import { splitSharedConditions } from "~/domain/specs";
 import { tooMany } from "~/services/http.server";
 import { answered, fieldErrors, formFields, refusal } from "~/validation/forms";
 import { cardActionForm } from "~/validation/garage";
@@ -76,46 +78,91 @@ export default function ConnectorCardPage({ loaderData, actionData }: Route.Comp
   const { card, view, highlight, notesHtml, rider, published } = loaderData;
   const { shared: sharedConditions, rest: ownConditions } = splitSharedConditions(card.specs.map((s) => s.conditions));
   const geometry = faceGeometry(card.layout, { view });
-  const cautions: CautionKind[] = card.system === "ignition" ? ["ignition", "battery"] : card.system === "starting" || card.system === "charging" ? ["battery", "fuel"] : ["battery"];
+  const cautions: CautionKind[] =
+    card.system === "ignition" ? ["ignition", "battery"] : card.system === "starting" || card.system === "charging" ? ["battery", "fuel"] : ["battery"];
   const here = `/connectors/${card.slug}`;
-  const viewLink = (v: "mating" | "wire") => `${here}${v === "wire" ? "?view=wire" : ""}${highlight ? `${v === "wire" ? "&" : "?"}cavity=${encodeURIComponent(highlight)}` : ""}`;
+  const viewLink = (v: "mating" | "wire") =>
+    `${here}${v === "wire" ? "?view=wire" : ""}${highlight ? `${v === "wire" ? "&" : "?"}cavity=${encodeURIComponent(highlight)}` : ""}`;
   return (
     <article className="card-sheet space-y-5 print:space-y-0">
       <nav aria-label="Breadcrumb" className="no-print text-sm">
-        <Link to="/" className="underline">Library</Link> › <Link to={`/makes/${card.family.make.slug}`} className="underline">{card.family.make.name}</Link> ›{" "}
-        <Link to={`/families/${card.family.slug}`} className="underline">{card.family.name}</Link> › {card.systemName}
+        <Link to="/" className="underline">
+          Library
+        </Link>{" "}
+        ›{" "}
+        <Link to={`/makes/${card.family.make.slug}`} className="underline">
+          {card.family.make.name}
+        </Link>{" "}
+        ›{" "}
+        <Link to={`/families/${card.family.slug}`} className="underline">
+          {card.family.name}
+        </Link>{" "}
+        › {card.systemName}
       </nav>
-      {published ? <p role="status" className="no-print rounded border-l-4 border-ink bg-white px-3 py-2 font-semibold">Published: this is revision {published}. The contributor has been told by e-mail.</p> : null}
+      {published ? (
+        <p role="status" className="no-print rounded border-l-4 border-ink bg-white px-3 py-2 font-semibold">
+          Published: this is revision {published}. The contributor has been told by e-mail.
+        </p>
+      ) : null}
       <header className="card-sheet-head flex flex-wrap items-start justify-between gap-3 print:block">
         <div>
-          <p className="text-sm font-semibold uppercase tracking-wide text-muted">{card.family.make.name} {card.family.name} · {card.family.yearFrom}–{card.family.yearTo} · {card.systemName}</p>
+          <p className="text-sm font-semibold tracking-wide text-muted uppercase">
+            {card.family.make.name} {card.family.name} · {card.family.yearFrom}–{card.family.yearTo} · {card.systemName}
+          </p>
           <h1 className="text-3xl font-bold print:text-xl">{card.name}</h1>
           <p className="mt-1">
             {card.housing} · {card.gender} · {card.location}
-            {card.matesWith ? <> · mates with <Link to={`/connectors/${card.matesWith}`} className="font-semibold text-signal-dark">{card.mateName}</Link></> : null}
+            {card.matesWith ? (
+              <>
+                {" "}
+                · mates with{" "}
+                <Link to={`/connectors/${card.matesWith}`} className="font-semibold text-signal-dark">
+                  {card.mateName}
+                </Link>
+              </>
+            ) : null}
           </p>
         </div>
         <div className="text-sm sm:text-right print:mt-1 print:flex print:gap-3 print:text-[8pt]">
-          <p className="font-semibold" data-testid="revision">Revision {card.revision.number}</p>
+          <p className="font-semibold" data-testid="revision">
+            Revision {card.revision.number}
+          </p>
           <p className="text-muted">published {card.revision.publishedAt.slice(0, 10)}</p>
-          <p className="text-muted" data-testid="bike-checked">{card.bikeChecked} {card.bikeChecked === 1 ? "rider" : "riders"} bike-checked{card.bikeCheckedYears.length ? ` (${card.bikeCheckedYears.join(", ")})` : ""}</p>
+          <p className="text-muted" data-testid="bike-checked">
+            {card.bikeChecked} {card.bikeChecked === 1 ? "rider" : "riders"} bike-checked
+            {card.bikeCheckedYears.length ? ` (${card.bikeCheckedYears.join(", ")})` : ""}
+          </p>
         </div>
       </header>
 
       <div className="card-sheet-body grid gap-5 lg:grid-cols-[minmax(280px,420px)_1fr]">
         <section aria-labelledby="face-heading" className="card-sheet-face print-avoid-break">
-          <h2 id="face-heading" className="sr-only">Face view</h2>
+          <h2 id="face-heading" className="sr-only">
+            Face view
+          </h2>
           <div role="group" aria-label="Which side you are looking at" className="no-print mb-2 inline-flex overflow-hidden rounded border-2 border-ink">
             {(["mating", "wire"] as const).map((v) => (
-              <Link key={v} to={viewLink(v)} aria-current={view === v ? "true" : undefined} preventScrollReset
-                className={`px-3 py-1.5 font-semibold no-underline ${view === v ? "bg-ink text-paper" : "bg-white text-ink hover:bg-paper"}`}>
+              <Link
+                key={v}
+                to={viewLink(v)}
+                aria-current={view === v ? "true" : undefined}
+                preventScrollReset
+                className={`px-3 py-1.5 font-semibold no-underline ${view === v ? "bg-ink text-paper" : "bg-white text-ink hover:bg-paper"}`}
+              >
                 {v === "mating" ? "Mating face" : "Wire side"}
               </Link>
             ))}
           </div>
           <div className="rounded-md border border-rule bg-white p-2 print:p-1">
-            <FaceView geometry={geometry} paint={card.paint.map((p) => ({ ...p, href: `${viewLink(view).split("?")[0]}?${view === "wire" ? "view=wire&" : ""}cavity=${encodeURIComponent(p.cavity)}#pin-${p.cavity}` }))}
-              highlight={highlight} caption={`${view === "mating" ? "Mating face" : "Wire side"} of ${card.name}`} />
+            <FaceView
+              geometry={geometry}
+              paint={card.paint.map((p) => ({
+                ...p,
+                href: `${viewLink(view).split("?")[0]}?${view === "wire" ? "view=wire&" : ""}cavity=${encodeURIComponent(p.cavity)}#pin-${p.cavity}`,
+              }))}
+              highlight={highlight}
+              caption={`${view === "mating" ? "Mating face" : "Wire side"} of ${card.name}`}
+            />
           </div>
           <p className="card-sheet-caption mt-2 text-sm print:mt-0 print:text-[8pt] print:leading-tight" data-testid="view-caption">
             {view === "mating"
@@ -126,21 +173,46 @@ export default function ConnectorCardPage({ loaderData, actionData }: Route.Comp
         </section>
 
         <section aria-labelledby="pins-heading" className="min-w-0">
-          <h2 id="pins-heading" className="text-xl font-bold print:text-base">Pin map</h2>
+          <h2 id="pins-heading" className="text-xl font-bold print:text-base">
+            Pin map
+          </h2>
           <ol className="mt-2 space-y-2 md:hidden print:hidden" aria-label="Pin map, one cavity at a time">
             {card.pins.map((p, i) => (
-              <li key={p.cavity} aria-current={highlight === p.cavity ? "true" : undefined}
-                className={`rounded-md border bg-white p-3 ${highlight === p.cavity ? "border-caution-edge bg-caution" : "border-rule"}`}>
+              <li
+                key={p.cavity}
+                aria-current={highlight === p.cavity ? "true" : undefined}
+                className={`rounded-md border bg-white p-3 ${highlight === p.cavity ? "border-caution-edge bg-caution" : "border-rule"}`}
+              >
                 <p className="flex flex-wrap items-baseline gap-x-3">
-                  <span className="text-lg font-bold">Cavity {p.cavity}{p.cavity === card.layout.pin1 ? " ▼" : ""}</span>
+                  <span className="text-lg font-bold">
+                    Cavity {p.cavity}
+                    {p.cavity === card.layout.pin1 ? " ▼" : ""}
+                  </span>
                   <code className="text-lg font-semibold">{p.colour.code ?? "—"}</code>
                   <ColourChip baseHex={card.paint[i]?.baseHex ?? null} tracerHexes={card.paint[i]?.tracerHexes ?? []} words={p.colour.description} />
                 </p>
-                <p className="mt-1 text-sm">{p.circuit}{p.terminal ? ` · terminal ${p.terminal}` : ""}{p.colour.iec ? ` · IEC ${p.colour.iec}` : ""}</p>
+                <p className="mt-1 text-sm">
+                  {p.circuit}
+                  {p.terminal ? ` · terminal ${p.terminal}` : ""}
+                  {p.colour.iec ? ` · IEC ${p.colour.iec}` : ""}
+                </p>
                 {p.destinations.length > 0 ? (
-                  <p className="mt-1 text-sm">Goes to:{" "}
+                  <p className="mt-1 text-sm">
+                    Goes to:{" "}
                     {p.destinations.map((d, j) => (
-                      <span key={j}>{j > 0 ? "; " : ""}{d.connector ? <Link to={`/connectors/${d.connector}?cavity=${encodeURIComponent(d.cavity!)}#pin-${d.cavity}`} className="text-signal-dark underline">{d.label}</Link> : d.label}</span>
+                      <span key={j}>
+                        {j > 0 ? "; " : ""}
+                        {d.connector ? (
+                          <Link
+                            to={`/connectors/${d.connector}?cavity=${encodeURIComponent(d.cavity!)}#pin-${d.cavity}`}
+                            className="text-signal-dark underline"
+                          >
+                            {d.label}
+                          </Link>
+                        ) : (
+                          d.label
+                        )}
+                      </span>
                     ))}
                   </p>
                 ) : null}
@@ -151,30 +223,72 @@ export default function ConnectorCardPage({ loaderData, actionData }: Route.Comp
             <table className="mt-2 w-full border-collapse bg-white text-left text-[0.95rem] print:mt-1 print:text-[7.5pt] print:leading-tight">
               <thead className="border-b-2 border-ink">
                 <tr>
-                  <th scope="col" className="p-1.5 print:px-1 print:py-0.5">Cavity</th>
-                  <th scope="col" className="p-1.5 print:px-1 print:py-0.5">Code as written</th>
-                  <th scope="col" className="p-1.5 print:px-1 print:py-0.5">Colour</th>
-                  <th scope="col" className="p-1.5 print:px-1 print:py-0.5">IEC 60757</th>
-                  <th scope="col" className="p-1.5 print:px-1 print:py-0.5">Circuit</th>
-                  <th scope="col" className="p-1.5 print:px-1 print:py-0.5" title="DIN 72552 terminal designation">Terminal</th>
-                  <th scope="col" className="p-1.5 print:px-1 print:py-0.5">Goes to</th>
+                  <th scope="col" className="p-1.5 print:px-1 print:py-0.5">
+                    Cavity
+                  </th>
+                  <th scope="col" className="p-1.5 print:px-1 print:py-0.5">
+                    Code as written
+                  </th>
+                  <th scope="col" className="p-1.5 print:px-1 print:py-0.5">
+                    Colour
+                  </th>
+                  <th scope="col" className="p-1.5 print:px-1 print:py-0.5">
+                    IEC 60757
+                  </th>
+                  <th scope="col" className="p-1.5 print:px-1 print:py-0.5">
+                    Circuit
+                  </th>
+                  <th scope="col" className="p-1.5 print:px-1 print:py-0.5" title="DIN 72552 terminal designation">
+                    Terminal
+                  </th>
+                  <th scope="col" className="p-1.5 print:px-1 print:py-0.5">
+                    Goes to
+                  </th>
                 </tr>
               </thead>
               <tbody>
                 {card.pins.map((p, i) => (
-                  <tr key={p.cavity} id={`pin-${p.cavity}`} data-cavity={p.cavity} aria-current={highlight === p.cavity ? "true" : undefined}
-                    className={`border-b border-rule align-top ${highlight === p.cavity ? "bg-caution outline-2 outline-caution-edge" : ""}`}>
-                    <th scope="row" className="p-1.5 print:px-1 print:py-0.5 font-bold">{p.cavity}{p.cavity === card.layout.pin1 ? " ▼" : ""}</th>
-                    <td className="p-1.5 print:px-1 print:py-0.5"><code className="font-semibold">{p.colour.code ?? "—"}</code></td>
-                    <td className="p-1.5 print:px-1 print:py-0.5"><ColourChip baseHex={card.paint[i]?.baseHex ?? null} tracerHexes={card.paint[i]?.tracerHexes ?? []} words={p.colour.description} /></td>
-                    <td className="p-1.5 print:px-1 print:py-0.5"><code>{p.colour.iec ?? "—"}</code></td>
+                  <tr
+                    key={p.cavity}
+                    id={`pin-${p.cavity}`}
+                    data-cavity={p.cavity}
+                    aria-current={highlight === p.cavity ? "true" : undefined}
+                    className={`border-b border-rule align-top ${highlight === p.cavity ? "bg-caution outline-2 outline-caution-edge" : ""}`}
+                  >
+                    <th scope="row" className="p-1.5 font-bold print:px-1 print:py-0.5">
+                      {p.cavity}
+                      {p.cavity === card.layout.pin1 ? " ▼" : ""}
+                    </th>
+                    <td className="p-1.5 print:px-1 print:py-0.5">
+                      <code className="font-semibold">{p.colour.code ?? "—"}</code>
+                    </td>
+                    <td className="p-1.5 print:px-1 print:py-0.5">
+                      <ColourChip baseHex={card.paint[i]?.baseHex ?? null} tracerHexes={card.paint[i]?.tracerHexes ?? []} words={p.colour.description} />
+                    </td>
+                    <td className="p-1.5 print:px-1 print:py-0.5">
+                      <code>{p.colour.iec ?? "—"}</code>
+                    </td>
                     <td className="p-1.5 print:px-1 print:py-0.5">{p.circuit}</td>
                     <td className="p-1.5 print:px-1 print:py-0.5">{p.terminal ?? "—"}</td>
                     <td className="p-1.5 print:px-1 print:py-0.5">
-                      {p.destinations.length === 0 ? "—" : (
+                      {p.destinations.length === 0 ? (
+                        "—"
+                      ) : (
                         <ul className="print:inline">
                           {p.destinations.map((d, j) => (
-                            <li key={j} className="print:inline">{j > 0 ? <span className="hidden print:inline">; </span> : null}{d.connector ? <Link to={`/connectors/${d.connector}?cavity=${encodeURIComponent(d.cavity!)}#pin-${d.cavity}`} className="text-signal-dark underline">{d.label}</Link> : d.label}</li>
+                            <li key={j} className="print:inline">
+                              {j > 0 ? <span className="hidden print:inline">; </span> : null}
+                              {d.connector ? (
+                                <Link
+                                  to={`/connectors/${d.connector}?cavity=${encodeURIComponent(d.cavity!)}#pin-${d.cavity}`}
+                                  className="text-signal-dark underline"
+                                >
+                                  {d.label}
+                                </Link>
+                              ) : (
+                                d.label
+                              )}
+                            </li>
                           ))}
                         </ul>
                       )}
@@ -184,66 +298,25 @@ export default function ConnectorCardPage({ loaderData, actionData }: Route.Comp
               </tbody>
             </table>
           </div>
-          <p className="mt-1 text-xs text-muted">Codes in {card.colourSystem.toUpperCase()} notation, base colour first. The IEC 60757 column lists the colours in the standard&apos;s table order, not base first.</p>
+          <p className="mt-1 text-xs text-muted">
+            Codes in {card.colourSystem.toUpperCase()} notation, base colour first. The IEC 60757 column lists the colours in the standard&apos;s table order,
+            not base first.
+          </p>
         </section>
       </div>
 
-      {card.specs.length > 0 ? (
-        <section aria-labelledby="specs-heading" className="print-avoid-break">
-          <h2 id="specs-heading" className="text-xl font-bold print:text-base">What it should read</h2>
-          {/* On paper, conditions every reading shares are printed once above the table rather than on every row. */}
-          {sharedConditions ? <p className="hidden print:mt-0.5 print:block print:text-[7.5pt] print:leading-tight" data-shared-conditions><span className="font-semibold">Measure every reading with:</span> {sharedConditions}; then as each row says.</p> : null}
-          <table className="mt-2 w-full max-w-4xl border-collapse bg-white text-left text-[0.95rem] print:mt-1 print:max-w-none print:text-[7.5pt] print:leading-tight">
-            <thead className="border-b-2 border-ink"><tr><th className="p-1.5 print:px-1 print:py-0.5">Measurement</th><th className="p-1.5 print:px-1 print:py-0.5">Between cavities</th><th className="p-1.5 print:px-1 print:py-0.5">Range</th><th className="p-1.5 print:px-1 print:py-0.5">At</th><th className="hidden p-1.5 sm:table-cell print:table-cell print:px-1 print:py-0.5">Source</th></tr></thead>
-            <tbody>
-              {card.specs.map((s, i) => {
-                const kind = specKindOf(s.kind);
-                return (
-                  <tr key={i} className="border-b border-rule align-top" data-spec={s.name}>
-                    <td className="p-1.5 print:px-1 print:py-0.5">
-                      {s.name}
-                      {kind !== "resistance" ? <span className="ml-1 text-sm text-muted print:text-[7.5pt]" data-kind={kind}>({SPEC_KIND_LABELS[kind]})</span> : null}
-                      {/* Beside the value, so the reading can be repeated: without its conditions a value may not be measurable at all. */}
-                      {s.conditions?.trim() ? <span className={`mt-0.5 block text-sm print:mt-0 print:text-[7.5pt] print:leading-tight ${sharedConditions ? "print:hidden" : ""}`} data-conditions><span className="font-semibold">measure:</span> {s.conditions}</span> : null}
-                      {sharedConditions ? <span className="hidden print:block print:text-[7.5pt] print:leading-tight">{ownConditions[i]}</span> : null}
-                      <span className="mt-0.5 block text-xs text-muted sm:hidden print:hidden">{s.source}</span>
-                    </td>
-                    <td className="p-1.5 print:px-1 print:py-0.5">{s.between[0]} – {s.between[1]}</td>
-                    <td className="p-1.5 print:px-1 print:py-0.5" data-range>
-                      {s.max === null ? <><span className="whitespace-nowrap">≥ {s.min} {s.unit}</span> <span className="block text-sm print:text-[7.5pt]">open (no upper limit)</span></> : <span className="whitespace-nowrap">{s.min}–{s.max} {s.unit}</span>}
-                    </td>
-                    <td className="p-1.5 print:px-1 print:py-0.5 whitespace-nowrap">{s.atC} °C</td><td className="hidden p-1.5 text-sm text-muted sm:table-cell print:table-cell print:w-[38%] print:px-1 print:py-0.5 print:text-[6.5pt] print:leading-tight">{s.source}</td>
-                  </tr>
-                );
-              })}
-            </tbody>
-          </table>
-          <p className="mt-1 text-sm text-muted print:text-[8pt]">Measure each value under the conditions given with it; a resistance with the ignition off and the connector unplugged. A copper winding reads about 0.4 % higher per °C above 20 °C; the bench sheet corrects for it.</p>
-        </section>
-      ) : null}
+      {card.specs.length > 0 ? <CardSpecs specs={card.specs} sharedConditions={sharedConditions} ownConditions={ownConditions} /> : null}
 
       {notesHtml ? (
         <section aria-labelledby="notes-heading" className="print-avoid-break">
-          <h2 id="notes-heading" className="text-xl font-bold print:text-base">Notes</h2>
+          <h2 id="notes-heading" className="text-xl font-bold print:text-base">
+            Notes
+          </h2>
           <div className="prose max-w-3xl print:text-[8pt] print:leading-snug" dangerouslySetInnerHTML={{ __html: notesHtml }} />
         </section>
       ) : null}
 
-      {card.photos.length ? (
-        <section aria-labelledby="photos-heading" className="print-avoid-break">
-          <h2 id="photos-heading" className="text-xl font-bold print:text-base">Photos</h2>
-          <ul className="mt-2 grid grid-cols-2 gap-3 sm:grid-cols-3 lg:grid-cols-4 print:grid-cols-4 print:gap-1" data-testid="card-photos">
-            {card.photos.map((p, i) => (
-              <li key={p.url}>
-                <figure>
-                  <a href={p.url}><img src={p.thumbUrl} width={p.thumbWidth} height={p.thumbHeight} alt={p.caption || `Photo ${i + 1} of ${card.name}`} loading="lazy" className="h-auto w-full rounded border border-rule bg-white" /></a>
-                  <figcaption className="mt-1 text-sm print:text-[7pt]">{p.caption}{p.credit ? <span className="block text-muted">Photo: {p.credit} · {p.licence}</span> : null}</figcaption>
-                </figure>
-              </li>
-            ))}
-          </ul>
-        </section>
-      ) : null}
+      {card.photos.length ? <CardPhotos photos={card.photos} cardName={card.name} /> : null}
 
       <Cautions kinds={cautions} className="print:py-1 print:text-[7.5pt] print:leading-snug" />
 
@@ -251,49 +324,100 @@ export default function ConnectorCardPage({ loaderData, actionData }: Route.Comp
         <details className="no-print rounded-md border border-rule bg-white p-3" data-testid="revisions">
           <summary className="cursor-pointer font-semibold">Revision history ({card.revisions.length})</summary>
           <ol className="mt-2 space-y-1 text-sm">
-            {card.revisions.map((r) => <li key={r.number}><span className="font-semibold">Revision {r.number}</span> · {r.publishedAt.slice(0, 10)} · {r.summary}</li>)}
+            {card.revisions.map((r) => (
+              <li key={r.number}>
+                <span className="font-semibold">Revision {r.number}</span> · {r.publishedAt.slice(0, 10)} · {r.summary}
+              </li>
+            ))}
           </ol>
         </details>
       ) : null}
 
       <section aria-labelledby="yours" className="no-print rounded-md border border-rule bg-white p-4">
-        <h2 id="yours" className="text-lg font-bold">On your bike</h2>
-        {actionData?.done ? <p role="status" className="mt-1 font-semibold">{actionData.done}</p> : null}
-        {actionData?.errors.form ? <p role="alert" className="mt-1 font-semibold text-signal-dark">{actionData.errors.form}</p> : null}
+        <h2 id="yours" className="text-lg font-bold">
+          On your bike
+        </h2>
+        {actionData?.done ? (
+          <p role="status" className="mt-1 font-semibold">
+            {actionData.done}
+          </p>
+        ) : null}
+        {actionData?.errors.form ? (
+          <p role="alert" className="mt-1 font-semibold text-signal-dark">
+            {actionData.errors.form}
+          </p>
+        ) : null}
         {rider ? (
           <div className="mt-2 flex flex-wrap items-start gap-4">
             {can(rider.role, "garage.save") ? (
-              <Form method="post">{rider.saved ? <span className="text-sm">★ In your garage</span> : <button name="intent" value="save" className="rounded border-2 border-ink px-3 py-1.5 font-semibold">Save to my garage</button>}</Form>
+              <Form method="post">
+                {rider.saved ? (
+                  <span className="text-sm">★ In your garage</span>
+                ) : (
+                  <button name="intent" value="save" className="rounded border-2 border-ink px-3 py-1.5 font-semibold">
+                    Save to my garage
+                  </button>
+                )}
+              </Form>
             ) : null}
             {can(rider.role, "card.check") ? (
               <Form method="post" className="flex items-end gap-2">
-                <label className="text-sm font-semibold">Model year
-                  <input name="year" inputMode="numeric" defaultValue={rider.checkedYear ? String(rider.checkedYear) : ""} className="mt-1 block w-20 rounded border-2 border-ink px-2 py-1 font-normal" />
+                <label className="text-sm font-semibold">
+                  Model year
+                  <input
+                    name="year"
+                    inputMode="numeric"
+                    defaultValue={rider.checkedYear ? String(rider.checkedYear) : ""}
+                    className="mt-1 block w-20 rounded border-2 border-ink px-2 py-1 font-normal"
+                  />
                 </label>
-                <button name="intent" value="check" className="rounded border-2 border-ink px-3 py-1.5 font-semibold">{rider.checkedYear !== null ? "Update: matches my bike" : "It matches my bike"}</button>
+                <button name="intent" value="check" className="rounded border-2 border-ink px-3 py-1.5 font-semibold">
+                  {rider.checkedYear !== null ? "Update: matches my bike" : "It matches my bike"}
+                </button>
               </Form>
             ) : null}
             {can(rider.role, "card.report") ? (
               <details className="w-full">
                 <summary className="cursor-pointer font-semibold underline">Report a mistake</summary>
                 <Form method="post" className="mt-2 space-y-2">
-                  <label className="block text-sm font-semibold" htmlFor="report-text">What is wrong (cavity, colour, what you found on your bike)</label>
+                  <label className="block text-sm font-semibold" htmlFor="report-text">
+                    What is wrong (cavity, colour, what you found on your bike)
+                  </label>
                   <textarea id="report-text" name="text" rows={3} maxLength={2000} className="block w-full max-w-xl rounded border-2 border-ink px-2 py-1" />
-                  <button name="intent" value="report" className="rounded bg-ink px-3 py-1.5 font-semibold text-paper">Send report</button>
+                  <button name="intent" value="report" className="rounded bg-ink px-3 py-1.5 font-semibold text-paper">
+                    Send report
+                  </button>
                 </Form>
               </details>
             ) : null}
           </div>
         ) : (
-          <p className="mt-1 text-sm"><Link to={`/login?next=${encodeURIComponent(`/connectors/${card.slug}`)}`} className="font-semibold underline">Sign in</Link> to save this card, confirm it matches your bike, or report a mistake.</p>
+          <p className="mt-1 text-sm">
+            <Link to={`/login?next=${encodeURIComponent(`/connectors/${card.slug}`)}`} className="font-semibold underline">
+              Sign in
+            </Link>{" "}
+            to save this card, confirm it matches your bike, or report a mistake.
+          </p>
         )}
       </section>
 
       <footer className="no-print flex flex-wrap gap-3 text-sm">
-        <a href={`/api/v1/connectors/${card.slug}?format=csv`} className="rounded border border-ink bg-white px-3 py-1.5 font-semibold no-underline">Download CSV</a>
-        <a href={`/api/v1/connectors/${card.slug}`} className="rounded border border-ink bg-white px-3 py-1.5 font-semibold no-underline">JSON</a>
-        {card.specs.length > 0 ? <Link to={`/bench?connector=${card.slug}`} className="rounded border border-ink bg-white px-3 py-1.5 font-semibold no-underline">Bench sheet from these specs</Link> : null}
-        {rider && can(rider.role, "submission.create") ? <Link to={`/contribute?card=${card.slug}`} className="rounded border border-ink bg-white px-3 py-1.5 font-semibold no-underline">Propose a correction</Link> : null}
+        <a href={`/api/v1/connectors/${card.slug}?format=csv`} className="rounded border border-ink bg-white px-3 py-1.5 font-semibold no-underline">
+          Download CSV
+        </a>
+        <a href={`/api/v1/connectors/${card.slug}`} className="rounded border border-ink bg-white px-3 py-1.5 font-semibold no-underline">
+          JSON
+        </a>
+        {card.specs.length > 0 ? (
+          <Link to={`/bench?connector=${card.slug}`} className="rounded border border-ink bg-white px-3 py-1.5 font-semibold no-underline">
+            Bench sheet from these specs
+          </Link>
+        ) : null}
+        {rider && can(rider.role, "submission.create") ? (
+          <Link to={`/contribute?card=${card.slug}`} className="rounded border border-ink bg-white px-3 py-1.5 font-semibold no-underline">
+            Propose a correction
+          </Link>
+        ) : null}
         <PrintButton />
       </footer>
     </article>

@@ -26,8 +26,16 @@ export default function JoinPage({ actionData }: Route.ComponentProps) {
     return (
       <section className="max-w-xl space-y-3">
         <h1 className="text-3xl font-bold">Check your inbox</h1>
-        <p>We&apos;ve sent a message to <strong>{actionData.sent}</strong>. Follow its link to confirm the address; then you can sign in and contribute cards.</p>
-        <p className="text-sm text-muted">Nothing after a few minutes? Look in the spam folder, or <Link to="/join" className="underline">try again</Link>.</p>
+        <p>
+          We&apos;ve sent a message to <strong>{actionData.sent}</strong>. Follow its link to confirm the address; then you can sign in and contribute cards.
+        </p>
+        <p className="text-sm text-muted">
+          Nothing after a few minutes? Look in the spam folder, or{" "}
+          <Link to="/join" className="underline">
+            try again
+          </Link>
+          .
+        </p>
       </section>
     );
   }
@@ -36,16 +44,42 @@ export default function JoinPage({ actionData }: Route.ComponentProps) {
   return (
     <section className="max-w-xl space-y-4">
       <h1 className="text-3xl font-bold">Join Loomlore</h1>
-      <p className="text-muted">Anyone can read the library. An account lets you keep cards and bikes in your garage, confirm a card matches your bike, report mistakes and — once your address is confirmed — contribute cards.</p>
+      <p className="text-muted">
+        Anyone can read the library. An account lets you keep cards and bikes in your garage, confirm a card matches your bike, report mistakes and — once your
+        address is confirmed — contribute cards.
+      </p>
       <Form method="post" className="space-y-4" noValidate>
         <FormMessage error={errors.form} />
-        <Field name="displayName" label="Your name (shown with your contributions)" value={values.displayName} error={errors.displayName} autoComplete="nickname" required />
+        <Field
+          name="displayName"
+          label="Your name (shown with your contributions)"
+          value={values.displayName}
+          error={errors.displayName}
+          autoComplete="nickname"
+          required
+        />
         <Field name="email" label="E-mail address" type="email" value={values.email} error={errors.email} autoComplete="email" required />
-        <Field name="password" label="Password" type="password" error={errors.password} autoComplete="new-password" required minLength={MIN_PASSWORD_CHARS}
-          hint={`At least ${MIN_PASSWORD_CHARS} characters; a few unrelated words work well.`} />
-        <button type="submit" className="rounded bg-signal px-5 py-2 font-semibold text-white hover:bg-signal-dark">Join</button>
+        <Field
+          name="password"
+          label="Password"
+          type="password"
+          error={errors.password}
+          autoComplete="new-password"
+          required
+          minLength={MIN_PASSWORD_CHARS}
+          hint={`At least ${MIN_PASSWORD_CHARS} characters; a few unrelated words work well.`}
+        />
+        <button type="submit" className="rounded bg-signal px-5 py-2 font-semibold text-white hover:bg-signal-dark">
+          Join
+        </button>
       </Form>
-      <p className="text-sm">Already have an account? <Link to="/login" className="font-semibold underline">Sign in</Link>.</p>
+      <p className="text-sm">
+        Already have an account?{" "}
+        <Link to="/login" className="font-semibold underline">
+          Sign in
+        </Link>
+        .
+      </p>
     </section>
   );
 }

@@ -48,9 +48,20 @@ export default function LoginPage({ loaderData, actionData }: Route.ComponentPro
         <FormMessage error={errors.form} notice={notice ? NOTICES[notice] : undefined} />
         <Field name="email" label="E-mail address" type="email" value={values.email} error={errors.email} autoComplete="email" required />
         <Field name="password" label="Password" type="password" error={errors.password} autoComplete="current-password" required />
-        <button type="submit" className="rounded bg-signal px-5 py-2 font-semibold text-white hover:bg-signal-dark">Sign in</button>
+        <button type="submit" className="rounded bg-signal px-5 py-2 font-semibold text-white hover:bg-signal-dark">
+          Sign in
+        </button>
       </Form>
-      <p className="text-sm"><Link to="/forgot" className="underline">Forgot your password?</Link> · New here? <Link to="/join" className="font-semibold underline">Join</Link>.</p>
+      <p className="text-sm">
+        <Link to="/forgot" className="underline">
+          Forgot your password?
+        </Link>{" "}
+        · New here?{" "}
+        <Link to="/join" className="font-semibold underline">
+          Join
+        </Link>
+        .
+      </p>
     </section>
   );
 }

@@ -15,16 +15,21 @@ const SAFE = {
   "Cross-Origin-Resource-Policy": "same-origin",
 } as const;
 
-const notFound = () => new Response("There is no such photo.", {
-  status: 404, headers: { "Content-Type": "text/plain; charset=utf-8", "X-Content-Type-Options": "nosniff", "Cache-Control": "private, no-store" },
-});
+const notFound = () =>
+  new Response("There is no such photo.", {
+    status: 404,
+    headers: { "Content-Type": "text/plain; charset=utf-8", "X-Content-Type-Options": "nosniff", "Cache-Control": "private, no-store" },
+  });
 
 /** GET /photos/<uuid>.webp or <uuid>.thumb.webp: a published photo to anyone, a draft's only to its owner and moderators (else 404). */
 export async function loader({ request, params }: Route.LoaderArgs) {
   const viewer = await optionalUser(request);
   const found = await photoForViewer(params.file, viewer);
   if (!found) return notFound();
-  const size = await stat(found.path).then((s) => s.size, () => null);
+  const size = await stat(found.path).then(
+    (s) => s.size,
+    () => null,
+  );
   if (size === null) return notFound();
   const body = Readable.toWeb(createReadStream(found.path)) as ReadableStream<Uint8Array>;
   return new Response(request.method === "HEAD" ? null : body, {

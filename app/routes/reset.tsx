@@ -19,7 +19,10 @@ export async function action({ request, context }: Route.ActionArgs) {
   if (!parsed.success) return data({ errors: fieldErrors(parsed.error.issues) }, { status: 400 });
   const r = await resetPassword(parsed.data.token, parsed.data.password, context?.ip ?? "unknown");
   if (!r.ok) {
-    return data({ errors: { [r.field ?? "form"]: r.error } as Record<string, string> }, { status: r.status ?? 400, headers: r.retryAfterS ? { "Retry-After": String(r.retryAfterS) } : undefined });
+    return data(
+      { errors: { [r.field ?? "form"]: r.error } as Record<string, string> },
+      { status: r.status ?? 400, headers: r.retryAfterS ? { "Retry-After": String(r.retryAfterS) } : undefined },
+    );
   }
   throw redirect("/login?notice=reset");
 }
@@ -32,9 +35,19 @@ export default function ResetPage({ loaderData, actionData }: Route.ComponentPro
       <Form method="post" className="space-y-4" noValidate>
         <FormMessage error={errors.form ?? errors.token} />
         <input type="hidden" name="token" value={loaderData.token} />
-        <Field name="password" label="New password" type="password" error={errors.password} autoComplete="new-password" required minLength={MIN_PASSWORD_CHARS}
-          hint={`At least ${MIN_PASSWORD_CHARS} characters. Every device signed in to this account will be signed out.`} />
-        <button type="submit" className="rounded bg-signal px-5 py-2 font-semibold text-white hover:bg-signal-dark">Set password</button>
+        <Field
+          name="password"
+          label="New password"
+          type="password"
+          error={errors.password}
+          autoComplete="new-password"
+          required
+          minLength={MIN_PASSWORD_CHARS}
+          hint={`At least ${MIN_PASSWORD_CHARS} characters. Every device signed in to this account will be signed out.`}
+        />
+        <button type="submit" className="rounded bg-signal px-5 py-2 font-semibold text-white hover:bg-signal-dark">
+          Set password
+        </button>
       </Form>
     </section>
   );

@@ -9,7 +9,10 @@ export const meta: Route.MetaFunction = ({ loaderData }) => {
   const q = loaderData?.query.q ?? "";
   return [
     { title: q ? `“${q}” · Search · Loomlore` : "Search the library · Loomlore" },
-    { name: "description", content: "Search the library's families, connector cards and pins by family name, circuit, colour code in any notation or terminal number." },
+    {
+      name: "description",
+      content: "Search the library's families, connector cards and pins by family name, circuit, colour code in any notation or terminal number.",
+    },
   ];
 };
 
@@ -30,7 +33,10 @@ export async function loader({ request }: Route.LoaderArgs) {
   const parsed = searchQuery.safeParse(searchParams(request));
   if (!parsed.success) {
     const field = String(parsed.error.issues[0]?.path[0] ?? "");
-    throw data(`This search cannot be run: ${BAD_PARAM[field] ?? parsed.error.issues[0]?.message ?? "the address is not a search"}. Change the address, or start again from the search box.`, { status: 400 });
+    throw data(
+      `This search cannot be run: ${BAD_PARAM[field] ?? parsed.error.issues[0]?.message ?? "the address is not a search"}. Change the address, or start again from the search box.`,
+      { status: 400 },
+    );
   }
   const query = parsed.data;
   const [makes, { families }] = await Promise.all([listMakes(), listFamilies({ limit: 1000, offset: 0 })]);
@@ -53,11 +59,16 @@ export default function SearchPage({ loaderData }: Route.ComponentProps) {
   const filters = activeFilters(state);
   const filterLabel = (key: FilterKey, value: string): string => {
     switch (key) {
-      case "type": return TYPE_LABEL(value);
-      case "make": return names.make[value] ?? value;
-      case "family": return names.family[value] ?? value;
-      case "system": return SYSTEM_LABEL(value);
-      case "pins": return `${value} cavities`;
+      case "type":
+        return TYPE_LABEL(value);
+      case "make":
+        return names.make[value] ?? value;
+      case "family":
+        return names.family[value] ?? value;
+      case "system":
+        return SYSTEM_LABEL(value);
+      case "pins":
+        return `${value} cavities`;
     }
   };
   const FILTER_NAME: Record<FilterKey, string> = { type: "Type", make: "Make", family: "Family", system: "System", pins: "Cavities" };
@@ -67,15 +78,31 @@ export default function SearchPage({ loaderData }: Route.ComponentProps) {
       <header>
         <h1 className="text-3xl font-bold">Search the library</h1>
         <p className="mt-1 max-w-3xl text-muted">
-          Type what you have in front of you: a family name, a circuit or part (“pickup”, “kill switch”), a colour code in any notation (<code>W/R</code>, <code>ws/rt</code>) or a terminal number (<code>31d</code>).
+          Type what you have in front of you: a family name, a circuit or part (“pickup”, “kill switch”), a colour code in any notation (<code>W/R</code>,{" "}
+          <code>ws/rt</code>) or a terminal number (<code>31d</code>).
         </p>
         <Form method="get" action="/search" role="search" aria-label="Search" className="mt-3 flex max-w-2xl flex-wrap items-end gap-2">
-          <label className="flex min-w-0 flex-1 basis-48 flex-col text-sm font-semibold">Words
-            <input key={query.q} name="q" type="search" defaultValue={query.q} maxLength={200} autoComplete="off" spellCheck={false} enterKeyHint="search"
-              className="mt-1 w-full rounded border-2 border-ink bg-white px-3 py-2 text-base font-normal" placeholder="e.g. pickup, W/R, 31d" />
+          <label className="flex min-w-0 flex-1 basis-48 flex-col text-sm font-semibold">
+            Words
+            <input
+              key={query.q}
+              name="q"
+              type="search"
+              defaultValue={query.q}
+              maxLength={200}
+              autoComplete="off"
+              spellCheck={false}
+              enterKeyHint="search"
+              className="mt-1 w-full rounded border-2 border-ink bg-white px-3 py-2 text-base font-normal"
+              placeholder="e.g. pickup, W/R, 31d"
+            />
           </label>
-          {filters.map((f) => <input key={f.key} type="hidden" name={f.key} value={f.value} />)}
-          <button type="submit" className="rounded bg-signal px-4 py-2 text-base font-semibold text-white hover:bg-signal-dark">Search</button>
+          {filters.map((f) => (
+            <input key={f.key} type="hidden" name={f.key} value={f.value} />
+          ))}
+          <button type="submit" className="rounded bg-signal px-4 py-2 text-base font-semibold text-white hover:bg-signal-dark">
+            Search
+          </button>
         </Form>
       </header>
 
@@ -85,23 +112,40 @@ export default function SearchPage({ loaderData }: Route.ComponentProps) {
           <ul aria-label="Active filters" className="flex flex-wrap gap-2">
             {filters.map((f) => (
               <li key={f.key} className="flex items-center gap-2 rounded-full border-2 border-ink bg-white py-0.5 pr-1 pl-3" data-filter={f.key}>
-                <span>{FILTER_NAME[f.key]}: <strong>{filterLabel(f.key, f.value)}</strong></span>
-                <Link to={searchHref(state, { [f.key]: null })} className="rounded-full bg-ink px-2 text-paper no-underline hover:bg-signal-dark" data-testid={`remove-${f.key}`}>
-                  remove<span className="sr-only"> the filter {FILTER_NAME[f.key]}: {filterLabel(f.key, f.value)}</span>
+                <span>
+                  {FILTER_NAME[f.key]}: <strong>{filterLabel(f.key, f.value)}</strong>
+                </span>
+                <Link
+                  to={searchHref(state, { [f.key]: null })}
+                  className="rounded-full bg-ink px-2 text-paper no-underline hover:bg-signal-dark"
+                  data-testid={`remove-${f.key}`}
+                >
+                  remove
+                  <span className="sr-only">
+                    {" "}
+                    the filter {FILTER_NAME[f.key]}: {filterLabel(f.key, f.value)}
+                  </span>
                 </Link>
               </li>
             ))}
           </ul>
-          {filters.length > 1 ? <Link to={searchHref({ q: query.q })} className="font-semibold text-signal-dark underline">Remove all filters</Link> : null}
+          {filters.length > 1 ? (
+            <Link to={searchHref({ q: query.q })} className="font-semibold text-signal-dark underline">
+              Remove all filters
+            </Link>
+          ) : null}
         </div>
       ) : null}
 
-      {result === null ? <Examples examples={examples} /> : (
+      {result === null ? (
+        <Examples examples={examples} />
+      ) : (
         <>
           {result.source === "database" ? (
             <p role="status" className="max-w-3xl rounded border-l-4 border-caution-edge bg-caution px-3 py-2" data-testid="reduced-notice">
-              <strong>Reduced results.</strong> The search service is not answering just now, so these come from the library&apos;s own index:
-              words match only from their start (whole-word prefixes, so “pick” finds pickup but “ickup” does not), and typos are not forgiven. Check the spelling, or try again in a few minutes.
+              <strong>Reduced results.</strong> The search service is not answering just now, so these come from the library&apos;s own index: words match only
+              from their start (whole-word prefixes, so “pick” finds pickup but “ickup” does not), and typos are not forgiven. Check the spelling, or try again
+              in a few minutes.
             </p>
           ) : null}
           {result.total === 0 ? (
@@ -109,14 +153,29 @@ export default function SearchPage({ loaderData }: Route.ComponentProps) {
           ) : (
             <div className="grid gap-6 lg:grid-cols-[15rem_1fr]">
               <section aria-labelledby="results-heading" className="min-w-0 lg:order-2">
-                <h2 id="results-heading" className="sr-only">Results</h2>
+                <h2 id="results-heading" className="sr-only">
+                  Results
+                </h2>
                 <p className="text-muted" data-testid="results-summary">
-                  <span className="font-semibold text-ink">{result.total}</span> {result.total === 1 ? "result" : "results"}{query.q ? <> for “{query.q}”</> : null}
-                  {result.total > result.hits.length ? <> · showing {query.offset + 1}–{query.offset + result.hits.length}</> : null}
-                  <a href="#facets" className="ml-2 font-semibold text-signal-dark underline lg:hidden">Narrow down</a>
+                  <span className="font-semibold text-ink">{result.total}</span> {result.total === 1 ? "result" : "results"}
+                  {query.q ? <> for “{query.q}”</> : null}
+                  {result.total > result.hits.length ? (
+                    <>
+                      {" "}
+                      · showing {query.offset + 1}–{query.offset + result.hits.length}
+                    </>
+                  ) : null}
+                  <a href="#facets" className="ml-2 font-semibold text-signal-dark underline lg:hidden">
+                    Narrow down
+                  </a>
                 </p>
                 {result.hits.length === 0 ? (
-                  <p className="mt-3">This page is past the last result. <Link to={searchHref(state, {})} className="font-semibold text-signal-dark underline">Back to the first page</Link></p>
+                  <p className="mt-3">
+                    This page is past the last result.{" "}
+                    <Link to={searchHref(state, {})} className="font-semibold text-signal-dark underline">
+                      Back to the first page
+                    </Link>
+                  </p>
                 ) : null}
                 <div className="mt-3 space-y-5">
                   {groupHits(result.hits).map((g) => {
@@ -125,17 +184,33 @@ export default function SearchPage({ loaderData }: Route.ComponentProps) {
                       <section key={g.type} aria-labelledby={`group-${g.type}`} data-group={g.type}>
                         <h3 id={`group-${g.type}`} className="flex items-baseline gap-2 border-b-2 border-ink pb-1 text-xl font-bold">
                           {g.label}
-                          <span className="rounded-full bg-ink px-2 text-sm font-semibold text-paper" data-testid="group-count"><span className="sr-only">(</span>{all}<span className="sr-only"> in all)</span></span>
+                          <span className="rounded-full bg-ink px-2 text-sm font-semibold text-paper" data-testid="group-count">
+                            <span className="sr-only">(</span>
+                            {all}
+                            <span className="sr-only"> in all)</span>
+                          </span>
                           {all > g.hits.length && !query.type ? (
-                            <Link to={searchHref(state, { type: g.type })} className="ml-auto text-sm font-semibold text-signal-dark underline">All {countOf(g.type, all)}</Link>
+                            <Link to={searchHref(state, { type: g.type })} className="ml-auto text-sm font-semibold text-signal-dark underline">
+                              All {countOf(g.type, all)}
+                            </Link>
                           ) : null}
                         </h3>
                         <ul className="divide-y divide-rule">
                           {g.hits.map((h) => (
                             <li key={h.url} className="py-2" data-type={h.type}>
-                              <Link to={h.url} className="font-semibold text-signal-dark underline">{h.title}</Link>
+                              <Link to={h.url} className="font-semibold text-signal-dark underline">
+                                {h.title}
+                              </Link>
                               <p className="text-sm break-words">{h.subtitle}</p>
-                              <p className="text-sm text-muted" data-testid="hit-owner">{h.type === "family" ? h.make : <>{h.family} · {h.make}</>}</p>
+                              <p className="text-sm text-muted" data-testid="hit-owner">
+                                {h.type === "family" ? (
+                                  h.make
+                                ) : (
+                                  <>
+                                    {h.family} · {h.make}
+                                  </>
+                                )}
+                              </p>
                             </li>
                           ))}
                         </ul>
@@ -148,7 +223,14 @@ export default function SearchPage({ loaderData }: Route.ComponentProps) {
 
               <nav id="facets" aria-label="Narrow the results" className="space-y-4 lg:order-1">
                 <h2 className="text-lg font-bold">Narrow down</h2>
-                <Facet name="type" title="Type" counts={result.facets.type} state={state} label={TYPE_LABEL} order={(e) => HIT_GROUPS.flatMap((g) => e.filter(([v]) => v === g.type as HitType))} />
+                <Facet
+                  name="type"
+                  title="Type"
+                  counts={result.facets.type}
+                  state={state}
+                  label={TYPE_LABEL}
+                  order={(e) => HIT_GROUPS.flatMap((g) => e.filter(([v]) => v === (g.type as HitType)))}
+                />
                 <Facet name="make" title="Make" counts={result.facets.make} state={state} label={(v) => names.make[v] ?? v} />
                 <Facet name="family" title="Family" counts={result.facets.family} state={state} label={(v) => names.family[v] ?? v} />
                 <Facet name="system" title="System" counts={result.facets.system} state={state} label={SYSTEM_LABEL} />
@@ -163,8 +245,21 @@ export default function SearchPage({ loaderData }: Route.ComponentProps) {
 }
 
 /** One facet: each value a link that adds the filter (or, when it is the active one, removes it). */
-function Facet({ name, title, counts, state, label, numeric = false, order }: {
-  name: FilterKey; title: string; counts: Record<string, number>; state: SearchState; label: (v: string) => string; numeric?: boolean;
+function Facet({
+  name,
+  title,
+  counts,
+  state,
+  label,
+  numeric = false,
+  order,
+}: {
+  name: FilterKey;
+  title: string;
+  counts: Record<string, number>;
+  state: SearchState;
+  label: (v: string) => string;
+  numeric?: boolean;
   order?: (entries: [string, number][]) => [string, number][];
 }) {
   const sorted = facetEntries(counts, numeric);
@@ -173,15 +268,24 @@ function Facet({ name, title, counts, state, label, numeric = false, order }: {
   if (!entries.length && current === null) return null;
   return (
     <section aria-labelledby={`facet-${name}`} data-facet={name}>
-      <h3 id={`facet-${name}`} className="text-sm font-bold tracking-wide text-muted uppercase">{title}</h3>
+      <h3 id={`facet-${name}`} className="text-sm font-bold tracking-wide text-muted uppercase">
+        {title}
+      </h3>
       <ul className="mt-1 flex flex-wrap gap-1.5 lg:block lg:space-y-0.5">
         {entries.map(([value, n]) => {
           const on = value === current;
           return (
             <li key={value}>
-              <Link to={searchHref(state, { [name]: on ? null : value })} aria-current={on ? "true" : undefined}
-                className={`flex items-baseline justify-between gap-3 rounded border px-2 py-1 no-underline lg:border-transparent lg:py-0.5 ${on ? "border-ink bg-ink font-semibold text-paper lg:border-ink" : "border-rule bg-white text-ink hover:border-ink lg:bg-transparent lg:hover:bg-white"}`}>
-                <span>{on ? "✓ " : ""}{label(value)}{on ? <span className="sr-only"> (chosen; follow to remove)</span> : null}</span>
+              <Link
+                to={searchHref(state, { [name]: on ? null : value })}
+                aria-current={on ? "true" : undefined}
+                className={`flex items-baseline justify-between gap-3 rounded border px-2 py-1 no-underline lg:border-transparent lg:py-0.5 ${on ? "border-ink bg-ink font-semibold text-paper lg:border-ink" : "border-rule bg-white text-ink hover:border-ink lg:bg-transparent lg:hover:bg-white"}`}
+              >
+                <span>
+                  {on ? "✓ " : ""}
+                  {label(value)}
+                  {on ? <span className="sr-only"> (chosen; follow to remove)</span> : null}
+                </span>
                 <span className={`text-sm ${on ? "text-paper" : "text-muted"}`}>{n}</span>
               </Link>
             </li>
@@ -201,9 +305,27 @@ function Pager({ state, total, limit, offset }: { state: SearchState; total: num
   const next = offset + limit < total ? offset + limit : null;
   return (
     <nav aria-label="Result pages" className="mt-5 flex flex-wrap items-center gap-3 border-t border-rule pt-3">
-      {prev !== null ? <Link to={searchHref(state, { offset: prev })} rel="prev" className="rounded border-2 border-ink bg-white px-3 py-1 font-semibold text-ink no-underline hover:bg-paper">← Previous {limit}</Link> : null}
-      <span className="text-muted">Page {page} of {pages}</span>
-      {next !== null ? <Link to={searchHref(state, { offset: next })} rel="next" className="rounded border-2 border-ink bg-white px-3 py-1 font-semibold text-ink no-underline hover:bg-paper">Next {Math.min(limit, total - next)} →</Link> : null}
+      {prev !== null ? (
+        <Link
+          to={searchHref(state, { offset: prev })}
+          rel="prev"
+          className="rounded border-2 border-ink bg-white px-3 py-1 font-semibold text-ink no-underline hover:bg-paper"
+        >
+          ← Previous {limit}
+        </Link>
+      ) : null}
+      <span className="text-muted">
+        Page {page} of {pages}
+      </span>
+      {next !== null ? (
+        <Link
+          to={searchHref(state, { offset: next })}
+          rel="next"
+          className="rounded border-2 border-ink bg-white px-3 py-1 font-semibold text-ink no-underline hover:bg-paper"
+        >
+          Next {Math.min(limit, total - next)} →
+        </Link>
+      ) : null}
     </nav>
   );
 }
@@ -212,14 +334,24 @@ function Pager({ state, total, limit, offset }: { state: SearchState; total: num
 function Examples({ examples }: { examples: string[] }) {
   return (
     <section aria-labelledby="examples-heading" className="max-w-3xl rounded-md border border-rule bg-white p-4">
-      <h2 id="examples-heading" className="text-lg font-bold">Try one of these</h2>
+      <h2 id="examples-heading" className="text-lg font-bold">
+        Try one of these
+      </h2>
       <ul className="mt-2 flex flex-wrap gap-2">
         {examples.map((e) => (
-          <li key={e}><Link to={searchHref({ q: e })} className="inline-block rounded-full border-2 border-ink px-3 py-1 font-semibold text-ink no-underline hover:bg-paper">{e}</Link></li>
+          <li key={e}>
+            <Link
+              to={searchHref({ q: e })}
+              className="inline-block rounded-full border-2 border-ink px-3 py-1 font-semibold text-ink no-underline hover:bg-paper"
+            >
+              {e}
+            </Link>
+          </li>
         ))}
       </ul>
       <p className="mt-3 text-sm text-muted">
-        Families, connector cards and single pins are all searched. A colour code finds the same colours written in the other notations, so <code>W/R</code> and <code>ws/rt</code> find the same white-with-red wires.
+        Families, connector cards and single pins are all searched. A colour code finds the same colours written in the other notations, so <code>W/R</code> and{" "}
+        <code>ws/rt</code> find the same white-with-red wires.
       </p>
     </section>
   );
@@ -229,14 +361,59 @@ function Examples({ examples }: { examples: string[] }) {
 function NoResults({ q, reduced, withoutFilters }: { q: string; reduced: boolean; withoutFilters: string | null }) {
   return (
     <section aria-labelledby="none-heading" className="max-w-3xl rounded-md border border-rule bg-white p-4" data-testid="no-results">
-      <h2 id="none-heading" className="text-lg font-bold">Nothing in the library matches {q ? <>“{q}”</> : "these filters"}{withoutFilters ? " with these filters" : ""}</h2>
+      <h2 id="none-heading" className="text-lg font-bold">
+        Nothing in the library matches {q ? <>“{q}”</> : "these filters"}
+        {withoutFilters ? " with these filters" : ""}
+      </h2>
       <ul className="mt-2 list-disc space-y-1 pl-6">
-        {withoutFilters ? <li><Link to={withoutFilters} className="font-semibold text-signal-dark underline">Search again without the filters</Link></li> : null}
+        {withoutFilters ? (
+          <li>
+            <Link to={withoutFilters} className="font-semibold text-signal-dark underline">
+              Search again without the filters
+            </Link>
+          </li>
+        ) : null}
         <li>Check the spelling{reduced ? " — while results are reduced, a typo finds nothing" : ""}.</li>
-        <li>Use fewer words, or the start of a word: <Link to={searchHref({ q: "pick" })} className="underline">pick</Link> finds pickup.</li>
-        <li>Colour codes work in any notation: <Link to={searchHref({ q: "W/R" })} className="underline">W/R</Link>, <Link to={searchHref({ q: "ws/rt" })} className="underline">ws/rt</Link>.</li>
-        <li>Terminal numbers as printed on the part: <Link to={searchHref({ q: "15" })} className="underline">15</Link>, <Link to={searchHref({ q: "31d" })} className="underline">31d</Link>.</li>
-        <li>Or <Link to="/" className="underline">browse the library</Link> by make and family, or name a cut-off plug from its wires with the <Link to="/finder" className="underline">colour finder</Link>.</li>
+        <li>
+          Use fewer words, or the start of a word:{" "}
+          <Link to={searchHref({ q: "pick" })} className="underline">
+            pick
+          </Link>{" "}
+          finds pickup.
+        </li>
+        <li>
+          Colour codes work in any notation:{" "}
+          <Link to={searchHref({ q: "W/R" })} className="underline">
+            W/R
+          </Link>
+          ,{" "}
+          <Link to={searchHref({ q: "ws/rt" })} className="underline">
+            ws/rt
+          </Link>
+          .
+        </li>
+        <li>
+          Terminal numbers as printed on the part:{" "}
+          <Link to={searchHref({ q: "15" })} className="underline">
+            15
+          </Link>
+          ,{" "}
+          <Link to={searchHref({ q: "31d" })} className="underline">
+            31d
+          </Link>
+          .
+        </li>
+        <li>
+          Or{" "}
+          <Link to="/" className="underline">
+            browse the library
+          </Link>{" "}
+          by make and family, or name a cut-off plug from its wires with the{" "}
+          <Link to="/finder" className="underline">
+            colour finder
+          </Link>
+          .
+        </li>
       </ul>
     </section>
   );

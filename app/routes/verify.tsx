@@ -25,7 +25,9 @@ export default function VerifyPage({ loaderData, actionData }: Route.ComponentPr
         <p>Press the button to confirm this e-mail address for your Loomlore account.</p>
         <Form method="post">
           <input type="hidden" name="token" value={loaderData.token} />
-          <button type="submit" className="rounded bg-signal px-5 py-2 font-semibold text-white hover:bg-signal-dark">Confirm my address</button>
+          <button type="submit" className="rounded bg-signal px-5 py-2 font-semibold text-white hover:bg-signal-dark">
+            Confirm my address
+          </button>
         </Form>
       </section>
     );
@@ -35,9 +37,27 @@ export default function VerifyPage({ loaderData, actionData }: Route.ComponentPr
     <section className="max-w-xl space-y-3" data-testid="verify-result">
       <h1 className="text-3xl font-bold">{ok ? "Address confirmed" : "This link doesn't work"}</h1>
       {ok ? (
-        <p>Thank you. You can now contribute connector cards. {signedIn ? <Link to="/garage" className="font-semibold underline">Go to your garage</Link> : <Link to="/login?notice=verified" className="font-semibold underline">Sign in</Link>}.</p>
+        <p>
+          Thank you. You can now contribute connector cards.{" "}
+          {signedIn ? (
+            <Link to="/garage" className="font-semibold underline">
+              Go to your garage
+            </Link>
+          ) : (
+            <Link to="/login?notice=verified" className="font-semibold underline">
+              Sign in
+            </Link>
+          )}
+          .
+        </p>
       ) : (
-        <p>It has expired or was already used. Sign in and ask for a new link from <Link to="/account" className="font-semibold underline">your account</Link>.</p>
+        <p>
+          It has expired or was already used. Sign in and ask for a new link from{" "}
+          <Link to="/account" className="font-semibold underline">
+            your account
+          </Link>
+          .
+        </p>
       )}
     </section>
   );

@@ -8,7 +8,6 @@ import { EDITOR_FORM_MAX_BYTES } from "../services/http.server.ts";
 const KiB = 1024;
 const MiB = 1024 * KiB;
 
-
 // ---- request bodies ---------------------------------------------------------------------------------------------
 //
 // Node keeps a connection alive after a response even when the request's body was never read to the end: it either
@@ -87,8 +86,10 @@ function logCutOff(w: BodyWatch, closedBy: "server" | "client") {
   if (w.logged) return;
   w.logged = true;
   const ms = Math.round(performance.now() - w.start);
-  console.log(`[loomlore] body cut off: ${w.req.method} ${w.req.path} status=${w.res.statusCode} read=${w.bytes} `
-    + `declared=${w.declared ?? "chunked"} reason=${w.reason} closed-by=${closedBy} ms=${ms}`);
+  console.log(
+    `[loomlore] body cut off: ${w.req.method} ${w.req.path} status=${w.res.statusCode} read=${w.bytes} ` +
+      `declared=${w.declared ?? "chunked"} reason=${w.reason} closed-by=${closedBy} ms=${ms}`,
+  );
 }
 
 /**
@@ -191,9 +192,22 @@ export function watchBody(req: ExpressRequest, res: ExpressResponse, next: NextF
   const upload = isUpload(req);
   const socket = req.socket;
   const w: BodyWatch = {
-    req, res, socket, upload, max: upload ? Infinity : UPLOAD_PAGE.test(routePath(req)) ? EDITOR_FORM_MAX_BYTES : FORM_MAX_BYTES,
-    start: performance.now(), bytes: 0, declared, armed: false, lingering: false, closing: false, logged: false, reason: "answered-early",
-    rateTimer: null, lingerTimer: null, destroy: req.destroy,
+    req,
+    res,
+    socket,
+    upload,
+    max: upload ? Infinity : UPLOAD_PAGE.test(routePath(req)) ? EDITOR_FORM_MAX_BYTES : FORM_MAX_BYTES,
+    start: performance.now(),
+    bytes: 0,
+    declared,
+    armed: false,
+    lingering: false,
+    closing: false,
+    logged: false,
+    reason: "answered-early",
+    rateTimer: null,
+    lingerTimer: null,
+    destroy: req.destroy,
   };
 
   // Count the body as the HTTP parser hands it over (parserOnBody calls req.push): chunked bodies are counted too.

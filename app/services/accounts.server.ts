@@ -6,7 +6,18 @@ import { passwordProblem } from "~/domain/passwords";
 import { roleAfterVerification } from "~/domain/roles";
 import { fieldErrors, formFields, joinForm, loginForm } from "~/validation/accounts";
 import {
-  audit, consumeToken, currentSession, dummyVerify, hashPassword, issueToken, revokeSessions, sequelize, startSession, tokenIsLive, User, verifyPassword,
+  audit,
+  consumeToken,
+  currentSession,
+  dummyVerify,
+  hashPassword,
+  issueToken,
+  revokeSessions,
+  sequelize,
+  startSession,
+  tokenIsLive,
+  User,
+  verifyPassword,
   type SessionUser,
 } from "./auth.server";
 import { HashingBusy } from "~/infra/password-hash.server";
@@ -41,10 +52,11 @@ authenticator.use(
 export type FormResult = { ok: false; status: number; errors: Record<string, string>; values: Record<string, string>; retryAfterS?: number };
 
 /** A hash or check refused at the queue's bound comes back as its HashingBusy (any other failure still throws). */
-const orBusy = <T>(work: Promise<T>): Promise<T | HashingBusy> => work.catch((e) => {
-  if (e instanceof HashingBusy) return e;
-  throw e;
-});
+const orBusy = <T>(work: Promise<T>): Promise<T | HashingBusy> =>
+  work.catch((e) => {
+    if (e instanceof HashingBusy) return e;
+    throw e;
+  });
 const busyMessage = (e: HashingBusy) => `Many people are signing in at this moment. Try again in ${e.retryAfterS} seconds.`;
 
 /** The answer when password hashing is at its queue's bound (HashingBusy): a 429 to try again shortly, the form kept. */
@@ -58,7 +70,13 @@ export async function signIn(request: Request, ip: string): Promise<{ ok: true; 
   const values = { email: fields.email ?? "" };
   const limited = await takeLoginAttempt((fields.email ?? "").trim().toLowerCase(), ip);
   if (!limited.ok) {
-    return { ok: false, status: 429, values, retryAfterS: limited.retryAfterS, errors: { form: `Too many attempts. Try again in ${Math.ceil(limited.retryAfterS / 60)} minute(s), or reset your password.` } };
+    return {
+      ok: false,
+      status: 429,
+      values,
+      retryAfterS: limited.retryAfterS,
+      errors: { form: `Too many attempts. Try again in ${Math.ceil(limited.retryAfterS / 60)} minute(s), or reset your password.` },
+    };
   }
   try {
     const user = await authenticator.authenticate("password", request);
@@ -91,7 +109,8 @@ export async function join(request: Request, ip: string): Promise<{ ok: true; em
   const problem = passwordProblem(password, { email, displayName });
   if (problem) return { ok: false, status: 400, values, errors: { password: problem } };
   const limited = await takeMailRequest(ip, email);
-  if (!limited.ok) return { ok: false, status: 429, values, retryAfterS: limited.retryAfterS, errors: { form: "Too many requests from here. Try again later." } };
+  if (!limited.ok)
+    return { ok: false, status: 429, values, retryAfterS: limited.retryAfterS, errors: { form: "Too many requests from here. Try again later." } };
   const hash = await orBusy(hashPassword(password));
   if (hash instanceof HashingBusy) return busy(hash, values);
   await sequelize.transaction(async (transaction) => {
@@ -101,7 +120,10 @@ export async function join(request: Request, ip: string): Promise<{ ok: true; em
       return;
     }
     const now = new Date();
-    const user = await User.create({ email, displayName, passwordHash: hash, role: "rider", emailVerifiedAt: null, passwordChangedAt: now, createdAt: now, disabledAt: null }, { transaction });
+    const user = await User.create(
+      { email, displayName, passwordHash: hash, role: "rider", emailVerifiedAt: null, passwordChangedAt: now, createdAt: now, disabledAt: null },
+      { transaction },
+    );
     const token = await issueToken(user.id, "verify", VERIFY_TTL_MIN, transaction);
     await enqueueMail({ kind: "verify", to: email, ...verifyEmailMessage({ displayName, link: `${appUrl()}/verify?token=${token}` }) }, transaction);
     await audit(user.id, "user.join", "user", user.id, {}, transaction);
@@ -127,7 +149,10 @@ export async function resendVerification(user: SessionUser, ip: string): Promise
   if (!limited.ok) return { ok: false, retryAfterS: limited.retryAfterS };
   await sequelize.transaction(async (transaction) => {
     const token = await issueToken(user.id, "verify", VERIFY_TTL_MIN, transaction);
-    await enqueueMail({ kind: "verify", to: user.email, ...verifyEmailMessage({ displayName: user.displayName, link: `${appUrl()}/verify?token=${token}` }) }, transaction);
+    await enqueueMail(
+      { kind: "verify", to: user.email, ...verifyEmailMessage({ displayName: user.displayName, link: `${appUrl()}/verify?token=${token}` }) },
+      transaction,
+    );
   });
   return { ok: true };
 }
@@ -146,36 +171,52 @@ export async function requestReset(email: string, ip: string): Promise<{ ok: boo
 }
 
 /** Set a new password from a reset link: single use, short-lived; every session of the account ends. */
-export async function resetPassword(token: string, password: string, ip = "unknown"): Promise<{ ok: true } | { ok: false; error: string; field?: string; status?: number; retryAfterS?: number }> {
+export async function resetPassword(
+  token: string,
+  password: string,
+  ip = "unknown",
+): Promise<{ ok: true } | { ok: false; error: string; field?: string; status?: number; retryAfterS?: number }> {
   // Limits and the token first: a made-up token costs a lookup, never a bcrypt hash or a write lock.
   const limited = await takeResetAttempt(token, ip);
-  if (!limited.ok) return { ok: false, status: 429, retryAfterS: limited.retryAfterS, error: `Too many attempts. Try again in ${Math.ceil(limited.retryAfterS / 60)} minute(s).` };
+  if (!limited.ok)
+    return {
+      ok: false,
+      status: 429,
+      retryAfterS: limited.retryAfterS,
+      error: `Too many attempts. Try again in ${Math.ceil(limited.retryAfterS / 60)} minute(s).`,
+    };
   const expired = { ok: false as const, error: "This link has expired or was already used. Ask for a new one." };
   if (!(await tokenIsLive(token, "reset"))) return expired;
   const problem = passwordProblem(password, {});
   if (problem) return { ok: false, error: problem, field: "password" };
   const hash = await orBusy(hashPassword(password));
   if (hash instanceof HashingBusy) return { ok: false, status: 429, retryAfterS: hash.retryAfterS, error: busyMessage(hash) };
-  return sequelize.transaction(async (transaction) => {
-    const user = await consumeToken(token, "reset", transaction);
-    if (!user) return expired;
-    const personal = passwordProblem(password, { email: user.email, displayName: user.displayName });
-    if (personal) throw new PasswordRejected(personal);
-    await user.update({ passwordHash: hash, passwordChangedAt: new Date() }, { transaction });
-    await revokeSessions(user.id, undefined, transaction);
-    await audit(user.id, "user.password-reset", "user", user.id, {}, transaction);
-    return { ok: true as const };
-  }).catch((e) => {
-    // A rejected password rolls the token back too: the rider can try again with the same link.
-    if (e instanceof PasswordRejected) return { ok: false as const, error: e.message, field: "password" };
-    throw e;
-  });
+  return sequelize
+    .transaction(async (transaction) => {
+      const user = await consumeToken(token, "reset", transaction);
+      if (!user) return expired;
+      const personal = passwordProblem(password, { email: user.email, displayName: user.displayName });
+      if (personal) throw new PasswordRejected(personal);
+      await user.update({ passwordHash: hash, passwordChangedAt: new Date() }, { transaction });
+      await revokeSessions(user.id, undefined, transaction);
+      await audit(user.id, "user.password-reset", "user", user.id, {}, transaction);
+      return { ok: true as const };
+    })
+    .catch((e) => {
+      // A rejected password rolls the token back too: the rider can try again with the same link.
+      if (e instanceof PasswordRejected) return { ok: false as const, error: e.message, field: "password" };
+      throw e;
+    });
 }
 class PasswordRejected extends Error {}
 
 /** Change the password of the signed-in user; optionally end their other sessions (ASVS V3.3.3). Rotates the current one. */
-export async function changePassword(request: Request, current: string, next: string, signOutOthers: boolean):
-  Promise<{ ok: true; setCookie: string } | { ok: false; errors: Record<string, string>; status?: number; retryAfterS?: number }> {
+export async function changePassword(
+  request: Request,
+  current: string,
+  next: string,
+  signOutOthers: boolean,
+): Promise<{ ok: true; setCookie: string } | { ok: false; errors: Record<string, string>; status?: number; retryAfterS?: number }> {
   const s = await currentSession(request);
   if (!s) return { ok: false, errors: { form: "Sign in first." } };
   const user = await User.findByPk(s.user.id, { rejectOnEmpty: true });

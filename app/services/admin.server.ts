@@ -10,7 +10,15 @@ import { redactTokens } from "~/domain/mail-templates";
 /** Every account with its role, newest first. */
 export async function listUsers() {
   const users = await User.findAll({ order: [["createdAt", "DESC"]], limit: 200 });
-  return users.map((u) => ({ id: u.id, email: u.email, displayName: u.displayName, role: u.role, verified: !!u.emailVerifiedAt, createdAt: u.createdAt.toISOString(), disabled: !!u.disabledAt }));
+  return users.map((u) => ({
+    id: u.id,
+    email: u.email,
+    displayName: u.displayName,
+    role: u.role,
+    verified: !!u.emailVerifiedAt,
+    createdAt: u.createdAt.toISOString(),
+    disabled: !!u.disabledAt,
+  }));
 }
 
 /** Change someone's role; an admin cannot remove the last admin. Audited. */
@@ -41,14 +49,32 @@ export async function revokeUser(actorId: number, userId: number) {
 export async function listAudit(limit = 100) {
   const rows = await AuditLog.findAll({ order: [["id", "DESC"]], limit });
   const users = await User.findAll({ where: { id: rows.map((r) => r.actorId).filter((x): x is number => !!x) } });
-  return rows.map((r) => ({ id: r.id, at: r.at.toISOString(), actor: users.find((u) => u.id === r.actorId)?.displayName ?? "—", action: r.action, subject: `${r.subjectType} ${r.subjectId ?? ""}`.trim(), detail: r.detail }));
+  return rows.map((r) => ({
+    id: r.id,
+    at: r.at.toISOString(),
+    actor: users.find((u) => u.id === r.actorId)?.displayName ?? "—",
+    action: r.action,
+    subject: `${r.subjectType} ${r.subjectId ?? ""}`.trim(),
+    detail: r.detail,
+  }));
 }
 
 /** The latest messages in the outbox, with their delivery state. */
 /** The outbox for the admin page: a queued message's live token is redacted here too (the page never holds one). */
 export async function listOutbox(limit = 100) {
   const rows = await MailOutbox.findAll({ order: [["id", "DESC"]], limit });
-  return rows.map((m) => ({ id: m.id, kind: m.kind, to: m.toAddr, subject: m.subject, status: m.status, attempts: m.attempts, createdAt: m.createdAt.toISOString(), sentAt: m.sentAt?.toISOString() ?? null, lastError: m.lastError, text: redactTokens(m.text) }));
+  return rows.map((m) => ({
+    id: m.id,
+    kind: m.kind,
+    to: m.toAddr,
+    subject: m.subject,
+    status: m.status,
+    attempts: m.attempts,
+    createdAt: m.createdAt.toISOString(),
+    sentAt: m.sentAt?.toISOString() ?? null,
+    lastError: m.lastError,
+    text: redactTokens(m.text),
+  }));
 }
 
 /** Makes and families for the admin page. */
@@ -56,7 +82,15 @@ export async function listLibrary() {
   const [makes, families] = await Promise.all([Make.findAll({ order: [["name", "ASC"]] }), Family.findAll({ order: [["name", "ASC"]] })]);
   return {
     makes: makes.map((m) => ({ id: m.id, slug: m.slug, name: m.name, colourSystem: m.colourSystem })),
-    families: families.map((f) => ({ id: f.id, slug: f.slug, name: f.name, modelRange: f.modelRange, yearFrom: f.yearFrom, yearTo: f.yearTo, makeId: f.makeId })),
+    families: families.map((f) => ({
+      id: f.id,
+      slug: f.slug,
+      name: f.name,
+      modelRange: f.modelRange,
+      yearFrom: f.yearFrom,
+      yearTo: f.yearTo,
+      makeId: f.makeId,
+    })),
   };
 }
 
@@ -72,21 +106,29 @@ export async function createMake(actorId: number, input: { slug: string; name: s
 
 /** Correct a family's name, model range or years. Audited with the before and after. */
 export async function updateFamily(actorId: number, slug: string, input: { name: string; modelRange: string; yearFrom: number; yearTo: number }) {
-  return sequelize.transaction(async (transaction) => {
-    const f = await Family.findOne({ where: { slug }, transaction });
-    if (!f) return { ok: false as const, field: "slug", error: "There is no such family." };
-    const before = { name: f.name, modelRange: f.modelRange, yearFrom: f.yearFrom, yearTo: f.yearTo };
-    await f.update(input, { transaction });
-    await audit(actorId, "family.update", "family", slug, { before, after: input }, transaction);
-    // Search: the family's document and its cards' (they carry its name and years), here and in the service.
-    const connectorIds = (await Connector.findAll({ where: { familyId: f.id }, attributes: ["id"], transaction })).map((c) => c.id);
-    await writeFallbackDocs(await libraryDocs({ familyIds: [f.id], connectorIds }, transaction), transaction);
-    const now = new Date();
-    await IndexJob.bulkCreate([{ kind: "family", subjectId: f.id, createdAt: now }, ...connectorIds.map((id) => ({ kind: "connector" as const, subjectId: id, createdAt: now }))], { transaction });
-    return { ok: true as const };
-  }).then((r) => {
-    // The walk and the finder keep the family in memory: let them read it again.
-    if (r.ok) { forgetFamilyGraph(slug); forgetFinderIndex(); }
-    return r;
-  });
+  return sequelize
+    .transaction(async (transaction) => {
+      const f = await Family.findOne({ where: { slug }, transaction });
+      if (!f) return { ok: false as const, field: "slug", error: "There is no such family." };
+      const before = { name: f.name, modelRange: f.modelRange, yearFrom: f.yearFrom, yearTo: f.yearTo };
+      await f.update(input, { transaction });
+      await audit(actorId, "family.update", "family", slug, { before, after: input }, transaction);
+      // Search: the family's document and its cards' (they carry its name and years), here and in the service.
+      const connectorIds = (await Connector.findAll({ where: { familyId: f.id }, attributes: ["id"], transaction })).map((c) => c.id);
+      await writeFallbackDocs(await libraryDocs({ familyIds: [f.id], connectorIds }, transaction), transaction);
+      const now = new Date();
+      await IndexJob.bulkCreate(
+        [{ kind: "family", subjectId: f.id, createdAt: now }, ...connectorIds.map((id) => ({ kind: "connector" as const, subjectId: id, createdAt: now }))],
+        { transaction },
+      );
+      return { ok: true as const };
+    })
+    .then((r) => {
+      // The walk and the finder keep the family in memory: let them read it again.
+      if (r.ok) {
+        forgetFamilyGraph(slug);
+        forgetFinderIndex();
+      }
+      return r;
+    });
 }

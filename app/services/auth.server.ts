@@ -38,7 +38,13 @@ export async function dummyVerify(password: string): Promise<false> {
   return false;
 }
 
-export interface SessionUser { id: number; email: string; displayName: string; role: Role; verified: boolean }
+export interface SessionUser {
+  id: number;
+  email: string;
+  displayName: string;
+  role: Role;
+  verified: boolean;
+}
 const toSessionUser = (u: User): SessionUser => ({ id: u.id, email: u.email, displayName: u.displayName, role: u.role, verified: !!u.emailVerifiedAt });
 
 function cookieValue(request: Request): string | null {
@@ -64,10 +70,18 @@ export async function startSession(request: Request, userId: number, transaction
   if (old) await Session.destroy({ where: { tokenHash: sha256(old) }, transaction });
   const token = randomToken();
   const now = new Date();
-  await Session.create({
-    tokenHash: sha256(token), userId, createdAt: now, lastSeenAt: now, expiresAt: new Date(now.getTime() + SESSION_DAYS * 86400_000),
-    revokedAt: null, userAgent: (request.headers.get("User-Agent") ?? "").slice(0, 300),
-  }, { transaction });
+  await Session.create(
+    {
+      tokenHash: sha256(token),
+      userId,
+      createdAt: now,
+      lastSeenAt: now,
+      expiresAt: new Date(now.getTime() + SESSION_DAYS * 86400_000),
+      revokedAt: null,
+      userAgent: (request.headers.get("User-Agent") ?? "").slice(0, 300),
+    },
+    { transaction },
+  );
   return sessionCookie(token);
 }
 
@@ -82,7 +96,8 @@ export async function currentSession(request: Request): Promise<{ user: SessionU
   const user = await User.findByPk(session.userId);
   if (!user || user.disabledAt) return null;
   // Writes go through a transaction (its own handle), never the shared one that every read of the process queues on.
-  if (Date.now() - session.lastSeenAt.getTime() > TOUCH_EVERY_MS) await sequelize.transaction((transaction) => session.update({ lastSeenAt: new Date() }, { transaction }));
+  if (Date.now() - session.lastSeenAt.getTime() > TOUCH_EVERY_MS)
+    await sequelize.transaction((transaction) => session.update({ lastSeenAt: new Date() }, { transaction }));
   return { user: toSessionUser(user), sessionId: session.id };
 }
 
@@ -100,8 +115,18 @@ export async function revokeSessions(userId: number, exceptSessionId?: number, t
 }
 
 /** Record who did what (never a password, token or session id). */
-export async function audit(actorId: number | null, action: string, subjectType: string, subjectId: string | number | null, detail: Record<string, unknown> = {}, transaction?: Transaction) {
-  await AuditLog.create({ actorId, action, subjectType, subjectId: subjectId === null ? null : String(subjectId), detail: JSON.stringify(detail), at: new Date() }, { transaction });
+export async function audit(
+  actorId: number | null,
+  action: string,
+  subjectType: string,
+  subjectId: string | number | null,
+  detail: Record<string, unknown> = {},
+  transaction?: Transaction,
+) {
+  await AuditLog.create(
+    { actorId, action, subjectType, subjectId: subjectId === null ? null : String(subjectId), detail: JSON.stringify(detail), at: new Date() },
+    { transaction },
+  );
 }
 
 /** Make a single-use token for an e-mail link; only its hash is stored. */
@@ -110,7 +135,10 @@ export async function issueToken(userId: number, kind: "verify" | "reset", ttlMi
   const now = new Date();
   // A newer link replaces older ones of the same kind.
   await Token.update({ usedAt: now }, { where: { userId, kind, usedAt: null }, transaction });
-  await Token.create({ userId, kind, tokenHash: sha256(token), expiresAt: new Date(now.getTime() + ttlMinutes * 60_000), usedAt: null, createdAt: now }, { transaction });
+  await Token.create(
+    { userId, kind, tokenHash: sha256(token), expiresAt: new Date(now.getTime() + ttlMinutes * 60_000), usedAt: null, createdAt: now },
+    { transaction },
+  );
   return token;
 }
 

@@ -36,7 +36,10 @@ export async function decodeForMake(q: { code: string; system?: ColourSystemId |
   if (!make) return { ok: false, status: 404, code: "not_found", message: `There is no make "${q.make}" in the library.`, field: "make" };
   if (q.system && q.system !== "auto" && q.system !== make.notation) {
     return {
-      ok: false, status: 400, code: "bad_request", field: "system",
+      ok: false,
+      status: 400,
+      code: "bad_request",
+      field: "system",
       message: `${make.name} writes ${SYSTEM_NAMES[make.notation]} (${make.notation}), not ${q.system}: leave system out or use ${make.notation}.`,
     };
   }

@@ -12,7 +12,10 @@ export function forgetFinderIndex() {
 
 async function build(): Promise<FinderIndex> {
   const [families, systems, connectors, pins] = await Promise.all([
-    Family.findAll({ include: [{ model: Make, as: "make" }] }), System.findAll(), Connector.findAll(), Pin.findAll(),
+    Family.findAll({ include: [{ model: Make, as: "make" }] }),
+    System.findAll(),
+    Connector.findAll(),
+    Pin.findAll(),
   ]);
   const fam = new Map(families.map((f) => [f.id, f]));
   const sys = new Map(systems.map((s) => [s.id, s.kind]));
@@ -24,7 +27,14 @@ async function build(): Promise<FinderIndex> {
     // The card's codes and the rider's typed ones are both read the way the family's make writes them.
     const houseStyle = houseFor(f.colourSystem, f.make?.houseStyle);
     return {
-      slug: c.slug, name: c.name, family: f.slug, familyName: f.name, system: sys.get(c.systemId) ?? "", gender: c.gender, notation, houseStyle,
+      slug: c.slug,
+      name: c.name,
+      family: f.slug,
+      familyName: f.name,
+      system: sys.get(c.systemId) ?? "",
+      gender: c.gender,
+      notation,
+      houseStyle,
       pins: (byConnector.get(c.id) ?? []).map((p) => {
         const d = p.colourCode ? decodeColour(p.colourCode, notation, { houseStyle }) : null;
         return { cavity: p.cavity, code: p.colourCode, colours: d?.ok ? d.value.colours : [] };
@@ -40,7 +50,10 @@ async function build(): Promise<FinderIndex> {
  * family needs no notation of its own here.
  */
 export async function findByColours(query: FinderQuery) {
-  index ??= build().catch((e) => { index = null; throw e; });
+  index ??= build().catch((e) => {
+    index = null;
+    throw e;
+  });
   const started = performance.now();
   const result = findConnectors(await index, query);
   return { result, tookMs: Math.round((performance.now() - started) * 100) / 100 };

@@ -7,18 +7,25 @@ import { isSlug } from "~/validation/library";
 export async function listGarage(userId: number) {
   const items = await GarageItem.findAll({ where: { userId }, order: [["createdAt", "DESC"]] });
   const connectors = await Connector.findAll({ where: { id: items.map((i) => i.connectorId).filter((x): x is number => !!x) } });
-  const families = await Family.findAll({ where: { id: [...items.map((i) => i.familyId), ...connectors.map((c) => c.familyId)].filter((x): x is number => !!x) }, include: [{ model: Make, as: "make" }] });
+  const families = await Family.findAll({
+    where: { id: [...items.map((i) => i.familyId), ...connectors.map((c) => c.familyId)].filter((x): x is number => !!x) },
+    include: [{ model: Make, as: "make" }],
+  });
   const fam = new Map(families.map((f) => [f.id, f]));
   return {
-    cards: items.filter((i) => i.kind === "card").map((i) => {
-      const c = connectors.find((x) => x.id === i.connectorId)!;
-      const f = fam.get(c.familyId)!;
-      return { id: i.id, slug: c.slug, name: c.name, family: { slug: f.slug, name: `${f.make!.name} ${f.name}` } };
-    }),
-    bikes: items.filter((i) => i.kind === "bike").map((i) => {
-      const f = fam.get(i.familyId!)!;
-      return { id: i.id, family: { slug: f.slug, name: `${f.make!.name} ${f.name}`, yearFrom: f.yearFrom, yearTo: f.yearTo }, year: i.year, label: i.label };
-    }),
+    cards: items
+      .filter((i) => i.kind === "card")
+      .map((i) => {
+        const c = connectors.find((x) => x.id === i.connectorId)!;
+        const f = fam.get(c.familyId)!;
+        return { id: i.id, slug: c.slug, name: c.name, family: { slug: f.slug, name: `${f.make!.name} ${f.name}` } };
+      }),
+    bikes: items
+      .filter((i) => i.kind === "bike")
+      .map((i) => {
+        const f = fam.get(i.familyId!)!;
+        return { id: i.id, family: { slug: f.slug, name: `${f.make!.name} ${f.name}`, yearFrom: f.yearFrom, yearTo: f.yearTo }, year: i.year, label: i.label };
+      }),
   };
 }
 
@@ -33,17 +40,26 @@ export async function saveCard(userId: number, slug: string): Promise<boolean> {
   // Writes run in a transaction (a handle of their own): never on the shared handle every read of the process waits on.
   await sequelize.transaction(async (transaction) => {
     const exists = await GarageItem.findOne({ where: { userId, kind: "card", connectorId: c.id }, transaction });
-    if (!exists) await GarageItem.create({ userId, kind: "card", connectorId: c.id, familyId: null, year: null, label: "", createdAt: new Date() }, { transaction });
+    if (!exists)
+      await GarageItem.create({ userId, kind: "card", connectorId: c.id, familyId: null, year: null, label: "", createdAt: new Date() }, { transaction });
   });
   return true;
 }
 
 /** Add a bike (family and year) to the garage. */
-export async function addBike(userId: number, familySlug: string, year: number | null, label: string): Promise<{ ok: true } | { ok: false; field: string; error: string }> {
+export async function addBike(
+  userId: number,
+  familySlug: string,
+  year: number | null,
+  label: string,
+): Promise<{ ok: true } | { ok: false; field: string; error: string }> {
   const f = isSlug(familySlug) ? await Family.findOne({ where: { slug: familySlug } }) : null;
   if (!f) return { ok: false, field: "family", error: "Choose a family from the list." };
-  if (year !== null && (year < f.yearFrom - 1 || year > f.yearTo + 1)) return { ok: false, field: "year", error: `The ${f.name} was made ${f.yearFrom}–${f.yearTo}.` };
-  await sequelize.transaction((transaction) => GarageItem.create({ userId, kind: "bike", connectorId: null, familyId: f.id, year, label: label.slice(0, 80), createdAt: new Date() }, { transaction }));
+  if (year !== null && (year < f.yearFrom - 1 || year > f.yearTo + 1))
+    return { ok: false, field: "year", error: `The ${f.name} was made ${f.yearFrom}–${f.yearTo}.` };
+  await sequelize.transaction((transaction) =>
+    GarageItem.create({ userId, kind: "bike", connectorId: null, familyId: f.id, year, label: label.slice(0, 80), createdAt: new Date() }, { transaction }),
+  );
   return { ok: true };
 }
 
@@ -88,6 +104,5 @@ export async function riderCardState(userId: number, connectorId: number) {
     GarageItem.findOne({ where: { userId, kind: "card", connectorId } }),
     BikeCheck.findOne({ where: { userId, connectorId } }),
   ]);
-  return { saved: !!saved, checkedYear: check ? check.year ?? 0 : null };
+  return { saved: !!saved, checkedYear: check ? (check.year ?? 0) : null };
 }
-

@@ -37,7 +37,10 @@ export async function requireCan(request: Request, action: Action): Promise<{ us
  */
 export function allowedOrigins(request: Request): string[] {
   const own = new URL(request.url).origin;
-  const configured = (env.ALLOWED_ORIGINS ?? "").split(",").map((s) => s.trim()).filter((s) => s && s !== "*" && !s.includes("*"));
+  const configured = (env.ALLOWED_ORIGINS ?? "")
+    .split(",")
+    .map((s) => s.trim())
+    .filter((s) => s && s !== "*" && !s.includes("*"));
   return [own, ...configured];
 }
 

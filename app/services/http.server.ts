@@ -3,9 +3,21 @@ import { env } from "~/env.server";
 import { issueSentence, type Issue } from "~/validation/forms";
 
 export type ApiErrorCode =
-  | "bad_request" | "unknown_colour" | "not_signed_in" | "forbidden" | "not_found" | "method_not_allowed"
-  | "conflict" | "too_large" | "unsupported_media_type" | "unprocessable" | "rate_limited" | "unavailable" | "insufficient_storage"
-  | "internal_error" | "request_timeout";
+  | "bad_request"
+  | "unknown_colour"
+  | "not_signed_in"
+  | "forbidden"
+  | "not_found"
+  | "method_not_allowed"
+  | "conflict"
+  | "too_large"
+  | "unsupported_media_type"
+  | "unprocessable"
+  | "rate_limited"
+  | "unavailable"
+  | "insufficient_storage"
+  | "internal_error"
+  | "request_timeout";
 
 /** A JSON error response: {"error": {code, message, field?}}. */
 export function apiError(status: number, code: ApiErrorCode, message: string, field?: string, headers?: HeadersInit) {
@@ -40,8 +52,10 @@ const MAX_JSON_BYTES = 64 * 1024;
  * Read a JSON request body and validate it: 415 unless it is JSON, 413 past 64 KiB, 400 for malformed JSON or a
  * failed schema. Returns either the parsed value or the Response to send.
  */
-export async function readJson<T>(request: Request, schema: { safeParse: (v: unknown) => { success: true; data: T } | { success: false; error: { issues: { path: PropertyKey[]; message: string }[] } } }):
-  Promise<{ ok: true; data: T } | { ok: false; response: Response }> {
+export async function readJson<T>(
+  request: Request,
+  schema: { safeParse: (v: unknown) => { success: true; data: T } | { success: false; error: { issues: { path: PropertyKey[]; message: string }[] } } },
+): Promise<{ ok: true; data: T } | { ok: false; response: Response }> {
   const type = request.headers.get("Content-Type") ?? "";
   if (!/^application\/([a-z.+-]*\+)?json\b/i.test(type)) {
     return { ok: false, response: apiError(415, "unsupported_media_type", "Send the body as JSON with Content-Type: application/json.") };
@@ -49,7 +63,8 @@ export async function readJson<T>(request: Request, schema: { safeParse: (v: unk
   const declared = Number(request.headers.get("Content-Length") ?? 0);
   if (declared > MAX_JSON_BYTES) return { ok: false, response: apiError(413, "too_large", `The body may be at most ${MAX_JSON_BYTES / 1024} KiB.`) };
   const text = await request.text();
-  if (Buffer.byteLength(text) > MAX_JSON_BYTES) return { ok: false, response: apiError(413, "too_large", `The body may be at most ${MAX_JSON_BYTES / 1024} KiB.`) };
+  if (Buffer.byteLength(text) > MAX_JSON_BYTES)
+    return { ok: false, response: apiError(413, "too_large", `The body may be at most ${MAX_JSON_BYTES / 1024} KiB.`) };
   let value: unknown;
   try {
     value = JSON.parse(text);

@@ -4,8 +4,11 @@ import { Family } from "~db/models/index.ts";
 /** Resolve what a rider typed in the quick-jump box to one family slug: exact slug, exact name, or a single name match. */
 export async function resolveFamily(typed: string): Promise<string | null> {
   // Control characters (a NUL above all) never reach a query: Sequelize's SQLite dialect inlines string values.
-  // eslint-disable-next-line no-control-regex
-  const t = typed.replace(/[\u0000-\u001f\u007f]/g, "").trim().slice(0, 120);
+  const t = typed
+    // eslint-disable-next-line no-control-regex
+    .replace(/[\u0000-\u001f\u007f]/g, "")
+    .trim()
+    .slice(0, 120);
   if (!t) return null;
   const exact = await Family.findOne({ where: { [Op.or]: [{ slug: t.toLowerCase() }, { name: t }] } });
   if (exact) return exact.slug;

@@ -8,20 +8,51 @@ import { bikeChecks } from "./garage.server";
 import { photoUrls } from "./photos.server";
 import { isSlug } from "~/validation/library";
 
-export interface MakeSummary { slug: string; name: string; colourSystem: string; houseStyle: string; familyCount: number; blurb: string }
+export interface MakeSummary {
+  slug: string;
+  name: string;
+  colourSystem: string;
+  houseStyle: string;
+  familyCount: number;
+  blurb: string;
+}
 export interface FamilySummary {
-  slug: string; name: string; make: { slug: string; name: string }; yearFrom: number; yearTo: number; engine: string;
-  cylinders: number; firingOrder: string; ignition: string; displacementCc: number; modelRange: string; colourSystem: string; crankDeg: number | null;
-  systemVoltage: number; earth: "negative" | "positive";
+  slug: string;
+  name: string;
+  make: { slug: string; name: string };
+  yearFrom: number;
+  yearTo: number;
+  engine: string;
+  cylinders: number;
+  firingOrder: string;
+  ignition: string;
+  displacementCc: number;
+  modelRange: string;
+  colourSystem: string;
+  crankDeg: number | null;
+  systemVoltage: number;
+  earth: "negative" | "positive";
   /** The make's house style, when it belongs to the family's notation (API.md additions); null for the notation's usual reading. */
   houseStyle: HouseStyleId | null;
 }
 
 function familySummary(f: Family & { make?: Make }): FamilySummary {
   return {
-    slug: f.slug, name: f.name, make: { slug: f.make!.slug, name: f.make!.name }, yearFrom: f.yearFrom, yearTo: f.yearTo, engine: f.engine,
-    cylinders: f.cylinders, firingOrder: f.firingOrder, ignition: f.ignition, displacementCc: f.displacementCc, modelRange: f.modelRange,
-    colourSystem: f.colourSystem, crankDeg: f.crankDeg, systemVoltage: f.systemVoltage, earth: f.earth,
+    slug: f.slug,
+    name: f.name,
+    make: { slug: f.make!.slug, name: f.make!.name },
+    yearFrom: f.yearFrom,
+    yearTo: f.yearTo,
+    engine: f.engine,
+    cylinders: f.cylinders,
+    firingOrder: f.firingOrder,
+    ignition: f.ignition,
+    displacementCc: f.displacementCc,
+    modelRange: f.modelRange,
+    colourSystem: f.colourSystem,
+    crankDeg: f.crankDeg,
+    systemVoltage: f.systemVoltage,
+    earth: f.earth,
     houseStyle: houseFor(f.colourSystem, f.make!.houseStyle),
   };
 }
@@ -31,7 +62,14 @@ export async function listMakes(): Promise<MakeSummary[]> {
   const makes = await Make.findAll({ order: [["name", "ASC"]] });
   const counts = await Family.count({ group: ["make_id"] });
   const byMake = new Map((counts as unknown as { make_id: number; count: number }[]).map((c) => [c.make_id, c.count]));
-  return makes.map((m) => ({ slug: m.slug, name: m.name, colourSystem: m.colourSystem, houseStyle: m.houseStyle, familyCount: byMake.get(m.id) ?? 0, blurb: m.blurb }));
+  return makes.map((m) => ({
+    slug: m.slug,
+    name: m.name,
+    colourSystem: m.colourSystem,
+    houseStyle: m.houseStyle,
+    familyCount: byMake.get(m.id) ?? 0,
+    blurb: m.blurb,
+  }));
 }
 
 /** One make and its families, or null. */
@@ -39,8 +77,18 @@ export async function getMake(slug: string) {
   if (!isSlug(slug)) return null;
   const make = await Make.findOne({ where: { slug } });
   if (!make) return null;
-  const families = await Family.findAll({ where: { makeId: make.id }, include: [{ model: Make, as: "make" }], order: [["yearFrom", "ASC"], ["name", "ASC"]] });
-  return { make: { slug: make.slug, name: make.name, colourSystem: make.colourSystem, houseStyle: make.houseStyle, blurb: make.blurb }, families: families.map(familySummary) };
+  const families = await Family.findAll({
+    where: { makeId: make.id },
+    include: [{ model: Make, as: "make" }],
+    order: [
+      ["yearFrom", "ASC"],
+      ["name", "ASC"],
+    ],
+  });
+  return {
+    make: { slug: make.slug, name: make.name, colourSystem: make.colourSystem, houseStyle: make.houseStyle, blurb: make.blurb },
+    families: families.map(familySummary),
+  };
 }
 
 /** Families, optionally of one make and/or covering one model year. */
@@ -53,8 +101,15 @@ export async function listFamilies(q: { make?: string; year?: number; limit: num
 }
 
 export interface ConnectorSummary {
-  slug: string; name: string; pinCount: number; location: string; gender: string; housing: string; side: "component" | "loom";
-  layout: HousingLayout; paint: FacePaint[];
+  slug: string;
+  name: string;
+  pinCount: number;
+  location: string;
+  gender: string;
+  housing: string;
+  side: "component" | "loom";
+  layout: HousingLayout;
+  paint: FacePaint[];
 }
 export type FacePaint = CavityPaint;
 
@@ -64,7 +119,11 @@ function layoutOf(c: Connector): HousingLayout {
 
 /** The card's face paint (one rule for every face view: app/domain/face-paint.ts). */
 const paintFor = (pins: Pin[], system: ColourSystemId, houseStyle: HouseStyleId | null): FacePaint[] =>
-  facePaint(pins.map((p) => ({ cavity: p.cavity, code: p.colourCode })), system, houseStyle);
+  facePaint(
+    pins.map((p) => ({ cavity: p.cavity, code: p.colourCode })),
+    system,
+    houseStyle,
+  );
 
 /** A family with its systems and their connectors (thumbnails included), or null. */
 export async function getFamily(slug: string) {
@@ -79,13 +138,21 @@ export async function getFamily(slug: string) {
   const summary = (c: Connector): ConnectorSummary => {
     const own = pins.filter((p) => p.connectorId === c.id);
     return {
-      slug: c.slug, name: c.name, pinCount: own.length, location: c.location, gender: c.gender, housing: c.housing,
-      side: c.componentId ? "component" : "loom", layout: layoutOf(c), paint: paintFor(own, system, house),
+      slug: c.slug,
+      name: c.name,
+      pinCount: own.length,
+      location: c.location,
+      gender: c.gender,
+      housing: c.housing,
+      side: c.componentId ? "component" : "loom",
+      layout: layoutOf(c),
+      paint: paintFor(own, system, house),
     };
   };
   return {
     family: {
-      ...familySummary(family), blurb: family.blurb,
+      ...familySummary(family),
+      blurb: family.blurb,
       systems: systems.map((s) => ({ kind: s.kind, name: s.name, connectors: connectors.filter((c) => c.systemId === s.id).map(summary) })),
     },
   };
@@ -120,12 +187,20 @@ export async function getConnectorCard(slug: string) {
   const [destinations, checks] = await Promise.all([wireDestinations(pins), bikeChecks(c.id)]);
   const pinRows: PinRow[] = pins.map((p) => {
     const d = p.colourCode ? decodeColour(p.colourCode, colourSystem, { houseStyle }) : null;
-    const dest = owner ? [{ label: `into the ${owner.name.replace(/^./, (ch) => ch.toLowerCase())}`, connector: null, cavity: null }] : destinations.get(p.id) ?? [];
+    const dest = owner
+      ? [{ label: `into the ${owner.name.replace(/^./, (ch) => ch.toLowerCase())}`, connector: null, cavity: null }]
+      : (destinations.get(p.id) ?? []);
     const first = dest.find((x) => x.connector);
     return {
       cavity: p.cavity,
       colour: d?.ok
-        ? { code: p.colourCode, base: d.value.base?.name ?? d.value.colours[0] ?? null, tracers: d.value.tracers.map((t) => t.name), iec: d.value.iec, description: describeColour(d.value) }
+        ? {
+            code: p.colourCode,
+            base: d.value.base?.name ?? d.value.colours[0] ?? null,
+            tracers: d.value.tracers.map((t) => t.name),
+            iec: d.value.iec,
+            description: describeColour(d.value),
+          }
         : { code: p.colourCode, base: null, tracers: [], iec: null, description: p.colourCode ? "not understood in this family's notation" : "no wire" },
       circuit: p.circuit,
       terminal: p.terminal,
@@ -135,16 +210,49 @@ export async function getConnectorCard(slug: string) {
   });
   return {
     connector: {
-      slug: c.slug, name: c.name,
-      family: { slug: family.slug, name: family.name, make: { slug: family.make!.slug, name: family.make!.name }, yearFrom: family.yearFrom, yearTo: family.yearTo },
-      system: system.kind, systemName: system.name, location: c.location, gender: c.gender, housing: c.housing,
-      matesWith: mate?.slug ?? null, mateName: mate?.name ?? null, component: owner ? { name: owner.name, kind: owner.kind } : null,
-      colourSystem, houseStyle, layout: layoutOf(c), pins: pinRows,
+      slug: c.slug,
+      name: c.name,
+      family: {
+        slug: family.slug,
+        name: family.name,
+        make: { slug: family.make!.slug, name: family.make!.name },
+        yearFrom: family.yearFrom,
+        yearTo: family.yearTo,
+      },
+      system: system.kind,
+      systemName: system.name,
+      location: c.location,
+      gender: c.gender,
+      housing: c.housing,
+      matesWith: mate?.slug ?? null,
+      mateName: mate?.name ?? null,
+      component: owner ? { name: owner.name, kind: owner.kind } : null,
+      colourSystem,
+      houseStyle,
+      layout: layoutOf(c),
+      pins: pinRows,
       specs: specs.map((s) => ({
-        name: s.name, min: s.min, max: s.max, unit: s.unit, between: [s.betweenA, s.betweenB] as [string, string], atC: s.atC, source: s.source,
-        conditions: s.conditions, kind: s.kind, material: s.material,
+        name: s.name,
+        min: s.min,
+        max: s.max,
+        unit: s.unit,
+        between: [s.betweenA, s.betweenB] as [string, string],
+        atC: s.atC,
+        source: s.source,
+        conditions: s.conditions,
+        kind: s.kind,
+        material: s.material,
       })),
-      photos: photos.map((p) => ({ ...photoUrls(p.id), width: p.width, height: p.height, thumbWidth: p.thumbWidth, thumbHeight: p.thumbHeight, caption: p.caption, credit: p.credit, licence: p.licence })),
+      photos: photos.map((p) => ({
+        ...photoUrls(p.id),
+        width: p.width,
+        height: p.height,
+        thumbWidth: p.thumbWidth,
+        thumbHeight: p.thumbHeight,
+        caption: p.caption,
+        credit: p.credit,
+        licence: p.licence,
+      })),
       revisions: revisions.map((r) => ({ number: r.number, summary: r.summary, publishedAt: r.publishedAt.toISOString() })),
       notes: c.notes,
       revision: { number: c.revision, publishedAt: c.publishedAt.toISOString() },
@@ -168,7 +276,9 @@ async function wireDestinations(pins: Pin[]) {
   const farComponents = await Component.findAll({ where: { id: far.map((p) => p.componentId).filter((x): x is number => !!x) } });
   const splices = far.filter((p) => farComponents.find((c) => c.id === p.componentId)?.kind === "splice");
   const spliceIds = new Set(splices.map((s) => s.id));
-  const spliceWires = splices.length ? await Wire.findAll({ where: { [Op.or]: [{ fromPinId: splices.map((s) => s.id) }, { toPinId: splices.map((s) => s.id) }] } }) : [];
+  const spliceWires = splices.length
+    ? await Wire.findAll({ where: { [Op.or]: [{ fromPinId: splices.map((s) => s.id) }, { toPinId: splices.map((s) => s.id) }] } })
+    : [];
   const beyondIds = spliceWires.flatMap((w) => [w.fromPinId, w.toPinId]);
   const beyond = await Pin.findAll({ where: { id: beyondIds } });
   const allPins = new Map([...far, ...beyond].map((p) => [p.id, p]));
@@ -221,8 +331,18 @@ const csvCell = (v: unknown) => {
 /** The pin map as CSV with a header row. */
 export function cardCsv(card: ConnectorCard): string {
   const head = ["cavity", "colour_code", "base", "tracers", "iec", "circuit", "terminal", "goes_to_connector", "goes_to_cavity", "goes_to"];
-  const rows = card.pins.map((p) => [p.cavity, p.colour.code, p.colour.base, p.colour.tracers.join(" "), p.colour.iec, p.circuit, p.terminal,
-    p.goesTo?.connector, p.goesTo?.cavity, p.destinations.map((d) => d.label).join("; ")]);
+  const rows = card.pins.map((p) => [
+    p.cavity,
+    p.colour.code,
+    p.colour.base,
+    p.colour.tracers.join(" "),
+    p.colour.iec,
+    p.circuit,
+    p.terminal,
+    p.goesTo?.connector,
+    p.goesTo?.cavity,
+    p.destinations.map((d) => d.label).join("; "),
+  ]);
   return [head, ...rows].map((r) => r.map(csvCell).join(",")).join("\r\n") + "\r\n";
 }
 

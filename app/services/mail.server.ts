@@ -128,7 +128,18 @@ export async function enqueueMail(mail: OutgoingMail, transaction?: Transaction)
   );
 }
 
-type Claimed = { id: number; messageId: string; kind: string; toAddr: string; subject: string; text: string; html: string; attempts: number; createdAt: Date; leaseUntil: Date };
+type Claimed = {
+  id: number;
+  messageId: string;
+  kind: string;
+  toAddr: string;
+  subject: string;
+  text: string;
+  html: string;
+  attempts: number;
+  createdAt: Date;
+  leaseUntil: Date;
+};
 
 /** Take up to BATCH due rows (queued and due, or sending with an expired lease) under a fresh lease, atomically. */
 async function claim(now: Date): Promise<Claimed[]> {
@@ -140,7 +151,10 @@ async function claim(now: Date): Promise<Claimed[]> {
           { status: "sending", leaseUntil: { [Op.lt]: now } },
         ],
       },
-      order: [["nextAttemptAt", "ASC"], ["id", "ASC"]],
+      order: [
+        ["nextAttemptAt", "ASC"],
+        ["id", "ASC"],
+      ],
       limit: BATCH,
       transaction,
     });
@@ -148,8 +162,16 @@ async function claim(now: Date): Promise<Claimed[]> {
     const leaseUntil = new Date(now.getTime() + LEASE_MS);
     await MailOutbox.update({ status: "sending", leaseUntil }, { where: { id: due.map((r) => r.id) }, transaction });
     return due.map((r) => ({
-      id: r.id, messageId: r.messageId, kind: r.kind, toAddr: r.toAddr, subject: r.subject, text: r.text, html: r.html,
-      attempts: r.attempts, createdAt: r.createdAt, leaseUntil,
+      id: r.id,
+      messageId: r.messageId,
+      kind: r.kind,
+      toAddr: r.toAddr,
+      subject: r.subject,
+      text: r.text,
+      html: r.html,
+      attempts: r.attempts,
+      createdAt: r.createdAt,
+      leaseUntil,
     }));
   });
 }
@@ -167,7 +189,11 @@ function isPermanent(e: SmtpError): boolean {
 /** One short line for last_error and the log (log lines also lose addresses): code, SMTP reply, never credentials. */
 function describeError(e: SmtpError): string {
   const parts = [e.code, e.responseCode, e.message].filter((x) => x !== undefined && x !== "");
-  return parts.join(" ").replace(/\/\/[^/\s:@]*:[^/\s@]*@/g, "//***@").replace(/\s+/g, " ").slice(0, 300);
+  return parts
+    .join(" ")
+    .replace(/\/\/[^/\s:@]*:[^/\s@]*@/g, "//***@")
+    .replace(/\s+/g, " ")
+    .slice(0, 300);
 }
 
 function retryDelay(attempts: number): number {
@@ -185,7 +211,14 @@ async function settle(row: Claimed, values: Partial<InferAttributes<MailOutbox>>
     const [n] = await MailOutbox.update(values, { where, transaction });
     if (n === 1) {
       await AuditLog.create(
-        { actorId: null, action: "mail.failed", subjectType: "mail_outbox", subjectId: String(row.id), detail: JSON.stringify({ kind: row.kind, attempts: values.attempts, reason: flag }), at: at ?? new Date() },
+        {
+          actorId: null,
+          action: "mail.failed",
+          subjectType: "mail_outbox",
+          subjectId: String(row.id),
+          detail: JSON.stringify({ kind: row.kind, attempts: values.attempts, reason: flag }),
+          at: at ?? new Date(),
+        },
         { transaction },
       );
     }

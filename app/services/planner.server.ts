@@ -3,7 +3,14 @@ import { cutListCsv, planLoom, type PlanResult } from "~/domain/loom-planner";
 import type { ColourSystemId } from "~/domain/colours";
 import { plannerData } from "./circuits.server";
 
-export interface PlanQuery { family: string; keep: string[] | null; scheme: "factory" | "simple"; tempC: number; lengthsM: Record<string, number>; year: number | null }
+export interface PlanQuery {
+  family: string;
+  keep: string[] | null;
+  scheme: "factory" | "simple";
+  tempC: number;
+  lengthsM: Record<string, number>;
+  year: number | null;
+}
 
 /** Parse the planner's query string: ?family=&keep=…&keep=…&scheme=&tempC=&year=&len_w12=1.4 (planned=<family> marks a submitted form). */
 export function parsePlanQuery(url: URL): { query: PlanQuery; errors: Record<string, string> } {
@@ -50,8 +57,10 @@ export async function planFor(query: PlanQuery) {
   const data = await plannerData(query.family);
   if (!data) return null;
   const keep = query.keep ?? data.circuits.map((c) => c.slug);
-  const yearError = query.year !== null && (query.year < data.family.yearFrom || query.year > data.family.yearTo)
-    ? `The ${data.family.name} was built ${data.family.yearFrom}–${data.family.yearTo}; ${query.year} is outside that.` : null;
+  const yearError =
+    query.year !== null && (query.year < data.family.yearFrom || query.year > data.family.yearTo)
+      ? `The ${data.family.name} was built ${data.family.yearFrom}–${data.family.yearTo}; ${query.year} is outside that.`
+      : null;
   let result = null as ReturnType<typeof planLoom> | null;
   if (keep.length && data.input && !yearError) {
     const key = JSON.stringify([[...keep].sort(), query.scheme, query.tempC, query.lengthsM]);
@@ -59,7 +68,14 @@ export async function planFor(query: PlanQuery) {
     if (!cache) caches.set(data.input.network, (cache = new Map()));
     result = cache.get(key) ?? null;
     if (!result) {
-      result = planLoom({ ...data.input, keep, scheme: query.scheme, notation: data.family.colourSystem as ColourSystemId, lengthsM: query.lengthsM, tempC: query.tempC });
+      result = planLoom({
+        ...data.input,
+        keep,
+        scheme: query.scheme,
+        notation: data.family.colourSystem as ColourSystemId,
+        lengthsM: query.lengthsM,
+        tempC: query.tempC,
+      });
       if (cache.size >= CACHE_MAX) cache.delete(cache.keys().next().value!);
       cache.set(key, result);
     }

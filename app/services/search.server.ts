@@ -71,7 +71,15 @@ export async function configureIndex(client = workClient()): Promise<void> {
     if ((e as { cause?: { code?: string } }).cause?.code !== "index_not_found") throw e;
     await waitOk(await client.createIndex(SEARCH_INDEX, { primaryKey: "id" }), client);
   }
-  await waitOk(await client.index(SEARCH_INDEX).updateSettings({ ...SEARCH_SETTINGS, searchableAttributes: [...SEARCH_SETTINGS.searchableAttributes], filterableAttributes: [...SEARCH_SETTINGS.filterableAttributes], sortableAttributes: [...SEARCH_SETTINGS.sortableAttributes] }), client);
+  await waitOk(
+    await client.index(SEARCH_INDEX).updateSettings({
+      ...SEARCH_SETTINGS,
+      searchableAttributes: [...SEARCH_SETTINGS.searchableAttributes],
+      filterableAttributes: [...SEARCH_SETTINGS.filterableAttributes],
+      sortableAttributes: [...SEARCH_SETTINGS.sortableAttributes],
+    }),
+    client,
+  );
 }
 
 /** Send documents in batches and wait until the service has them. */
@@ -102,7 +110,8 @@ async function lastJobId(): Promise<number> {
  * (Marking every undone job done let an approval that landed mid-reconcile never reach the index.)
  */
 async function markCovered(covered: number): Promise<void> {
-  if (covered > 0) await sequelize.transaction((transaction) => IndexJob.update({ doneAt: new Date() }, { where: { doneAt: null, id: { [Op.lte]: covered } }, transaction }));
+  if (covered > 0)
+    await sequelize.transaction((transaction) => IndexJob.update({ doneAt: new Date() }, { where: { doneAt: null, id: { [Op.lte]: covered } }, transaction }));
 }
 
 /** Push the outstanding index jobs to the service (oldest first); a job stays until the service has taken it. */
@@ -164,7 +173,18 @@ export function startSearchWorker(): void {
   // index that came up empty after the app would hold only what later jobs sent, until the next app start.
   let busy = true;
   let reconciled = false;
-  pass = reconcile().then(() => { reconciled = true; }, () => { /* service away: retried below */ }).finally(() => { busy = false; });
+  pass = reconcile()
+    .then(
+      () => {
+        reconciled = true;
+      },
+      () => {
+        /* service away: retried below */
+      },
+    )
+    .finally(() => {
+      busy = false;
+    });
   worker = setInterval(() => {
     if (busy) return;
     busy = true;
@@ -194,19 +214,52 @@ export async function stopSearchWorker(): Promise<void> {
 
 // --- searching --------------------------------------------------------------------------------------------------------
 
-export interface SearchQuery { q: string; type?: SearchDocType; make?: string; family?: string; system?: string; pins?: number; limit: number; offset: number }
-export interface SearchHit { type: SearchDocType; slug: string; cavity: string | null; title: string; subtitle: string; url: string; family: string; make: string }
+export interface SearchQuery {
+  q: string;
+  type?: SearchDocType;
+  make?: string;
+  family?: string;
+  system?: string;
+  pins?: number;
+  limit: number;
+  offset: number;
+}
+export interface SearchHit {
+  type: SearchDocType;
+  slug: string;
+  cavity: string | null;
+  title: string;
+  subtitle: string;
+  url: string;
+  family: string;
+  make: string;
+}
 export interface SearchResult {
   hits: SearchHit[];
   total: number;
-  facets: { type: Record<string, number>; make: Record<string, number>; family: Record<string, number>; system: Record<string, number>; pinCount: Record<string, number> };
+  facets: {
+    type: Record<string, number>;
+    make: Record<string, number>;
+    family: Record<string, number>;
+    system: Record<string, number>;
+    pinCount: Record<string, number>;
+  };
   source: "index" | "database";
   tookMs: number;
 }
 
 const quote = (s: string) => `"${s.replace(/["\\]/g, "")}"`;
 const HIT_FIELDS = ["type", "slug", "cavity", "title", "subtitle", "url", "family", "make"] as const satisfies readonly (keyof SearchHit)[];
-const hitOf = (d: Pick<SearchDoc, (typeof HIT_FIELDS)[number]>): SearchHit => ({ type: d.type, slug: d.slug, cavity: d.cavity ?? null, title: d.title, subtitle: d.subtitle, url: d.url, family: d.family, make: d.make });
+const hitOf = (d: Pick<SearchDoc, (typeof HIT_FIELDS)[number]>): SearchHit => ({
+  type: d.type,
+  slug: d.slug,
+  cavity: d.cavity ?? null,
+  title: d.title,
+  subtitle: d.subtitle,
+  url: d.url,
+  family: d.family,
+  make: d.make,
+});
 
 /** The library search: the service when it answers in time, else the database (says which in `source`). */
 export async function searchLibrary(q: SearchQuery): Promise<SearchResult> {
@@ -234,7 +287,11 @@ async function fromService(q: SearchQuery): Promise<Omit<SearchResult, "source" 
   // Only the fields a hit shows come back: the documents' code, colour and year lists would be serialized and parsed
   // on every keystroke for nothing.
   const params: SearchParams = {
-    filter, facets: ["type", "makeSlug", "familySlug", "system", "pinCount"], limit: q.limit, offset: q.offset, attributesToRetrieve: [...HIT_FIELDS],
+    filter,
+    facets: ["type", "makeSlug", "familySlug", "system", "pinCount"],
+    limit: q.limit,
+    offset: q.offset,
+    attributesToRetrieve: [...HIT_FIELDS],
   };
   const r = await searchClient().index(SEARCH_INDEX).search<SearchDoc>(q.q, params);
   const fd = (r.facetDistribution ?? {}) as Record<string, Record<string, number>>;
@@ -248,29 +305,59 @@ async function fromService(q: SearchQuery): Promise<Omit<SearchResult, "source" 
 /** search_fts's columns before `title` (db/migrations/2026-12-01-05-search-prefix.ts): id, type, slug, make_slug, family_slug, system, pin_count, version, doc. */
 const FTS_UNINDEXED_WEIGHTS = "0, ".repeat(9);
 /** The facets the fallback counts, and their columns (in search_facets, and the same names in search_fts). */
-const FACET_COLUMNS = [["type", "type"], ["make", "make_slug"], ["family", "family_slug"], ["system", "system"], ["pinCount", "pin_count"]] as const;
+const FACET_COLUMNS = [
+  ["type", "type"],
+  ["make", "make_slug"],
+  ["family", "family_slug"],
+  ["system", "system"],
+  ["pinCount", "pin_count"],
+] as const;
 
 /** The FTS5 fallback: every word as a prefix, all of them required; ranked by bm25 with the title weighted up. */
 async function fromDatabase(q: SearchQuery): Promise<Omit<SearchResult, "source" | "tookMs">> {
-  const words = q.q.normalize("NFKC").split(/\s+/).map((w) => w.replace(/["*^():{}[\]\\]/g, "").trim()).filter(Boolean).slice(0, 12);
+  const words = q.q
+    .normalize("NFKC")
+    .split(/\s+/)
+    .map((w) => w.replace(/["*^():{}[\]\\]/g, "").trim())
+    .filter(Boolean)
+    .slice(0, 12);
   const match = words.length ? words.map((w) => `"${w}"*`).join(" AND ") : null;
   // the filters, on columns both tables have
   const filters: string[] = [];
   const filterParams: unknown[] = [];
-  if (q.type) { filters.push("type = ?"); filterParams.push(q.type); }
-  if (q.make) { filters.push("make_slug = ?"); filterParams.push(q.make); }
-  if (q.family) { filters.push("family_slug = ?"); filterParams.push(q.family); }
-  if (q.system) { filters.push("system = ?"); filterParams.push(q.system); }
-  if (q.pins !== undefined) { filters.push("pin_count = ?"); filterParams.push(q.pins); }
+  if (q.type) {
+    filters.push("type = ?");
+    filterParams.push(q.type);
+  }
+  if (q.make) {
+    filters.push("make_slug = ?");
+    filterParams.push(q.make);
+  }
+  if (q.family) {
+    filters.push("family_slug = ?");
+    filterParams.push(q.family);
+  }
+  if (q.system) {
+    filters.push("system = ?");
+    filterParams.push(q.system);
+  }
+  if (q.pins !== undefined) {
+    filters.push("pin_count = ?");
+    filterParams.push(q.pins);
+  }
   const where = (conditions: string[]) => (conditions.length ? `WHERE ${conditions.join(" AND ")}` : "");
 
   // bm25() takes one weight per column in declaration order, the UNINDEXED ones included (sqlite.org/fts5.html, "The
   // bm25() function"): the nine stored-only columns get 0, then title 10 and body 3. Given as (10.0, 3.0) alone, the
   // weights landed on `id` and `type` and title and body both ranked at the default 1.0.
   const order = match ? `ORDER BY bm25(search_fts, ${FTS_UNINDEXED_WEIGHTS}10.0, 3.0), rowid` : "ORDER BY rowid";
-  const rows = await sequelize.query<{ doc: string }>(`SELECT doc FROM search_fts ${where(match ? ["search_fts MATCH ?", ...filters] : filters)} ${order} LIMIT ? OFFSET ?`, {
-    replacements: [...(match ? [match] : []), ...filterParams, q.limit, q.offset], type: QueryTypes.SELECT,
-  });
+  const rows = await sequelize.query<{ doc: string }>(
+    `SELECT doc FROM search_fts ${where(match ? ["search_fts MATCH ?", ...filters] : filters)} ${order} LIMIT ? OFFSET ?`,
+    {
+      replacements: [...(match ? [match] : []), ...filterParams, q.limit, q.offset],
+      type: QueryTypes.SELECT,
+    },
+  );
   // All five facets from one pass over the matches' rows in the narrow search_facets table (the FTS5 content rows
   // hold whole documents): read once into a materialized CTE, grouped five times. Measured on invented cards
   // (tests/perf/search.bench.ts; SQLite alone, 10 000 cards): facet p95 ~29 ms from the FTS rows, ~14 ms from here.

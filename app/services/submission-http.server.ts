@@ -14,6 +14,9 @@ export function submissionApiError(e: unknown): Response {
 
 /** SQLITE_BUSY (another writer held the database past busy_timeout) or SQLITE_FULL: retryable, never a 500. */
 export function isBusyOrFull(e: unknown): boolean {
-  const code = (e as { parent?: { code?: string }; original?: { code?: string }; code?: string })?.parent?.code ?? (e as { original?: { code?: string } })?.original?.code ?? (e as { code?: string })?.code;
+  const code =
+    (e as { parent?: { code?: string }; original?: { code?: string }; code?: string })?.parent?.code ??
+    (e as { original?: { code?: string } })?.original?.code ??
+    (e as { code?: string })?.code;
   return code === "SQLITE_BUSY" || code === "SQLITE_FULL";
 }

@@ -11,7 +11,13 @@ export { SubmissionError, submissionErrorResponse } from "./submissions/errors.s
 export { setDecisionFaultHook } from "./submissions/faults.server";
 export { newIdempotencyKey, startSubmission, updateSubmission, type StartInput, type UpdateInput } from "./submissions/editing.server";
 export {
-  listSubmissions, ownsSubmission, reviewQueue, submissionJson, viewSubmission, type ListQuery, type SubmissionView,
+  listSubmissions,
+  ownsSubmission,
+  reviewQueue,
+  submissionJson,
+  viewSubmission,
+  type ListQuery,
+  type SubmissionView,
 } from "./submissions/reading.server";
 export { decide, type Decision } from "./submissions/review.server";
 export { closeReport, viewReport } from "./submissions/reports.server";

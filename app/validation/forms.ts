@@ -26,13 +26,17 @@ export function fieldErrors(issues: Issue[]): Record<string, string> {
 export function issueSentence(issues: Issue[]): { message: string; field: string | undefined } {
   const first = issues[0];
   const field = first?.path.map(String).join(".") || undefined;
-  return { message: field ? `${field}: ${first!.message}` : first?.message ?? "The request was not understood.", field };
+  return { message: field ? `${field}: ${first!.message}` : (first?.message ?? "The request was not understood."), field };
 }
 
 /**
  * What every page action answers: a line to show when it worked (`done`), the problems by field (`form` for the whole
  * form) and the values to put back in the form. One shape, so every page shows results the same way.
  */
-export interface ActionResult { done: string; errors: Record<string, string>; values: Record<string, string> }
+export interface ActionResult {
+  done: string;
+  errors: Record<string, string>;
+  values: Record<string, string>;
+}
 export const answered = (done: string): ActionResult => ({ done, errors: {}, values: {} });
 export const refusal = (errors: Record<string, string>, values: Record<string, string> = {}): ActionResult => ({ done: "", errors, values });

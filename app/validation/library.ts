@@ -43,8 +43,12 @@ export function searchParams(request: Request): Record<string, string> {
 
 /** GET /api/v1/search and /search: the words typed, optional filters (all links on the page), a page of results. */
 export const searchQuery = pageQuery.extend({
-  // eslint-disable-next-line no-control-regex -- control characters are what this checks for
-  q: z.string().max(200, "is too long for a search").default("").transform((s) => s.replace(/[\u0000-\u001f\u007f]/g, " ").trim()),
+  q: z
+    .string()
+    .max(200, "is too long for a search")
+    .default("")
+    // eslint-disable-next-line no-control-regex -- control characters are what this checks for
+    .transform((s) => s.replace(/[\u0000-\u001f\u007f]/g, " ").trim()),
   type: z.enum(["family", "connector", "pin"]).optional(),
   make: slug.optional(),
   family: slug.optional(),

@@ -7,7 +7,11 @@ import { z } from "zod";
 import { isSlug } from "./library";
 
 const text = (max: number) => z.string().max(max).optional().catch(undefined);
-const slugOrNone = z.string().optional().transform((v) => (isSlug(v) ? v : undefined)).catch(undefined);
+const slugOrNone = z
+  .string()
+  .optional()
+  .transform((v) => (isSlug(v) ? v : undefined))
+  .catch(undefined);
 
 /** /connectors/:connector?view=mating|wire&cavity=…&published=<revision> */
 export const cardPageQuery = z.object({

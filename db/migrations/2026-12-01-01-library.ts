@@ -2,7 +2,10 @@ import { DataTypes, type QueryInterface } from "sequelize";
 
 const id = { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true };
 const ref = (table: string, allowNull = false, onDelete = "CASCADE") => ({
-  type: DataTypes.INTEGER, allowNull, references: { model: table, key: "id" }, onDelete,
+  type: DataTypes.INTEGER,
+  allowNull,
+  references: { model: table, key: "id" },
+  onDelete,
 });
 
 /** The library and its loom graph: makes → families → systems → connectors → pins, wires, links, circuits. */
@@ -81,9 +84,7 @@ export async function up({ context: q }: { context: QueryInterface }) {
   });
   // A cavity holds one pin; a bare component terminal exists once.
   await q.sequelize.query("CREATE UNIQUE INDEX pins_connector_cavity ON pins (connector_id, cavity) WHERE connector_id IS NOT NULL");
-  await q.sequelize.query(
-    "CREATE UNIQUE INDEX pins_component_terminal ON pins (component_id, cavity) WHERE connector_id IS NULL",
-  );
+  await q.sequelize.query("CREATE UNIQUE INDEX pins_component_terminal ON pins (component_id, cavity) WHERE connector_id IS NULL");
   await q.createTable("wires", {
     id,
     family_id: ref("families"),
@@ -143,8 +144,7 @@ export async function up({ context: q }: { context: QueryInterface }) {
 
 /** Drop the library tables, children first. */
 export async function down({ context: q }: { context: QueryInterface }) {
-  for (const t of ["revisions", "spec_values", "circuits", "component_links", "wires", "pins", "connectors",
-    "components", "systems", "families", "makes"]) {
+  for (const t of ["revisions", "spec_values", "circuits", "component_links", "wires", "pins", "connectors", "components", "systems", "families", "makes"]) {
     await q.dropTable(t);
   }
 }

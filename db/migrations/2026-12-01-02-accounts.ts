@@ -2,7 +2,10 @@ import { DataTypes, type QueryInterface } from "sequelize";
 
 const id = { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true };
 const ref = (table: string, allowNull = false, onDelete = "CASCADE") => ({
-  type: DataTypes.INTEGER, allowNull, references: { model: table, key: "id" }, onDelete,
+  type: DataTypes.INTEGER,
+  allowNull,
+  references: { model: table, key: "id" },
+  onDelete,
 });
 const at = (allowNull = false) => ({ type: DataTypes.DATE, allowNull });
 

@@ -47,7 +47,13 @@ export async function down({ context: q }: { context: QueryInterface }) {
   await run(`INSERT INTO spec_values_old SELECT id, connector_id, name, min, COALESCE(max, 1e12), unit, between_a, between_b, at_c, source FROM spec_values`);
   await run("DROP TABLE spec_values");
   await run("ALTER TABLE spec_values_old RENAME TO spec_values");
-  for (const [table, column] of [["pins", "fitting"], ["component_links", "params"], ["families", "earth"], ["families", "system_voltage"], ["makes", "house_style"]]) {
+  for (const [table, column] of [
+    ["pins", "fitting"],
+    ["component_links", "params"],
+    ["families", "earth"],
+    ["families", "system_voltage"],
+    ["makes", "house_style"],
+  ]) {
     await run(`ALTER TABLE ${table} DROP COLUMN ${column}`);
   }
 }

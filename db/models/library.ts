@@ -1,6 +1,4 @@
-import {
-  DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute,
-} from "sequelize";
+import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute } from "sequelize";
 import type { LinkParams } from "../../app/domain/electrics.ts";
 import { sequelize } from "../index.server.ts";
 

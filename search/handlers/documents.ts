@@ -29,19 +29,39 @@ export const listDocuments: Handler = ({ res, params, uid, state: { indexes } })
   );
 };
 
-export const deleteAllDocuments: Handler = ({ res, uid, state: { tasks: { enqueue } } }) => {
+export const deleteAllDocuments: Handler = ({
+  res,
+  uid,
+  state: {
+    tasks: { enqueue },
+  },
+}) => {
   send(res, 202, enqueued(enqueue("documentDeletion", uid, { providedIds: 0, deletedDocuments: null, originalFilter: null }, { kind: "deleteAll" })));
 };
 
 /** POST adds (replaces), PUT updates (merges). */
-export const addDocuments: Handler = async ({ req, res, method, params, uid, state: { tasks: { enqueue } } }) => {
+export const addDocuments: Handler = async ({
+  req,
+  res,
+  method,
+  params,
+  uid,
+  state: {
+    tasks: { enqueue },
+  },
+}) => {
   const docs = await documentsBody(req);
   const pkParam = params.get("primaryKey");
   send(
     res,
     202,
     enqueued(
-      enqueue("documentAdditionOrUpdate", uid, { receivedDocuments: docs.length, indexedDocuments: null }, { kind: "documents", docs, primaryKey: pkParam, merge: method === "PUT" }),
+      enqueue(
+        "documentAdditionOrUpdate",
+        uid,
+        { receivedDocuments: docs.length, indexedDocuments: null },
+        { kind: "documents", docs, primaryKey: pkParam, merge: method === "PUT" },
+      ),
     ),
   );
 };
@@ -72,16 +92,34 @@ export const fetchDocuments: Handler = async ({ req, res, uid, state: { indexes 
   );
 };
 
-export const deleteDocumentBatch: Handler = async ({ req, res, uid, state: { tasks: { enqueue } } }) => {
+export const deleteDocumentBatch: Handler = async ({
+  req,
+  res,
+  uid,
+  state: {
+    tasks: { enqueue },
+  },
+}) => {
   const body = await jsonBody(req);
   if (!Array.isArray(body) || body.some((id) => typeof id !== "string" && typeof id !== "number")) {
     throw new ApiError(400, "bad_request", `Json deserialize error: invalid type: ${typeName(body)}, expected a sequence of document ids`);
   }
   const ids = body.map((id) => String(id));
-  send(res, 202, enqueued(enqueue("documentDeletion", uid, { providedIds: ids.length, deletedDocuments: null, originalFilter: null }, { kind: "deleteIds", ids })));
+  send(
+    res,
+    202,
+    enqueued(enqueue("documentDeletion", uid, { providedIds: ids.length, deletedDocuments: null, originalFilter: null }, { kind: "deleteIds", ids })),
+  );
 };
 
-export const deleteDocumentsByFilter: Handler = async ({ req, res, uid, state: { tasks: { enqueue } } }) => {
+export const deleteDocumentsByFilter: Handler = async ({
+  req,
+  res,
+  uid,
+  state: {
+    tasks: { enqueue },
+  },
+}) => {
   const body = asObject(await jsonBody(req));
   rejectUnknown(body, ["filter"]);
   if (body.filter === undefined || body.filter === null) throw new ApiError(400, "missing_document_filter", "Missing field `filter`");
@@ -94,7 +132,14 @@ export const deleteDocumentsByFilter: Handler = async ({ req, res, uid, state: {
   send(
     res,
     202,
-    enqueued(enqueue("documentDeletion", uid, { providedIds: 0, deletedDocuments: null, originalFilter: JSON.stringify(body.filter) }, { kind: "deleteFilter", filter: body.filter })),
+    enqueued(
+      enqueue(
+        "documentDeletion",
+        uid,
+        { providedIds: 0, deletedDocuments: null, originalFilter: JSON.stringify(body.filter) },
+        { kind: "deleteFilter", filter: body.filter },
+      ),
+    ),
   );
 };
 
@@ -107,12 +152,26 @@ export const getDocument: Handler = ({ res, params, segs, uid, state: { indexes 
   send(res, 200, index.project(doc, fields === null ? null : fields.split(",").map((s) => s.trim())));
 };
 
-export const deleteDocument: Handler = ({ res, segs, uid, state: { tasks: { enqueue } } }) => {
+export const deleteDocument: Handler = ({
+  res,
+  segs,
+  uid,
+  state: {
+    tasks: { enqueue },
+  },
+}) => {
   const id = decodeURIComponent(segs[3]);
-  send(res, 202, enqueued(enqueue("documentDeletion", uid, { providedIds: 1, deletedDocuments: null, originalFilter: null }, { kind: "deleteIds", ids: [id] })));
+  send(
+    res,
+    202,
+    enqueued(enqueue("documentDeletion", uid, { providedIds: 1, deletedDocuments: null, originalFilter: null }, { kind: "deleteIds", ids: [id] })),
+  );
 };
 
-function documentsList(index: SearchIndex, q: { offset: number; limit: number; fields: string[] | null; filter: unknown; ids: unknown[] | null; sort: string[] | null }) {
+function documentsList(
+  index: SearchIndex,
+  q: { offset: number; limit: number; fields: string[] | null; filter: unknown; ids: unknown[] | null; sort: string[] | null },
+) {
   let filter = null;
   if (q.filter !== undefined && q.filter !== null) {
     filter = compileFilter(q.filter, filterablePatterns(index.settings), index.primaryKey, "invalid_document_filter");
@@ -126,9 +185,18 @@ function documentsList(index: SearchIndex, q: { offset: number; limit: number; f
   if (q.sort?.length) {
     const specs = q.sort.map((s) => {
       const m = /^(.+):(asc|desc)$/.exec(s.trim());
-      if (!m) throw new ApiError(400, "invalid_document_sort", `Invalid syntax for the sort parameter: expected expression ending by \`:asc\` or \`:desc\`, found \`${s}\`.`);
+      if (!m)
+        throw new ApiError(
+          400,
+          "invalid_document_sort",
+          `Invalid syntax for the sort parameter: expected expression ending by \`:asc\` or \`:desc\`, found \`${s}\`.`,
+        );
       if (!attributeAllowed(m[1], index.settings.sortableAttributes)) {
-        throw new ApiError(400, "invalid_document_sort", `Attribute \`${m[1]}\` is not sortable. Available sortable attributes are: \`${index.settings.sortableAttributes.join(", ")}\`.`);
+        throw new ApiError(
+          400,
+          "invalid_document_sort",
+          `Attribute \`${m[1]}\` is not sortable. Available sortable attributes are: \`${index.settings.sortableAttributes.join(", ")}\`.`,
+        );
       }
       return { attribute: m[1], desc: m[2] === "desc" };
     });

@@ -14,7 +14,13 @@ export const listIndexes: Handler = ({ res, params, state: { indexes } }) => {
   send(res, 200, { results: all.slice(offset, offset + limit).map((i) => i.info()), offset, limit, total: all.length });
 };
 
-export const createIndex: Handler = async ({ req, res, state: { tasks: { enqueue } } }) => {
+export const createIndex: Handler = async ({
+  req,
+  res,
+  state: {
+    tasks: { enqueue },
+  },
+}) => {
   const body = asObject(await jsonBody(req));
   rejectUnknown(body, ["uid", "primaryKey"]);
   if (body.uid === undefined) throw new ApiError(400, "missing_index_uid", "Missing field `uid`");
@@ -28,7 +34,14 @@ export const getIndex: Handler = ({ res, uid, state: { indexes } }) => {
   send(res, 200, requireIndex(indexes, uid).info());
 };
 
-export const updateIndex: Handler = async ({ req, res, uid, state: { tasks: { enqueue } } }) => {
+export const updateIndex: Handler = async ({
+  req,
+  res,
+  uid,
+  state: {
+    tasks: { enqueue },
+  },
+}) => {
   const body = asObject(await jsonBody(req));
   rejectUnknown(body, ["primaryKey", "uid"]);
   const pk = body.primaryKey ?? null;
@@ -36,11 +49,24 @@ export const updateIndex: Handler = async ({ req, res, uid, state: { tasks: { en
   send(res, 202, enqueued(enqueue("indexUpdate", uid, { primaryKey: pk }, { kind: "updateIndex", primaryKey: pk as string | null })));
 };
 
-export const deleteIndex: Handler = ({ res, uid, state: { tasks: { enqueue } } }) => {
+export const deleteIndex: Handler = ({
+  res,
+  uid,
+  state: {
+    tasks: { enqueue },
+  },
+}) => {
   send(res, 202, enqueued(enqueue("indexDeletion", uid, { deletedDocuments: null }, { kind: "deleteIndex" })));
 };
 
-export const indexStats: Handler = ({ res, uid, state: { indexes, tasks: { queue } } }) => {
+export const indexStats: Handler = ({
+  res,
+  uid,
+  state: {
+    indexes,
+    tasks: { queue },
+  },
+}) => {
   const index = requireIndex(indexes, uid);
   const fieldDistribution: Record<string, number> = {};
   for (const d of index.docs.values()) for (const k of Object.keys(d)) fieldDistribution[k] = (fieldDistribution[k] ?? 0) + 1;

@@ -14,12 +14,38 @@ export const search: Handler = async ({ req, res, method, params, uid, state }) 
 };
 
 const SEARCH_FIELDS = [
-  "q", "offset", "limit", "page", "hitsPerPage", "filter", "facets", "sort", "attributesToRetrieve", "attributesToHighlight",
-  "highlightPreTag", "highlightPostTag", "attributesToCrop", "cropLength", "cropMarker", "showMatchesPosition",
-  "matchingStrategy", "showRankingScore", "showRankingScoreDetails", "rankingScoreThreshold", "attributesToSearchOn",
-  "distinct", "vector", "hybrid", "retrieveVectors", "locales", "showPerformanceDetails", "media", "personalize",
+  "q",
+  "offset",
+  "limit",
+  "page",
+  "hitsPerPage",
+  "filter",
+  "facets",
+  "sort",
+  "attributesToRetrieve",
+  "attributesToHighlight",
+  "highlightPreTag",
+  "highlightPostTag",
+  "attributesToCrop",
+  "cropLength",
+  "cropMarker",
+  "showMatchesPosition",
+  "matchingStrategy",
+  "showRankingScore",
+  "showRankingScoreDetails",
+  "rankingScoreThreshold",
+  "attributesToSearchOn",
+  "distinct",
+  "vector",
+  "hybrid",
+  "retrieveVectors",
+  "locales",
+  "showPerformanceDetails",
+  "media",
+  "personalize",
   // GET spellings of `hybrid` (accepted, like the vector options, and ignored: the stand-in has no embedders)
-  "hybridEmbedder", "hybridSemanticRatio",
+  "hybridEmbedder",
+  "hybridSemanticRatio",
 ] as const;
 
 /** Validate a search body (POST) or the query parameters already parsed from GET. */
@@ -28,7 +54,8 @@ function searchRequest(raw: Record<string, unknown>): SearchRequest {
   const r: SearchRequest = {};
   const strings = (field: string, v: unknown): string[] | undefined => {
     if (v === null || v === undefined) return undefined;
-    if (!Array.isArray(v) || v.some((x) => typeof x !== "string")) badType(`invalid_search_${field.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`)}`, field, "an array", v);
+    if (!Array.isArray(v) || v.some((x) => typeof x !== "string"))
+      badType(`invalid_search_${field.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`)}`, field, "an array", v);
     return v as string[];
   };
   if (raw.q !== undefined && raw.q !== null && typeof raw.q !== "string") badType("invalid_search_q", "q", "a string", raw.q);
@@ -37,7 +64,11 @@ function searchRequest(raw: Record<string, unknown>): SearchRequest {
     if (raw[f] !== undefined && raw[f] !== null) r[f] = nonNegativeInt(`invalid_search_${f.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`)}`, f, raw[f]);
   }
   if (raw.filter !== undefined && raw.filter !== null && typeof raw.filter !== "string" && !Array.isArray(raw.filter)) {
-    throw new ApiError(400, "invalid_search_filter", `Invalid syntax for the filter parameter: \`expected String, Array, found: ${JSON.stringify(raw.filter)}\`.`);
+    throw new ApiError(
+      400,
+      "invalid_search_filter",
+      `Invalid syntax for the filter parameter: \`expected String, Array, found: ${JSON.stringify(raw.filter)}\`.`,
+    );
   }
   r.filter = raw.filter;
   r.facets = strings("facets", raw.facets);
@@ -54,7 +85,11 @@ function searchRequest(raw: Record<string, unknown>): SearchRequest {
   }
   if (raw.matchingStrategy !== undefined && raw.matchingStrategy !== null) {
     if (!["last", "all", "frequency"].includes(raw.matchingStrategy as string)) {
-      throw new ApiError(400, "invalid_search_matching_strategy", `Unknown value \`${String(raw.matchingStrategy)}\` at \`.matchingStrategy\`: expected one of \`last\`, \`all\`, \`frequency\``);
+      throw new ApiError(
+        400,
+        "invalid_search_matching_strategy",
+        `Unknown value \`${String(raw.matchingStrategy)}\` at \`.matchingStrategy\`: expected one of \`last\`, \`all\`, \`frequency\``,
+      );
     }
     r.matchingStrategy = raw.matchingStrategy as SearchRequest["matchingStrategy"];
   }
@@ -76,11 +111,20 @@ function searchParamsFromQuery(params: URLSearchParams): Record<string, unknown>
     else if (numbers.has(k)) {
       const n = Number(v);
       if (v.trim() === "" || !Number.isFinite(n)) {
-        throw new ApiError(400, `invalid_search_${k.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`)}`, `Invalid value in parameter \`${k}\`: could not parse \`${v}\` as a positive integer`);
+        throw new ApiError(
+          400,
+          `invalid_search_${k.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`)}`,
+          `Invalid value in parameter \`${k}\`: could not parse \`${v}\` as a positive integer`,
+        );
       }
       out[k] = n;
     } else if (booleans.has(k)) {
-      if (v !== "true" && v !== "false") throw new ApiError(400, "bad_request", `Invalid value in parameter \`${k}\`: could not parse \`${v}\` as a boolean, expected either \`true\` or \`false\``);
+      if (v !== "true" && v !== "false")
+        throw new ApiError(
+          400,
+          "bad_request",
+          `Invalid value in parameter \`${k}\`: could not parse \`${v}\` as a boolean, expected either \`true\` or \`false\``,
+        );
       out[k] = v === "true";
     } else out[k] = v;
   }

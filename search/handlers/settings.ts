@@ -13,7 +13,15 @@ export const getSettings: Handler = ({ res, uid, state: { indexes } }) => {
 };
 
 /** PATCH: the given settings; DELETE: every setting back to its default. */
-export const updateSettings: Handler = async ({ req, res, method, uid, state: { tasks: { enqueue } } }) => {
+export const updateSettings: Handler = async ({
+  req,
+  res,
+  method,
+  uid,
+  state: {
+    tasks: { enqueue },
+  },
+}) => {
   let settings: Record<string, unknown>;
   if (method === "PATCH") {
     settings = asObject(await jsonBody(req));
@@ -32,7 +40,16 @@ export const getSetting: Handler = ({ res, segs, uid, state: { indexes } }) => {
 };
 
 /** PUT or PATCH: the body is the new value; DELETE: back to the default. */
-export const updateSetting: Handler = async ({ req, res, method, segs, uid, state: { tasks: { enqueue } } }) => {
+export const updateSetting: Handler = async ({
+  req,
+  res,
+  method,
+  segs,
+  uid,
+  state: {
+    tasks: { enqueue },
+  },
+}) => {
   const name = settingName(segs);
   let value: unknown = null;
   if (method !== "DELETE") {

@@ -9,7 +9,13 @@ import { TASK_STATUSES, TASK_TYPES, taskView, type TaskRecord, type TaskStatus }
 
 export const getTasks: Handler = ({ res, params, state }) => send(res, 200, listTasks(state.tasks.tasks, params));
 
-export const getTask: Handler = ({ res, segs, state: { tasks: { taskByUid } } }) => {
+export const getTask: Handler = ({
+  res,
+  segs,
+  state: {
+    tasks: { taskByUid },
+  },
+}) => {
   const n = Number(segs[1]);
   if (!/^\d+$/.test(segs[1]) || !Number.isSafeInteger(n)) {
     throw new ApiError(400, "invalid_task_uids", `Invalid value in parameter \`taskUid\`: could not parse \`${segs[1]}\` as a positive integer`);
@@ -27,12 +33,20 @@ export function listTasks(tasks: TaskRecord[], params: URLSearchParams) {
   const batchUids = listParam(params, "batchUids");
   for (const s of statuses ?? []) {
     if (!TASK_STATUSES.includes(s as TaskStatus)) {
-      throw new ApiError(400, "invalid_task_statuses", `Invalid value in parameter \`statuses\`: \`${s}\` is not a valid task status. Available statuses are ${TASK_STATUSES.map((x) => `\`${x}\``).join(", ")}.`);
+      throw new ApiError(
+        400,
+        "invalid_task_statuses",
+        `Invalid value in parameter \`statuses\`: \`${s}\` is not a valid task status. Available statuses are ${TASK_STATUSES.map((x) => `\`${x}\``).join(", ")}.`,
+      );
     }
   }
   for (const ty of types ?? []) {
     if (!TASK_TYPES.includes(ty)) {
-      throw new ApiError(400, "invalid_task_types", `Invalid value in parameter \`types\`: \`${ty}\` is not a valid task type. Available types are ${TASK_TYPES.map((x) => `\`${x}\``).join(", ")}.`);
+      throw new ApiError(
+        400,
+        "invalid_task_types",
+        `Invalid value in parameter \`types\`: \`${ty}\` is not a valid task type. Available types are ${TASK_TYPES.map((x) => `\`${x}\``).join(", ")}.`,
+      );
     }
   }
   const limit = intParam(params, "limit", 20, "invalid_task_limit");
@@ -40,15 +54,23 @@ export function listTasks(tasks: TaskRecord[], params: URLSearchParams) {
   const from = fromRaw === null ? null : intParam(params, "from", 0, "invalid_task_from");
   const reverse = params.get("reverse") === "true";
   const dates: [string, "enqueuedAt" | "startedAt" | "finishedAt", 1 | -1][] = [
-    ["afterEnqueuedAt", "enqueuedAt", 1], ["beforeEnqueuedAt", "enqueuedAt", -1],
-    ["afterStartedAt", "startedAt", 1], ["beforeStartedAt", "startedAt", -1],
-    ["afterFinishedAt", "finishedAt", 1], ["beforeFinishedAt", "finishedAt", -1],
+    ["afterEnqueuedAt", "enqueuedAt", 1],
+    ["beforeEnqueuedAt", "enqueuedAt", -1],
+    ["afterStartedAt", "startedAt", 1],
+    ["beforeStartedAt", "startedAt", -1],
+    ["afterFinishedAt", "finishedAt", 1],
+    ["beforeFinishedAt", "finishedAt", -1],
   ];
   const dateFilters = dates.flatMap(([param, field, dir]) => {
     const v = params.get(param);
     if (v === null || v === "*") return [];
     const at = Date.parse(v);
-    if (Number.isNaN(at)) throw new ApiError(400, `invalid_task_${param.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`)}`, `\`${v}\` is an invalid date-time. It should follow the YYYY-MM-DD or RFC 3339 date-time format.`);
+    if (Number.isNaN(at))
+      throw new ApiError(
+        400,
+        `invalid_task_${param.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`)}`,
+        `\`${v}\` is an invalid date-time. It should follow the YYYY-MM-DD or RFC 3339 date-time format.`,
+      );
     return [{ field, dir, at }];
   });
   const matching = tasks.filter(

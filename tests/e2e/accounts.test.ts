@@ -9,7 +9,6 @@ import { browserSuite, artifact, skipBrowser, waitForHydration, waitForMail } fr
 const CARD = "/connectors/rx750-four-ignition-unit-plug";
 const CARD_NAME = "Ignition unit, loom plug";
 
-
 describe.skipIf(skipBrowser)("account journeys in Chromium", () => {
   const suite = browserSuite({ mail: true });
   const { open, gotoHydrated } = suite;
@@ -72,7 +71,10 @@ describe.skipIf(skipBrowser)("account journeys in Chromium", () => {
     await page.locator("[role=status]", { hasText: "You are signed out." }).waitFor();
     expect(await page.locator("header").getByRole("link", { name: "Sign in" }).count()).toBe(1);
     expect(await page.getByTestId("signed-in-as").count()).toBe(0);
-    expect((await suite.context.cookies()).find((c) => c.name === "__Host-loomlore"), "the cookie is gone").toBeUndefined();
+    expect(
+      (await suite.context.cookies()).find((c) => c.name === "__Host-loomlore"),
+      "the cookie is gone",
+    ).toBeUndefined();
     expect((await page.request.get("/api/v1/me")).status()).toBe(401);
     const garage = await page.goto("/garage");
     expect(new URL(page.url()).pathname, `after sign-out /garage answers ${garage?.status()}`).toBe("/login");

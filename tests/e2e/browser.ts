@@ -77,12 +77,16 @@ export function watchErrors(page: Page, opts: WatchOptions = {}): string[] {
  * load, and React has attached its props to a DOM node (done in the hydration commit).
  */
 export async function waitForHydration(page: Page, selector = "main"): Promise<void> {
-  await page.waitForFunction((sel) => {
-    const w = window as unknown as { __reactRouterDataRouter?: { state: { initialized: boolean; navigation: { state: string } } } };
-    const router = w.__reactRouterDataRouter;
-    const el = document.querySelector(sel);
-    return Boolean(router?.state.initialized && router.state.navigation.state === "idle" && el && Object.keys(el).some((k) => k.startsWith("__reactFiber$")));
-  }, selector, { timeout: 10_000 });
+  await page.waitForFunction(
+    (sel) => {
+      const w = window as unknown as { __reactRouterDataRouter?: { state: { initialized: boolean; navigation: { state: string } } } };
+      const router = w.__reactRouterDataRouter;
+      const el = document.querySelector(sel);
+      return Boolean(router?.state.initialized && router.state.navigation.state === "idle" && el && Object.keys(el).some((k) => k.startsWith("__reactFiber$")));
+    },
+    selector,
+    { timeout: 10_000 },
+  );
 }
 
 /**
@@ -116,9 +120,15 @@ export function browserSuite(serverOptions?: Parameters<typeof startServer>[0]) 
   });
 
   return {
-    get server(): TestServer { return server!; },
-    get browser(): Browser { return browser!; },
-    get context(): BrowserContext { return context!; },
+    get server(): TestServer {
+      return server!;
+    },
+    get browser(): Browser {
+      return browser!;
+    },
+    get context(): BrowserContext {
+      return context!;
+    },
     /** A context with JavaScript off (made once), for the no-JavaScript paths. */
     async noJsContext(): Promise<BrowserContext> {
       noJs ??= await newContext(browser!, server!.url, { javaScriptEnabled: false });
@@ -139,7 +149,11 @@ export function browserSuite(serverOptions?: Parameters<typeof startServer>[0]) 
   };
 }
 
-export interface CapturedMail { to: string; subject: string; text: string }
+export interface CapturedMail {
+  to: string;
+  subject: string;
+  text: string;
+}
 
 /** The newest mail to an address whose subject matches, from the mail stand-in's JSON list (newest first). */
 export async function waitForMail(mailHttp: string, to: string, subject: RegExp, timeoutMs = 20_000): Promise<CapturedMail> {

@@ -15,17 +15,24 @@ describe.skipIf(skipBrowser)("colour codes page in Chromium", () => {
     const result = page.getByTestId("decode-result");
     await expect(result.innerText().then((t) => t.trim())).resolves.toBe("");
 
-    const decodeCall = page.waitForResponse((r) => {
-      const u = new URL(r.url());
-      return u.pathname.startsWith("/api/v1/colours/decode") && u.searchParams.get("code") === "ws/rt";
-    }, { timeout: 3_000 });
+    const decodeCall = page.waitForResponse(
+      (r) => {
+        const u = new URL(r.url());
+        return u.pathname.startsWith("/api/v1/colours/decode") && u.searchParams.get("code") === "ws/rt";
+      },
+      { timeout: 3_000 },
+    );
     await page.getByRole("textbox", { name: "Code" }).pressSequentially("ws/rt", { delay: 20 });
     const typedAt = Date.now();
     // Within 2 s of the last key the panel names both colours.
-    await page.waitForFunction(() => {
-      const t = document.querySelector("[data-testid=decode-result]")?.textContent ?? "";
-      return /\bwhite\b/i.test(t) && /\bred\b/i.test(t);
-    }, null, { timeout: 2_000 });
+    await page.waitForFunction(
+      () => {
+        const t = document.querySelector("[data-testid=decode-result]")?.textContent ?? "";
+        return /\bwhite\b/i.test(t) && /\bred\b/i.test(t);
+      },
+      null,
+      { timeout: 2_000 },
+    );
     expect(Date.now() - typedAt).toBeLessThan(2_000);
     const call = await decodeCall;
     expect(call.status()).toBe(200);
@@ -44,13 +51,18 @@ describe.skipIf(skipBrowser)("colour codes page in Chromium", () => {
     await waitForHydration(page, "input[name=code]");
     // db/seeders/demo/makes.ts: brennwald writes DIN, where bl is blue (REFERENCE-FACTS 1.2, DIN 47002 [published]).
     await page.getByRole("combobox", { name: "Make" }).selectOption("brennwald");
-    const call = page.waitForResponse((r) => {
-      const u = new URL(r.url());
-      return u.pathname.startsWith("/api/v1/colours/decode") && u.searchParams.get("make") === "brennwald" && u.searchParams.get("code") === "Bl";
-    }, { timeout: 3_000 });
+    const call = page.waitForResponse(
+      (r) => {
+        const u = new URL(r.url());
+        return u.pathname.startsWith("/api/v1/colours/decode") && u.searchParams.get("make") === "brennwald" && u.searchParams.get("code") === "Bl";
+      },
+      { timeout: 3_000 },
+    );
     await page.getByRole("textbox", { name: "Code" }).pressSequentially("Bl", { delay: 20 });
     expect((await call).status()).toBe(200);
-    await page.waitForFunction(() => /house style din/.test(document.querySelector("[data-testid=decode-result]")?.textContent ?? ""), null, { timeout: 2_000 });
+    await page.waitForFunction(() => /house style din/.test(document.querySelector("[data-testid=decode-result]")?.textContent ?? ""), null, {
+      timeout: 2_000,
+    });
     expect(await page.getByTestId("decode-result").innerText()).toMatch(/\bblue\b/);
     // IEC 60445 (REFERENCE-FACTS 5 [published]): green with yellow is kept for the protective conductor.
     await page.getByRole("combobox", { name: "Make" }).selectOption("asagiri");

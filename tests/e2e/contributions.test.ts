@@ -13,14 +13,21 @@ const CARD = "rx750-four-pickups-socket";
 const CONTRIBUTOR = { email: "contributor@loomlore.invalid", password: "crimp-and-solder-7" };
 const MODERATOR = { email: "moderator@loomlore.invalid", password: "review-queue-lamp" };
 
-
 /** A photo-like JPEG (noise, so it does not compress to nothing): about 1–2 MB at this size. */
 async function photo(seed: number): Promise<Buffer> {
-  const w = 1800, h = 1200;
+  const w = 1800,
+    h = 1200;
   const raw = Buffer.alloc(w * h * 3);
-  let x = seed * 2654435761 >>> 0;
-  for (let i = 0; i < raw.length; i++) { x ^= x << 13; x ^= x >>> 17; x ^= x << 5; raw[i] = x & 0xff; }
-  return sharp(raw, { raw: { width: w, height: h, channels: 3 } }).jpeg({ quality: 92 }).toBuffer();
+  let x = (seed * 2654435761) >>> 0;
+  for (let i = 0; i < raw.length; i++) {
+    x ^= x << 13;
+    x ^= x >>> 17;
+    x ^= x << 5;
+    raw[i] = x & 0xff;
+  }
+  return sharp(raw, { raw: { width: w, height: h, channels: 3 } })
+    .jpeg({ quality: 92 })
+    .toBuffer();
 }
 
 describe.skipIf(skipBrowser)("contributions and review in Chromium", () => {
@@ -66,7 +73,10 @@ describe.skipIf(skipBrowser)("contributions and review in Chromium", () => {
     const progress = await page.evaluate(() => (window as unknown as { __progress: number[] }).__progress);
     expect(progress.length, "the progress bar was shown").toBeGreaterThan(0);
     expect(Math.max(...progress)).toBe(100);
-    expect(progress.every((v, i) => i === 0 || v >= progress[i - 1]), `progress only grows: ${progress.join(",")}`).toBe(true);
+    expect(
+      progress.every((v, i) => i === 0 || v >= progress[i - 1]),
+      `progress only grows: ${progress.join(",")}`,
+    ).toBe(true);
     expect(await page.locator("main img[src$='.thumb.webp']").count()).toBe(2);
 
     // The pin map: correct cavity 1's colour; the decoded colour shows as it is typed.

@@ -173,7 +173,13 @@ describe.skipIf(skipBrowser)("library journeys in Chromium", () => {
     const current = page.locator("section[aria-labelledby=pins-heading] tbody tr[aria-current='true']");
     expect(await current.count()).toBe(1);
     await expect(current.getAttribute("data-cavity")).resolves.toBe("1");
-    await expect(current.locator("td").first().innerText().then((t) => t.trim())).resolves.toBe(code);
+    await expect(
+      current
+        .locator("td")
+        .first()
+        .innerText()
+        .then((t) => t.trim()),
+    ).resolves.toBe(code);
     expect(await current.isVisible()).toBe(true);
     // The face view marks the same cavity.
     expect(await page.locator("main svg[role=img] g[data-cavity='1'] [data-highlight]").count()).toBe(1);

@@ -47,9 +47,14 @@ describe.skipIf(skipBrowser)("search in Chromium", () => {
     expect(await input.getAttribute("aria-expanded")).toBe("true");
     expect(await input.getAttribute("aria-controls")).toBe(await list.getAttribute("id"));
     const texts = await optionTexts(list);
-    expect(texts.some((t) => /pickup/i.test(t)), texts.join(" | ")).toBe(true);
+    expect(
+      texts.some((t) => /pickup/i.test(t)),
+      texts.join(" | "),
+    ).toBe(true);
     // Grouped: group labels in the fixed order, and a last option for the full results page.
-    const groups = await list.locator("[role=group]").evaluateAll((gs) => gs.map((g) => document.getElementById(g.getAttribute("aria-labelledby")!)!.textContent));
+    const groups = await list
+      .locator("[role=group]")
+      .evaluateAll((gs) => gs.map((g) => document.getElementById(g.getAttribute("aria-labelledby")!)!.textContent));
     expect(groups.length).toBeGreaterThan(0);
     expect(["Families", "Connector cards", "Pins"].filter((g) => groups.includes(g))).toEqual(groups);
     expect(texts.at(-1)).toMatch(/^All results for “pickp”/);
@@ -117,7 +122,9 @@ describe.skipIf(skipBrowser)("search in Chromium", () => {
     const page = await open();
     await gotoHydrated(page, "/");
     const calls: string[] = [];
-    page.on("request", (r) => { if (searchCall(r.url())) calls.push(qOf(r.url())); });
+    page.on("request", (r) => {
+      if (searchCall(r.url())) calls.push(qOf(r.url()));
+    });
     const input = box(page);
     await input.click();
     // Record when each character reaches the box, in the page's own clock.
@@ -141,15 +148,20 @@ describe.skipIf(skipBrowser)("search in Chromium", () => {
     const typedAt = await page.evaluate(() => (window as unknown as { typedAt: number[] }).typedAt);
     expect(typedAt).toHaveLength(10);
     const gaps = typedAt.slice(1).map((t, i) => t - typedAt[i]);
-    console.info(`type-ahead: ${calls.length} search call(s) (${calls.map((q) => `"${q}"`).join(", ")}) for 10 characters, ` +
-      `intervals ${Math.round(Math.min(...gaps))}–${Math.round(Math.max(...gaps))} ms (mean ${Math.round((typedAt[9] - typedAt[0]) / 9)} ms); ` +
-      `suggestions shown ${shownAfter} ms after the last key`);
+    console.info(
+      `type-ahead: ${calls.length} search call(s) (${calls.map((q) => `"${q}"`).join(", ")}) for 10 characters, ` +
+        `intervals ${Math.round(Math.min(...gaps))}–${Math.round(Math.max(...gaps))} ms (mean ${Math.round((typedAt[9] - typedAt[0]) / 9)} ms); ` +
+        `suggestions shown ${shownAfter} ms after the last key`,
+    );
     expect((typedAt[9] - typedAt[0]) / 9, "mean interval").toBeLessThan(60);
     expect(calls.length).toBeGreaterThanOrEqual(1);
     expect(calls.length, "QUALITY P3: ≤ 3 calls").toBeLessThanOrEqual(3);
     expect(calls.at(-1)).toBe(word);
     const texts = await optionTexts(listFor(page, word));
-    expect(texts.some((t) => /kill switch/i.test(t)), texts.join(" | ")).toBe(true);
+    expect(
+      texts.some((t) => /kill switch/i.test(t)),
+      texts.join(" | "),
+    ).toBe(true);
   });
 
   it("a slow answer to an earlier, shorter query never replaces the answer to the full one", async () => {
@@ -164,9 +176,13 @@ describe.skipIf(skipBrowser)("search in Chromium", () => {
       }
       try {
         await route.continue();
-      } catch { /* the page gave up on it (a stale request): nothing to continue */ }
+      } catch {
+        /* the page gave up on it (a stale request): nothing to continue */
+      }
     });
-    page.on("requestfailed", (r) => { if (searchCall(r.url())) aborted.push(qOf(r.url())); });
+    page.on("requestfailed", (r) => {
+      if (searchCall(r.url())) aborted.push(qOf(r.url()));
+    });
     await gotoHydrated(page, "/");
     const input = box(page);
     await input.click();
@@ -222,7 +238,14 @@ describe.skipIf(skipBrowser)("search in Chromium", () => {
     expect(groups.length).toBeGreaterThanOrEqual(2);
     expect(["family", "connector", "pin"].filter((g) => groups.includes(g))).toEqual(groups);
     for (const g of await main.locator("[data-group]").all()) {
-      expect(Number(await g.getByTestId("group-count").innerText().then((t) => t.replace(/\D/g, "")))).toBeGreaterThan(0);
+      expect(
+        Number(
+          await g
+            .getByTestId("group-count")
+            .innerText()
+            .then((t) => t.replace(/\D/g, "")),
+        ),
+      ).toBeGreaterThan(0);
       expect(await g.locator("li a").count()).toBeGreaterThan(0);
     }
     const before = await main.getByTestId("results-summary").innerText();

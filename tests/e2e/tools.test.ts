@@ -30,8 +30,10 @@ describe.skipIf(skipBrowser)("workshop tools in Chromium", () => {
 
     /** Paths of the connector links in the ranked results, best first. */
     const ranked = (page: Page) =>
-      page.getByTestId("finder-results").locator("ol > li").evaluateAll((lis) =>
-        lis.map((li) => new URL((li.querySelector("a[href^='/connectors/']") as HTMLAnchorElement).href).pathname));
+      page
+        .getByTestId("finder-results")
+        .locator("ol > li")
+        .evaluateAll((lis) => lis.map((li) => new URL((li.querySelector("a[href^='/connectors/']") as HTMLAnchorElement).href).pathname));
 
     it("ranks the pickup pair live as the codes are typed, and a swatch adds its colour", async () => {
       const page = await open();
@@ -41,19 +43,28 @@ describe.skipIf(skipBrowser)("workshop tools in Chromium", () => {
       const startUrl = page.url();
 
       const box = page.getByRole("textbox", { name: /Wire colours/ });
-      const liveCall = page.waitForResponse((r) => /^\/api\/v1\/colour-finder(\.data)?$/.test(new URL(r.url()).pathname) && r.request().method() === "POST", { timeout: 5_000 });
+      const liveCall = page.waitForResponse((r) => /^\/api\/v1\/colour-finder(\.data)?$/.test(new URL(r.url()).pathname) && r.request().method() === "POST", {
+        timeout: 5_000,
+      });
       await box.pressSequentially(codes.join("\n"), { delay: 25 });
       const typedAt = Date.now();
       // No submit: the results follow the textarea, and the pickup pair is in the top 2.
-      await page.waitForFunction(() => {
-        const lis = [...document.querySelectorAll("[data-testid=finder-results] ol > li")].slice(0, 2);
-        return lis.some((li) => /\/connectors\/rx750-four-pickups-(plug|socket)$/.test((li.querySelector("a") as HTMLAnchorElement | null)?.href ?? ""));
-      }, null, { timeout: 3_000 });
+      await page.waitForFunction(
+        () => {
+          const lis = [...document.querySelectorAll("[data-testid=finder-results] ol > li")].slice(0, 2);
+          return lis.some((li) => /\/connectors\/rx750-four-pickups-(plug|socket)$/.test((li.querySelector("a") as HTMLAnchorElement | null)?.href ?? ""));
+        },
+        null,
+        { timeout: 3_000 },
+      );
       expect(Date.now() - typedAt, "ms from the last key to the ranked result").toBeLessThan(3_000);
       expect((await liveCall).status()).toBe(200);
       expect(page.url(), "the form was not submitted").toBe(startUrl);
       const top = await ranked(page);
-      expect(top.slice(0, 2).some((p) => PICKUP_PAIR.test(p)), `top 2: ${top.slice(0, 2).join(", ")}`).toBe(true);
+      expect(
+        top.slice(0, 2).some((p) => PICKUP_PAIR.test(p)),
+        `top 2: ${top.slice(0, 2).join(", ")}`,
+      ).toBe(true);
       await expect(text(results.locator("h2"))).resolves.toMatch(/^Most likely connectors/);
       // The first result explains each typed wire with a cavity and a match quality.
       const firstRows = results.locator("ol > li").first().locator("tbody tr");
@@ -67,8 +78,12 @@ describe.skipIf(skipBrowser)("workshop tools in Chromium", () => {
       await expect(box.inputValue()).resolves.toBe([...codes, "red"].join("\n"));
       expect(page.url()).toBe(startUrl);
       // The live results take the fourth wire in.
-      await page.waitForFunction(() => document.querySelector("[data-testid=finder-results] ol > li tbody")?.querySelectorAll("tr").length === 4, null, { timeout: 3_000 });
-      await page.waitForFunction(() => !/updating/.test(document.querySelector("[data-testid=finder-results] h2")?.textContent ?? ""), null, { timeout: 3_000 });
+      await page.waitForFunction(() => document.querySelector("[data-testid=finder-results] ol > li tbody")?.querySelectorAll("tr").length === 4, null, {
+        timeout: 3_000,
+      });
+      await page.waitForFunction(() => !/updating/.test(document.querySelector("[data-testid=finder-results] h2")?.textContent ?? ""), null, {
+        timeout: 3_000,
+      });
       await page.screenshot({ path: artifact("finder.png"), fullPage: true });
     });
 
@@ -84,7 +99,10 @@ describe.skipIf(skipBrowser)("workshop tools in Chromium", () => {
       await expect(text(results.locator("h2"))).resolves.toBe("Most likely connectors");
       const top = await ranked(page);
       expect(top.length).toBeGreaterThan(1);
-      expect(top.slice(0, 2).some((p) => PICKUP_PAIR.test(p)), `top 2: ${top.slice(0, 2).join(", ")}`).toBe(true);
+      expect(
+        top.slice(0, 2).some((p) => PICKUP_PAIR.test(p)),
+        `top 2: ${top.slice(0, 2).join(", ")}`,
+      ).toBe(true);
       // The typed wires are kept in the textarea of the rendered page.
       await expect(page.getByRole("textbox", { name: /Wire colours/ }).inputValue()).resolves.toBe(codes.join("\n"));
       // The swatch buttons are real submit buttons without JavaScript.
@@ -101,11 +119,13 @@ describe.skipIf(skipBrowser)("workshop tools in Chromium", () => {
 
     /** Step, where and expectation of every row of the probe-point table. */
     const tableRows = (page: Page) =>
-      page.locator("form[aria-label='Your readings'] tbody tr").evaluateAll((trs) => trs.map((tr) => ({
-        step: Number(tr.getAttribute("data-step")),
-        where: (tr.querySelectorAll("td")[0]?.textContent ?? "").trim(),
-        expect: (tr.querySelectorAll("td")[2]?.textContent ?? "").trim(),
-      })));
+      page.locator("form[aria-label='Your readings'] tbody tr").evaluateAll((trs) =>
+        trs.map((tr) => ({
+          step: Number(tr.getAttribute("data-step")),
+          where: (tr.querySelectorAll("td")[0]?.textContent ?? "").trim(),
+          expect: (tr.querySelectorAll("td")[2]?.textContent ?? "").trim(),
+        })),
+      );
 
     it("family → circuits → ignition: pairing, drawing, probe table, kill switch and a located fault", async () => {
       const page = await open();
@@ -143,7 +163,8 @@ describe.skipIf(skipBrowser)("workshop tools in Chromium", () => {
       await switches.getByLabel("Kill switch").selectOption("stop");
       await switches.getByRole("button", { name: "Show readings for these positions" }).click();
       await page.waitForURL((u) => u.searchParams.get("kill") === "stop");
-      await expect.poll(async () => (await tableRows(page)).filter((r) => r.expect.startsWith("near 0 V")).length, { timeout: 5_000 })
+      await expect
+        .poll(async () => (await tableRows(page)).filter((r) => r.expect.startsWith("near 0 V")).length, { timeout: 5_000 })
         .toBeGreaterThan(running.filter((r) => r.expect.startsWith("near 0 V")).length);
       const stopped = await tableRows(page);
       expect(stopped.map((r) => r.where)).toEqual(running.map((r) => r.where));
@@ -180,7 +201,8 @@ describe.skipIf(skipBrowser)("workshop tools in Chromium", () => {
       expect([Number(named![1]), Number(named![2])]).toEqual([target!.step - 1, target!.step]);
       expect(await text(diagnosis)).toMatch(/kill switch/i);
       // The two steps are marked in the table too, and the readings are still in their boxes.
-      for (const step of [target!.step - 1, target!.step]) await expect(readings.locator(`tr[data-step='${step}']`).getAttribute("class")).resolves.toMatch(/\bbg-caution\b/);
+      for (const step of [target!.step - 1, target!.step])
+        await expect(readings.locator(`tr[data-step='${step}']`).getAttribute("class")).resolves.toMatch(/\bbg-caution\b/);
       await expect(reading(TARGET).inputValue()).resolves.toBe("0");
       await expect(reading(before[0].where).inputValue()).resolves.toBe("12.6");
       await page.screenshot({ path: artifact("walk-diagnosis.png"), fullPage: true });
@@ -188,7 +210,10 @@ describe.skipIf(skipBrowser)("workshop tools in Chromium", () => {
 
     // After "Where is the fault?" the answer is where the rider is looking: focused, scrolled into view and announced,
     // on a desktop window and on a 360 px phone.
-    for (const [name, size] of [["desktop", { width: 1280, height: 800 }], ["phone", { width: 360, height: 740 }]] as const) {
+    for (const [name, size] of [
+      ["desktop", { width: 1280, height: 800 }],
+      ["phone", { width: 360, height: 740 }],
+    ] as const) {
       it(`the verdict takes the focus and is in view (${name})`, async () => {
         const page = await open();
         await page.setViewportSize(size);
@@ -201,10 +226,14 @@ describe.skipIf(skipBrowser)("workshop tools in Chromium", () => {
         await diagnosis.waitFor({ timeout: 5_000 });
         await page.waitForFunction(() => document.activeElement?.getAttribute("data-testid") === "diagnosis", null, { timeout: 5_000 });
         await expect(diagnosis.getAttribute("aria-live")).resolves.toBe("polite");
-        await page.waitForFunction(() => {
-          const r = document.querySelector("[data-testid=diagnosis]")!.getBoundingClientRect();
-          return r.top >= 0 && r.top < window.innerHeight;
-        }, null, { timeout: 5_000 });
+        await page.waitForFunction(
+          () => {
+            const r = document.querySelector("[data-testid=diagnosis]")!.getBoundingClientRect();
+            return r.top >= 0 && r.top < window.innerHeight;
+          },
+          null,
+          { timeout: 5_000 },
+        );
         await page.screenshot({ path: artifact(`walk-verdict-${name}.png`) });
       });
     }
@@ -369,7 +398,9 @@ describe.skipIf(skipBrowser)("workshop tools in Chromium", () => {
       expect(dropped).toMatch(/Dropped: .*pickup/i);
 
       // A row whose length is not already 2.5 m: set it to 2.5 and recalculate.
-      const lengths = await cut.locator("tbody tr[data-wire] input[name^=len_]").evaluateAll((els) => els.map((e) => ({ name: (e as HTMLInputElement).name, value: (e as HTMLInputElement).value })));
+      const lengths = await cut
+        .locator("tbody tr[data-wire] input[name^=len_]")
+        .evaluateAll((els) => els.map((e) => ({ name: (e as HTMLInputElement).name, value: (e as HTMLInputElement).value })));
       const pick = lengths.find((l) => Number(l.value) !== 2.5 && Number(l.value) < 2)!;
       expect(pick, "a wire shorter than 2 m").toBeDefined();
       const wire = pick.name.slice(4);
@@ -380,7 +411,9 @@ describe.skipIf(skipBrowser)("workshop tools in Chromium", () => {
       await row.locator(`input[name='len_${wire}']`).fill("2.5");
       await cut.getByRole("button", { name: "Recalculate with these lengths" }).click();
       await page.waitForURL((u) => u.searchParams.get(`len_${wire}`) === "2.5");
-      await page.waitForFunction((w) => document.querySelector(`tr[data-wire='${w}'] td:nth-child(4)`)?.textContent?.includes("builder"), wire, { timeout: 5_000 });
+      await page.waitForFunction((w) => document.querySelector(`tr[data-wire='${w}'] td:nth-child(4)`)?.textContent?.includes("builder"), wire, {
+        timeout: 5_000,
+      });
       await expect(row.locator(`input[name='len_${wire}']`).inputValue()).resolves.toBe("2.5");
       await expect(text(row.locator("td").nth(3))).resolves.toContain("builder");
       const dropAfter = await text(dropCell);
@@ -400,7 +433,10 @@ describe.skipIf(skipBrowser)("workshop tools in Chromium", () => {
       expect(csv.status()).toBe(200);
       expect(csv.headers()["content-type"]).toMatch(/^text\/csv\b/);
       expect(csv.headers()["content-disposition"]).toMatch(/attachment; filename="rx750-four-cut-list\.csv"/);
-      const lines = (await csv.text()).replace(/^\uFEFF/, "").split(/\r?\n/).filter((l) => l.trim() !== "");
+      const lines = (await csv.text())
+        .replace(/^\uFEFF/, "")
+        .split(/\r?\n/)
+        .filter((l) => l.trim() !== "");
       expect(lines[0]).toMatch(/from/i);
       expect(lines[0]).toMatch(/mm/i);
       expect(lines[0].split(",").length).toBeGreaterThan(4);
@@ -409,7 +445,7 @@ describe.skipIf(skipBrowser)("workshop tools in Chromium", () => {
     });
 
     // The first "Show its circuits" for a family keeps every circuit: its boxes arrive ticked.
-    it("the first \"Show its circuits\" ticks every circuit", async () => {
+    it('the first "Show its circuits" ticks every circuit', async () => {
       const page = await open();
       await gotoHydrated(page, "/planner");
       const keepForm = page.locator("form[aria-label='What to keep']");
@@ -428,7 +464,7 @@ describe.skipIf(skipBrowser)("workshop tools in Chromium", () => {
       `/planner?planned=${FAMILY}&family=${FAMILY}&scheme=simple&tempC=20&${["ignition", "charging", "starter-control", "starter-motor", "headlamp-dip", "tail-lamp", "brake-lamp"].map((k) => `keep=${k}`).join("&")}${extra}`;
 
     // Only the lengths the builder typed count as theirs; untouched rows keep the family default.
-    it("recalculating after editing one length marks only that row \"builder\"", async () => {
+    it('recalculating after editing one length marks only that row "builder"', async () => {
       const page = await open();
       await gotoHydrated(page, planUrl());
       const cut = page.locator("form[aria-label='Cut list']");
@@ -437,8 +473,13 @@ describe.skipIf(skipBrowser)("workshop tools in Chromium", () => {
       await cut.getByRole("button", { name: "Recalculate with these lengths" }).click();
       await page.waitForURL((u) => u.searchParams.get(`len_${wire}`) === "2.5");
       await page.waitForFunction((w) => document.querySelector(`tr[data-wire='${w}'] td:nth-child(4)`)?.textContent?.includes("builder"), wire);
-      const sources = await cut.locator("tbody tr[data-wire]").evaluateAll((trs) => trs.map((tr) => [tr.getAttribute("data-wire"), tr.querySelector("td:nth-child(4) span")?.textContent?.trim()]));
-      expect(sources.filter(([w, s]) => w !== wire && s === "builder"), "untouched rows labelled builder").toEqual([]);
+      const sources = await cut
+        .locator("tbody tr[data-wire]")
+        .evaluateAll((trs) => trs.map((tr) => [tr.getAttribute("data-wire"), tr.querySelector("td:nth-child(4) span")?.textContent?.trim()]));
+      expect(
+        sources.filter(([w, s]) => w !== wire && s === "builder"),
+        "untouched rows labelled builder",
+      ).toEqual([]);
     });
 
     // Kirchhoff's current law: a fuse carries every kept circuit behind it, so no fuse may be rated below the current
@@ -446,12 +487,15 @@ describe.skipIf(skipBrowser)("workshop tools in Chromium", () => {
     it("every planned fuse is rated for the current of the wires on its terminals", async () => {
       const page = await open();
       await gotoHydrated(page, planUrl());
-      const rows = await page.locator("form[aria-label='Cut list'] tbody tr[data-wire]").evaluateAll((trs) => trs.map((tr) => ({
-        ends: [tr.querySelector("td:nth-child(1)")?.textContent?.trim() ?? "", tr.querySelector("td:nth-child(2)")?.textContent?.trim() ?? ""],
-        currentA: Number.parseFloat(tr.querySelector("td:nth-child(5)")?.textContent ?? ""),
-      })));
+      const rows = await page.locator("form[aria-label='Cut list'] tbody tr[data-wire]").evaluateAll((trs) =>
+        trs.map((tr) => ({
+          ends: [tr.querySelector("td:nth-child(1)")?.textContent?.trim() ?? "", tr.querySelector("td:nth-child(2)")?.textContent?.trim() ?? ""],
+          currentA: Number.parseFloat(tr.querySelector("td:nth-child(5)")?.textContent ?? ""),
+        })),
+      );
       const fuses = (await page.locator("section[aria-labelledby=fuses] li").allInnerTexts()).map((t) => ({
-        ratingA: Number.parseFloat(t), name: /"([^"]+)"/.exec(t)?.[1] ?? "",
+        ratingA: Number.parseFloat(t),
+        name: /"([^"]+)"/.exec(t)?.[1] ?? "",
       }));
       expect(fuses.length).toBeGreaterThan(0);
       const short: string[] = [];

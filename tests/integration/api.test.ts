@@ -12,8 +12,29 @@ import { errorBody, parseCsv, shape, stateDigest, undefuse, client } from "./hel
 
 const SYSTEM_IDS = ["jis", "iec", "din", "bs", "en"] as const;
 // API.md "Colour words": lowercase English names from one fixed list.
-const COLOUR_WORDS = ["black", "brown", "red", "orange", "yellow", "green", "blue", "violet", "grey", "white", "pink", "turquoise", "gold",
-  "silver", "light green", "dark green", "light blue", "sky blue", "chocolate", "tan", "green-yellow"] as const;
+const COLOUR_WORDS = [
+  "black",
+  "brown",
+  "red",
+  "orange",
+  "yellow",
+  "green",
+  "blue",
+  "violet",
+  "grey",
+  "white",
+  "pink",
+  "turquoise",
+  "gold",
+  "silver",
+  "light green",
+  "dark green",
+  "light blue",
+  "sky blue",
+  "chocolate",
+  "tan",
+  "green-yellow",
+] as const;
 
 const slug = z.string().regex(/^[a-z0-9]+(?:-[a-z0-9]+)*$/, "lowercase kebab-case slug"); // API.md: slugs are lowercase kebab-case
 const text = z.string().min(1);
@@ -24,16 +45,33 @@ const iecDesignation = z.string().regex(/^(?:[A-Z]{2})+$/, "IEC 60757 letter pai
 const makeSchema = z.object({ slug, name: text, colourSystem: z.enum(SYSTEM_IDS), familyCount: int.min(0) });
 const makesBody = z.object({ makes: z.array(makeSchema) });
 
-const familySummary = z.object({
-  slug, name: text, make: z.object({ slug, name: text }), yearFrom: int.min(1900), yearTo: int.max(2100), engine: text,
-  cylinders: int.min(1), firingOrder: text, ignition: text,
-}).refine((f) => f.yearFrom <= f.yearTo, "yearFrom after yearTo");
+const familySummary = z
+  .object({
+    slug,
+    name: text,
+    make: z.object({ slug, name: text }),
+    yearFrom: int.min(1900),
+    yearTo: int.max(2100),
+    engine: text,
+    cylinders: int.min(1),
+    firingOrder: text,
+    ignition: text,
+  })
+  .refine((f) => f.yearFrom <= f.yearTo, "yearFrom after yearTo");
 type FamilySummary = z.infer<typeof familySummary>;
 const familiesBody = z.object({ families: z.array(familySummary), total: int.min(0) });
 
 const familyDetailBody = z.object({
   family: z.object({
-    slug, name: text, make: z.object({ slug, name: text }), yearFrom: int, yearTo: int, engine: text, cylinders: int, firingOrder: text, ignition: text,
+    slug,
+    name: text,
+    make: z.object({ slug, name: text }),
+    yearFrom: int,
+    yearTo: int,
+    engine: text,
+    cylinders: int,
+    firingOrder: text,
+    ignition: text,
     systems: z.array(z.object({ kind: text, connectors: z.array(z.object({ slug, name: text, pinCount: int.min(0), location: text })) })),
   }),
 });
@@ -46,12 +84,29 @@ const pinSchema = z.object({
   goesTo: z.object({ connector: slug, cavity: text }).nullable(),
 });
 const connectorSchema = z.object({
-  slug, name: text, family: z.object({ slug, name: text }), system: text, location: text,
-  gender: z.enum(["plug", "socket"]), matesWith: slug.nullable(), colourSystem: z.enum(SYSTEM_IDS),
+  slug,
+  name: text,
+  family: z.object({ slug, name: text }),
+  system: text,
+  location: text,
+  gender: z.enum(["plug", "socket"]),
+  matesWith: slug.nullable(),
+  colourSystem: z.enum(SYSTEM_IDS),
   layout: z.object({ rows: int.min(1), cols: int.min(1), cavities: z.array(z.object({ cavity: text, row: int.min(1), col: int.min(1) })).min(1) }),
   pins: z.array(pinSchema),
   // max null: no upper limit (an insulation test that must read open); conditions say how it is measured (issue 11).
-  specs: z.array(z.object({ name: text, min: z.number(), max: z.number().nullable(), unit: text, conditions: text, between: z.tuple([text, text]), atC: z.number(), source: text })),
+  specs: z.array(
+    z.object({
+      name: text,
+      min: z.number(),
+      max: z.number().nullable(),
+      unit: text,
+      conditions: text,
+      between: z.tuple([text, text]),
+      atC: z.number(),
+      source: text,
+    }),
+  ),
   photos: z.array(z.object({ url: text, thumbUrl: text, width: int.min(1), height: int.min(1), caption: z.string(), credit: z.string() })),
   revision: z.object({ number: int.min(1), publishedAt: z.iso.datetime() }),
   bikeChecked: int.min(0),
@@ -61,8 +116,13 @@ const connectorBody = z.object({ connector: connectorSchema });
 
 const LATCHES = ["top", "bottom", "left", "right"] as const;
 const faceBody = z.object({
-  view: z.enum(["mating", "wire"]), half: z.enum(["this", "mate"]), width: z.number().positive(), height: z.number().positive(),
-  cavities: z.array(z.object({ cavity: text, x: z.number(), y: z.number() })), pin1: text, latch: z.enum(LATCHES),
+  view: z.enum(["mating", "wire"]),
+  half: z.enum(["this", "mate"]),
+  width: z.number().positive(),
+  height: z.number().positive(),
+  cavities: z.array(z.object({ cavity: text, x: z.number(), y: z.number() })),
+  pin1: text,
+  latch: z.enum(LATCHES),
 });
 type Face = z.infer<typeof faceBody>;
 
@@ -72,8 +132,13 @@ const systemsBody = z.object({
 
 const colourPart = z.object({ name: colourWord, iec: iecDesignation.nullable() });
 const decodeBody = z.object({
-  input: z.string(), system: z.enum(SYSTEM_IDS), base: colourPart.nullable(), tracers: z.array(colourPart), colours: z.array(colourWord).min(1),
-  iec: iecDesignation.nullable(), ambiguities: z.array(z.object({ system: z.enum(SYSTEM_IDS), reading: text })),
+  input: z.string(),
+  system: z.enum(SYSTEM_IDS),
+  base: colourPart.nullable(),
+  tracers: z.array(colourPart),
+  colours: z.array(colourWord).min(1),
+  iec: iecDesignation.nullable(),
+  ambiguities: z.array(z.object({ system: z.enum(SYSTEM_IDS), reading: text })),
 });
 
 // ---------------------------------------------------------------------------------------------------------------------
@@ -101,8 +166,7 @@ const card = (s: string) => {
   return c;
 };
 const pinAt = (c: Card, cavity: string) => c.pins.find((p) => p.cavity === cavity);
-const face = (s: string, view: "mating" | "wire", half: "this" | "mate") =>
-  getJson(`/api/v1/connectors/${s}/face?view=${view}&half=${half}`, faceBody);
+const face = (s: string, view: "mating" | "wire", half: "this" | "mate") => getJson(`/api/v1/connectors/${s}/face?view=${view}&half=${half}`, faceBody);
 const byCavity = (f: Face) => new Map(f.cavities.map((c) => [c.cavity, { x: c.x, y: c.y }]));
 const mean = (xs: number[]) => xs.reduce((a, b) => a + b, 0) / xs.length;
 
@@ -125,10 +189,13 @@ afterAll(async () => {
 
 describe("GET /api/v1/health", () => {
   it("answers 200 with status and the database check ok (API.md Library)", async () => {
-    const body = await getJson("/api/v1/health", z.object({
-      status: z.enum(["ok", "degraded"]),
-      checks: z.object({ database: z.literal("ok"), search: z.enum(["ok", "down"]), mail: z.enum(["ok", "down"]) }),
-    }));
+    const body = await getJson(
+      "/api/v1/health",
+      z.object({
+        status: z.enum(["ok", "degraded"]),
+        checks: z.object({ database: z.literal("ok"), search: z.enum(["ok", "down"]), mail: z.enum(["ok", "down"]) }),
+      }),
+    );
     // 200 even when degraded; "ok" only when every backing service answers (search and mail have no stand-in yet).
     expect(body.status).toBe(Object.values(body.checks).every((c) => c === "ok") ? "ok" : "degraded");
   });
@@ -147,7 +214,10 @@ describe("GET /api/v1/makes", () => {
     for (const m of makes) {
       const list = await getJson(`/api/v1/families?make=${m.slug}`, familiesBody);
       expect(list.total, m.slug).toBe(m.familyCount);
-      expect(list.families.every((f) => f.make.slug === m.slug), m.slug).toBe(true);
+      expect(
+        list.families.every((f) => f.make.slug === m.slug),
+        m.slug,
+      ).toBe(true);
     }
     expect(makes.reduce((n, m) => n + m.familyCount, 0)).toBe(families.length);
   });
@@ -170,7 +240,10 @@ describe("GET /api/v1/families", () => {
   it("year= keeps the families whose year range covers it, ends inclusive", async () => {
     for (const year of [1975, 1980, 1966, 1988]) {
       const body = await getJson(`/api/v1/families?year=${year}`, familiesBody);
-      const expected = families.filter((f) => f.yearFrom <= year && year <= f.yearTo).map((f) => f.slug).sort();
+      const expected = families
+        .filter((f) => f.yearFrom <= year && year <= f.yearTo)
+        .map((f) => f.slug)
+        .sort();
       expect(expected.length, `${year} must be covered by some families`).toBeGreaterThan(0);
       expect(expected.length, `${year} must not be covered by all families`).toBeLessThan(families.length);
       expect(body.families.map((f) => f.slug).sort(), String(year)).toEqual(expected);
@@ -204,7 +277,12 @@ describe("GET /api/v1/families", () => {
   });
 
   it.each([
-    ["limit=0", "limit"], ["limit=101", "limit"], ["limit=2.5", "limit"], ["offset=-1", "offset"], ["year=abc", "year"], ["year=1980.5", "year"],
+    ["limit=0", "limit"],
+    ["limit=101", "limit"],
+    ["limit=2.5", "limit"],
+    ["offset=-1", "offset"],
+    ["year=abc", "year"],
+    ["year=1980.5", "year"],
   ])("?%s → 400 bad input naming the field (API.md: limit max 100)", async (query, field) => {
     const err = await expectError(`/api/v1/families?${query}`, 400);
     expect(err.field).toBe(field);
@@ -236,8 +314,14 @@ describe("GET /api/v1/connectors/:slug", () => {
   it("the ignition unit loom plug carries every API.md field", async () => {
     const c = card("rx750-four-ignition-unit-plug");
     expect(c).toMatchObject({
-      slug: "rx750-four-ignition-unit-plug", family: { slug: "rx750-four" }, system: "ignition", gender: "plug",
-      matesWith: "rx750-four-ignition-unit-socket", colourSystem: "jis", layout: { rows: 2, cols: 4 }, revision: { number: 1 },
+      slug: "rx750-four-ignition-unit-plug",
+      family: { slug: "rx750-four" },
+      system: "ignition",
+      gender: "plug",
+      matesWith: "rx750-four-ignition-unit-socket",
+      colourSystem: "jis",
+      layout: { rows: 2, cols: 4 },
+      revision: { number: 1 },
     });
     expect(c.layout.cavities).toHaveLength(8);
     expect(c.pins).toHaveLength(8);
@@ -318,12 +402,29 @@ describe("GET /api/v1/connectors/:slug", () => {
       c.pins.forEach((p, i) => {
         const row = rows[i];
         expect(row, `${c.slug} row ${i + 1}`).toHaveLength(head.length);
-        expect({
-          cavity: col(row, "cavity"), code: col(row, "colour_code"), base: col(row, "base"), tracers: col(row, "tracers"), iec: col(row, "iec"),
-          circuit: col(row, "circuit"), terminal: col(row, "terminal"), to: col(row, "goes_to_connector"), toCavity: col(row, "goes_to_cavity"),
-        }, `${c.slug} row ${i + 1}`).toEqual({
-          cavity: p.cavity, code: p.colour.code ?? "", base: p.colour.base ?? "", tracers: p.colour.tracers.join(" "), iec: p.colour.iec ?? "",
-          circuit: p.circuit, terminal: p.terminal ?? "", to: p.goesTo?.connector ?? "", toCavity: p.goesTo?.cavity ?? "",
+        expect(
+          {
+            cavity: col(row, "cavity"),
+            code: col(row, "colour_code"),
+            base: col(row, "base"),
+            tracers: col(row, "tracers"),
+            iec: col(row, "iec"),
+            circuit: col(row, "circuit"),
+            terminal: col(row, "terminal"),
+            to: col(row, "goes_to_connector"),
+            toCavity: col(row, "goes_to_cavity"),
+          },
+          `${c.slug} row ${i + 1}`,
+        ).toEqual({
+          cavity: p.cavity,
+          code: p.colour.code ?? "",
+          base: p.colour.base ?? "",
+          tracers: p.colour.tracers.join(" "),
+          iec: p.colour.iec ?? "",
+          circuit: p.circuit,
+          terminal: p.terminal ?? "",
+          to: p.goesTo?.connector ?? "",
+          toCavity: p.goesTo?.cavity ?? "",
         });
       });
     }
@@ -335,8 +436,11 @@ describe("GET /api/v1/connectors/:slug", () => {
   });
 
   it("ETag + If-None-Match → 304 without a body; a stale tag → 200 (API.md: ETag where cheap)", async () => {
-    for (const path of ["/api/v1/connectors/rx750-four-ignition-unit-plug", "/api/v1/connectors/rx750-four-ignition-unit-plug/face?view=wire",
-      "/api/v1/colours/systems"]) {
+    for (const path of [
+      "/api/v1/connectors/rx750-four-ignition-unit-plug",
+      "/api/v1/connectors/rx750-four-ignition-unit-plug/face?view=wire",
+      "/api/v1/colours/systems",
+    ]) {
       const first = await call(path);
       const tag = first.res.headers.get("etag");
       expect(tag, path).toMatch(/^(W\/)?"[^"]+"$/);
@@ -363,9 +467,14 @@ describe("GET /api/v1/connectors/:slug/face", () => {
 
   it("every card: geometry agrees with the layout; wire = x-mirror of mating; mate/mating = this/wire = the mate's own mating face", async () => {
     let sideLatches = 0;
-    const faces = new Map(await Promise.all([...cards.keys()].map(async (s) => [s, await Promise.all([
-      face(s, "mating", "this"), face(s, "wire", "this"), face(s, "mating", "mate"), face(s, "wire", "mate"),
-    ])] as const)));
+    const faces = new Map(
+      await Promise.all(
+        [...cards.keys()].map(
+          async (s) =>
+            [s, await Promise.all([face(s, "mating", "this"), face(s, "wire", "this"), face(s, "mating", "mate"), face(s, "wire", "mate")])] as const,
+        ),
+      ),
+    );
     for (const c of cards.values()) {
       const [mating, wire, mateMating, mateWire] = faces.get(c.slug)!;
       expect([mating.view, mating.half, wire.view, wire.half, mateMating.half], c.slug).toEqual(["mating", "this", "wire", "this", "mate"]);
@@ -379,10 +488,11 @@ describe("GET /api/v1/connectors/:slug/face", () => {
       }
       // x to the viewer's right, y down: the mating face keeps the stored row/col order (layout is as seen on the mating face).
       const m = byCavity(mating);
-      for (const a of c.layout.cavities) for (const b of c.layout.cavities) {
-        if (a.col < b.col) expect(m.get(a.cavity)!.x, `${c.slug} ${a.cavity} left of ${b.cavity}`).toBeLessThan(m.get(b.cavity)!.x);
-        if (a.row < b.row) expect(m.get(a.cavity)!.y, `${c.slug} ${a.cavity} above ${b.cavity}`).toBeLessThan(m.get(b.cavity)!.y);
-      }
+      for (const a of c.layout.cavities)
+        for (const b of c.layout.cavities) {
+          if (a.col < b.col) expect(m.get(a.cavity)!.x, `${c.slug} ${a.cavity} left of ${b.cavity}`).toBeLessThan(m.get(b.cavity)!.x);
+          if (a.row < b.row) expect(m.get(a.cavity)!.y, `${c.slug} ${a.cavity} above ${b.cavity}`).toBeLessThan(m.get(b.cavity)!.y);
+        }
       if (c.layout.cavities.length === c.layout.rows * c.layout.cols) {
         expect(mean(mating.cavities.map((x) => x.x)), `${c.slug} mean x`).toBeCloseTo(0, 9);
         expect(mean(mating.cavities.map((x) => x.y)), `${c.slug} mean y`).toBeCloseTo(0, 9);
@@ -429,7 +539,14 @@ describe("GET /api/v1/colours/decode", () => {
 
   it("W/R, auto → jis: white base, red tracer, iec RDWH (API.md example)", async () => {
     const d = await decode("code=W%2FR");
-    expect(d).toMatchObject({ input: "W/R", system: "jis", base: { name: "white", iec: "WH" }, tracers: [{ name: "red", iec: "RD" }], colours: ["white", "red"], iec: "RDWH" });
+    expect(d).toMatchObject({
+      input: "W/R",
+      system: "jis",
+      base: { name: "white", iec: "WH" },
+      tracers: [{ name: "red", iec: "RD" }],
+      colours: ["white", "red"],
+      iec: "RDWH",
+    });
   });
 
   it("ws/rt, din → the same colours (DIN 47002 lower case)", async () => {
@@ -470,34 +587,59 @@ describe("GET /api/v1/colours/decode", () => {
     expect(err.field).toBe("code");
   });
 
-  it.each([["", "code"], ["code=", "code"], ["code=%20%20", "code"], ["code=W&system=klingon", "system"]])(
-    "?%s → 400 naming %s", async (q, field) => {
-      const err = await expectError(`/api/v1/colours/decode?${q}`, 400);
-      expect(err.field).toBe(field);
-    });
+  it.each([
+    ["", "code"],
+    ["code=", "code"],
+    ["code=%20%20", "code"],
+    ["code=W&system=klingon", "system"],
+  ])("?%s → 400 naming %s", async (q, field) => {
+    const err = await expectError(`/api/v1/colours/decode?${q}`, 400);
+    expect(err.field).toBe(field);
+  });
 });
 
 // ---------------------------------------------------------------------------------------------------------------------
 
 const GET_ROUTES = [
-  "/api/v1/health", "/api/v1/makes", "/api/v1/families", "/api/v1/families/rx750-four", "/api/v1/connectors/rx750-four-ignition-unit-plug",
-  "/api/v1/connectors/rx750-four-ignition-unit-plug/face", "/api/v1/colours/systems", "/api/v1/colours/decode?code=W%2FR",
-  "/api/v1/families/rx750-four/circuits", "/api/v1/families/rx750-four/circuits/ignition/walk", "/api/v1/me", "/api/v1/search?q=pickup",
+  "/api/v1/health",
+  "/api/v1/makes",
+  "/api/v1/families",
+  "/api/v1/families/rx750-four",
+  "/api/v1/connectors/rx750-four-ignition-unit-plug",
+  "/api/v1/connectors/rx750-four-ignition-unit-plug/face",
+  "/api/v1/colours/systems",
+  "/api/v1/colours/decode?code=W%2FR",
+  "/api/v1/families/rx750-four/circuits",
+  "/api/v1/families/rx750-four/circuits/ignition/walk",
+  "/api/v1/me",
+  "/api/v1/search?q=pickup",
   "/api/v1/families/rx750-four/plan",
 ];
 // Computations take a JSON body: POST only (GET → 405 is checked in workshop-api.test.ts).
-const POST_ROUTES = ["api/v1/colour-finder", "api/v1/wire-size", "api/v1/bench", "api/v1/families/:slug/circuits/:circuit/diagnose", "api/v1/photos", "api/v1/submissions/:id/review"];
+const POST_ROUTES = [
+  "api/v1/colour-finder",
+  "api/v1/wire-size",
+  "api/v1/bench",
+  "api/v1/families/:slug/circuits/:circuit/diagnose",
+  "api/v1/photos",
+  "api/v1/submissions/:id/review",
+];
 // Read and write at one address (signed in): their methods are checked in submissions-api.test.ts.
 const READ_WRITE_ROUTES = ["api/v1/submissions", "api/v1/submissions/:id"];
 
 describe("methods and unknown addresses", () => {
   it("every GET route of app/routes.ts is in this list", async () => {
     const { default: routes } = await import("../../app/routes");
-    const api = routes.map((r) => r.path).filter((p): p is string => !!p && p.startsWith("api/v1/") && !POST_ROUTES.includes(p) && !READ_WRITE_ROUTES.includes(p));
+    const api = routes
+      .map((r) => r.path)
+      .filter((p): p is string => !!p && p.startsWith("api/v1/") && !POST_ROUTES.includes(p) && !READ_WRITE_ROUTES.includes(p));
     const covered = GET_ROUTES.map((u) => u.split("?")[0].replace(/^\//, ""));
     for (const p of api) {
       const re = new RegExp(`^${p.replace(/:[a-z]+/g, "[^/]+")}$`);
-      expect(covered.some((c) => re.test(c)), `route ${p} has no test URL`).toBe(true);
+      expect(
+        covered.some((c) => re.test(c)),
+        `route ${p} has no test URL`,
+      ).toBe(true);
     }
   });
 
@@ -585,7 +727,9 @@ describe("hostile input sweep", () => {
     expect(await stateDigest(server.dbPath)).toBe(digestBefore);
     const { makes } = await getJson("/api/v1/makes", makesBody);
     expect(makes).toHaveLength(4); // and pins still answer after '; DROP TABLE pins;--
-    expect(card("rx750-four-ignition-unit-plug").pins).toHaveLength((await getJson("/api/v1/connectors/rx750-four-ignition-unit-plug", connectorBody)).connector.pins.length);
+    expect(card("rx750-four-ignition-unit-plug").pins).toHaveLength(
+      (await getJson("/api/v1/connectors/rx750-four-ignition-unit-plug", connectorBody)).connector.pins.length,
+    );
   });
 });
 
@@ -596,7 +740,11 @@ describe("control characters never reach a query (pages and the finder)", () => 
   });
 
   it("a family that is not a slug is a 400 on the colour finder, naming the field", async () => {
-    const r = await call("/api/v1/colour-finder", { method: "POST", headers: { "Content-Type": "application/json", Origin: server.url }, body: JSON.stringify({ wires: ["W/R"], family: "a\u0000b" }) });
+    const r = await call("/api/v1/colour-finder", {
+      method: "POST",
+      headers: { "Content-Type": "application/json", Origin: server.url },
+      body: JSON.stringify({ wires: ["W/R"], family: "a\u0000b" }),
+    });
     expect(r.status).toBe(400);
     expect(JSON.parse(r.body).error.field).toBe("family");
   });

@@ -21,7 +21,9 @@ beforeAll(async () => {
   contributor = await signIn(srv, DEMO.contributor.email, DEMO.contributor.password);
   moderator = await signIn(srv, DEMO.moderator.email, DEMO.moderator.password);
 }, 60_000);
-afterAll(async () => { await srv?.stop(); });
+afterAll(async () => {
+  await srv?.stop();
+});
 
 /** Where a browser on our page would land after following the redirect (the WHATWG parser, as the browser does). */
 const landing = (location: string | null | undefined) => new URL(location ?? "", srv.url);
@@ -43,7 +45,15 @@ function raw(method: string, path: string): Promise<{ status: number; allow: str
 
 describe("open redirect through ?next= (ASVS V5.1.5)", () => {
   // Each of these once sent a signed-in browser off-site, or would: the tab is dropped by the browser.
-  const offSite = ["/%09/evil.example", "//evil.example", "/%5Cevil.example", "/%5C%5Cevil.example", "https://evil.example/", "/..//evil.example", "%E3%80%82evil.example"];
+  const offSite = [
+    "/%09/evil.example",
+    "//evil.example",
+    "/%5Cevil.example",
+    "/%5C%5Cevil.example",
+    "https://evil.example/",
+    "/..//evil.example",
+    "%E3%80%82evil.example",
+  ];
 
   it("a signed-in visit to /login?next=… never leaves our origin, nor gives a 500", async () => {
     for (const n of offSite) {
@@ -111,7 +121,9 @@ const json = (r: { body: string }) => JSON.parse(r.body);
 
 /** Upload one small JPEG to a submission through the API, as its author. */
 async function postPhoto(server: TestServer, session: string, submission: number) {
-  const jpeg = await sharp({ create: { width: 64, height: 48, channels: 3, background: "#6a7a8a" } }).jpeg().toBuffer();
+  const jpeg = await sharp({ create: { width: 64, height: 48, channels: 3, background: "#6a7a8a" } })
+    .jpeg()
+    .toBuffer();
   const form = new FormData();
   form.append("photo", new Blob([new Uint8Array(jpeg)], { type: "image/jpeg" }), "p.jpg");
   form.append("consent", "yes");
@@ -142,7 +154,11 @@ describe("photos are attached only by their owner, unpublished, or from the card
     publishedElsewhere = await upload(contributor, pub!.id);
     const now = json(await req(srv, `/api/v1/submissions/${pub!.id}`, { session: contributor })).submission as Sub;
     expect(now.content.photos.map((p) => p.id)).toContain(publishedElsewhere);
-    let r = await req(srv, `/api/v1/submissions/${pub!.id}`, { method: "PATCH", json: { version: now.version, sourceKind: "measured", sourceDetail: "", summary: "A photo of the plug", action: "submit" }, session: contributor });
+    let r = await req(srv, `/api/v1/submissions/${pub!.id}`, {
+      method: "PATCH",
+      json: { version: now.version, sourceKind: "measured", sourceDetail: "", summary: "A photo of the plug", action: "submit" },
+      session: contributor,
+    });
     expect(r.status, where(r)).toBe(200);
     r = await req(srv, `/api/v1/submissions/${pub!.id}/review`, { json: { version: json(r).submission.version, decision: "approve" }, session: moderator });
     expect(r.status, where(r)).toBe(200);
@@ -153,9 +169,16 @@ describe("photos are attached only by their owner, unpublished, or from the card
 
   it("starting a submission with another's photo in its content is refused, whichever kind of submission", async () => {
     const { s: plain } = await startSub(moderator, { connector: ATTACKED_CARD, idempotencyKey: "attacker-plain" });
-    for (const [name, id] of [["private draft photo", privatePhoto], ["photo published on another card", publishedElsewhere]] as const) {
+    for (const [name, id] of [
+      ["private draft photo", privatePhoto],
+      ["photo published on another card", publishedElsewhere],
+    ] as const) {
       const content = { ...plain!.content, photos: [{ id, caption: "mine now", credit: "The attacker" }] };
-      for (const body of [{ connector: ATTACKED_CARD, content }, { family: "rx400-four", content }, { connector: ATTACKED_CARD, content, submit: true }]) {
+      for (const body of [
+        { connector: ATTACKED_CARD, content },
+        { family: "rx400-four", content },
+        { connector: ATTACKED_CARD, content, submit: true },
+      ]) {
         const r = await startSub(moderator, body);
         expect(r.r.status, `${name} via ${Object.keys(body).join("+")}: ${where(r.r)}`).toBe(400);
         expect(json(r.r).error.field).toBe("photos.0");
@@ -191,7 +214,12 @@ describe("a huge editor form is refused at once and does not hold up other reque
   /** POST a raw url-encoded body to a page as a signed-in browser would. */
   async function postForm(path: string, session: string, body: string) {
     const t0 = performance.now();
-    const res = await fetch(srv.url + path, { method: "POST", body, redirect: "manual", headers: { Cookie: `${COOKIE}=${session}`, Origin: srv.url, "Content-Type": "application/x-www-form-urlencoded" } });
+    const res = await fetch(srv.url + path, {
+      method: "POST",
+      body,
+      redirect: "manual",
+      headers: { Cookie: `${COOKIE}=${session}`, Origin: srv.url, "Content-Type": "application/x-www-form-urlencoded" },
+    });
     const text = await res.text();
     return { status: res.status, text, ms: performance.now() - t0 };
   }
@@ -218,8 +246,16 @@ describe("a huge editor form is refused at once and does not hold up other reque
     const body = head + parts.join("&");
     expect(body.length).toBeLessThanOrEqual(1024 * 1024);
     const baseline = await timedGet("/api/v1/families");
-    const [big, read] = await Promise.all([postForm(`/submissions/${s!.id}`, contributor, body), (async () => { await new Promise((r) => setTimeout(r, 20)); return timedGet("/api/v1/families"); })()]);
-    console.info(`[huge form] ${parts.length} fields, ${body.length} bytes: ${big.status} in ${big.ms.toFixed(0)} ms; a read meanwhile ${read.ms.toFixed(0)} ms (alone ${baseline.ms.toFixed(0)} ms)`);
+    const [big, read] = await Promise.all([
+      postForm(`/submissions/${s!.id}`, contributor, body),
+      (async () => {
+        await new Promise((r) => setTimeout(r, 20));
+        return timedGet("/api/v1/families");
+      })(),
+    ]);
+    console.info(
+      `[huge form] ${parts.length} fields, ${body.length} bytes: ${big.status} in ${big.ms.toFixed(0)} ms; a read meanwhile ${read.ms.toFixed(0)} ms (alone ${baseline.ms.toFixed(0)} ms)`,
+    );
     expect(big.status, big.text.slice(0, 200)).toBe(400);
     expect(big.text).toMatch(/more than 4000 fields/);
     expect(read.status).toBe(200);
@@ -246,8 +282,14 @@ describe("a huge editor form is refused at once and does not hold up other reque
 
 function query<T>(sql: string, params: unknown[] = []): Promise<T[]> {
   return new Promise((resolve, reject) => {
-    const db = new sqlite3.Database(srv.dbPath, sqlite3.OPEN_READONLY, (e) => { if (e) reject(e); });
-    db.all(sql, params, (e, rows) => { db.close(); if (e) reject(e); else resolve(rows as T[]); });
+    const db = new sqlite3.Database(srv.dbPath, sqlite3.OPEN_READONLY, (e) => {
+      if (e) reject(e);
+    });
+    db.all(sql, params, (e, rows) => {
+      db.close();
+      if (e) reject(e);
+      else resolve(rows as T[]);
+    });
   });
 }
 async function mailTo(to: string, timeoutMs = 15_000): Promise<{ text: string }> {
@@ -270,7 +312,10 @@ describe("no live single-use link is kept once its message is delivered, nor sho
     // The worker settles the row just after the relay accepts it.
     let row: { status: string; text: string; html: string } | undefined;
     for (const deadline = Date.now() + 10_000; Date.now() < deadline; await new Promise((r) => setTimeout(r, 50))) {
-      [row] = await query<{ status: string; text: string; html: string }>("SELECT status, text, html FROM mail_outbox WHERE to_addr = ? AND kind = 'reset' ORDER BY id DESC LIMIT 1", [to]);
+      [row] = await query<{ status: string; text: string; html: string }>(
+        "SELECT status, text, html FROM mail_outbox WHERE to_addr = ? AND kind = 'reset' ORDER BY id DESC LIMIT 1",
+        [to],
+      );
       if (row?.status === "sent") break;
     }
     expect(row?.status).toBe("sent");
@@ -289,8 +334,11 @@ describe("no live single-use link is kept once its message is delivered, nor sho
     const [{ n }] = await query<{ n: number }>("SELECT count(*) AS n FROM mail_outbox");
     // A message the worker has not settled, written as the app writes one (marked failed so the worker leaves it be).
     const live = "LiveTokenNotForAdmins0123456789abcdef";
-    await execSql(srv.dbPath, `INSERT INTO mail_outbox (message_id, kind, to_addr, subject, text, html, status, attempts, next_attempt_at, created_at)
-      VALUES ('<q-${n}@test>', 'verify', 'queued@loomlore.invalid', 'Confirm', 'Open https://x.example/verify?token=${live}', '<a href="https://x.example/verify?token=${live}">confirm</a>', 'failed', 1, datetime('now'), datetime('now'))`);
+    await execSql(
+      srv.dbPath,
+      `INSERT INTO mail_outbox (message_id, kind, to_addr, subject, text, html, status, attempts, next_attempt_at, created_at)
+      VALUES ('<q-${n}@test>', 'verify', 'queued@loomlore.invalid', 'Confirm', 'Open https://x.example/verify?token=${live}', '<a href="https://x.example/verify?token=${live}">confirm</a>', 'failed', 1, datetime('now'), datetime('now'))`,
+    );
     const admin = await signIn(srv, DEMO.admin.email, DEMO.admin.password);
     const page = await req(srv, "/admin", { session: admin });
     expect(page.status).toBe(200);
@@ -311,7 +359,9 @@ describe("photos removed from a draft, or on a declined submission, stop countin
     who = await signIn(small, DEMO.contributor.email, DEMO.contributor.password);
     mod = await signIn(small, DEMO.moderator.email, DEMO.moderator.password);
   }, 60_000);
-  afterAll(async () => { await small?.stop(); });
+  afterAll(async () => {
+    await small?.stop();
+  });
 
   const up = (submission: number) => postPhoto(small, who, submission);
   const view = async (id: number) => json(await req(small, `/api/v1/submissions/${id}`, { session: who })).submission as Sub;
@@ -329,7 +379,11 @@ describe("photos removed from a draft, or on a declined submission, stop countin
     expect(await files(dir, a.photo!.id)).toHaveLength(2);
 
     const now = await view(sub.id);
-    const u = await req(small, `/api/v1/submissions/${sub.id}`, { method: "PATCH", json: { version: now.version, content: { ...now.content, photos: now.content.photos.filter((p) => p.id !== a.photo!.id) } }, session: who });
+    const u = await req(small, `/api/v1/submissions/${sub.id}`, {
+      method: "PATCH",
+      json: { version: now.version, content: { ...now.content, photos: now.content.photos.filter((p) => p.id !== a.photo!.id) } },
+      session: who,
+    });
     expect(u.status, where(u)).toBe(200);
     expect((await req(small, a.photo!.url, { session: who })).status, "a removed photo is not served").toBe(404);
     for (const deadline = Date.now() + 5_000; (await files(dir, a.photo!.id)).length && Date.now() < deadline;) await new Promise((r) => setTimeout(r, 50));
@@ -338,7 +392,11 @@ describe("photos removed from a draft, or on a declined submission, stop countin
     // The freed place takes a new photo; a removed one cannot be put back.
     expect((await up(sub.id)).status).toBe(201);
     const again = await view(sub.id);
-    const back = await req(small, `/api/v1/submissions/${sub.id}`, { method: "PATCH", json: { version: again.version, content: { ...again.content, photos: [...again.content.photos, { id: a.photo!.id, caption: "", credit: "" }] } }, session: who });
+    const back = await req(small, `/api/v1/submissions/${sub.id}`, {
+      method: "PATCH",
+      json: { version: again.version, content: { ...again.content, photos: [...again.content.photos, { id: a.photo!.id, caption: "", credit: "" }] } },
+      session: who,
+    });
     expect(back.status).toBe(400);
   });
 
@@ -349,14 +407,29 @@ describe("photos removed from a draft, or on a declined submission, stop countin
     const mine = json(await req(small, "/api/v1/submissions?mine=1", { session: who })).submissions as { id: number }[];
     for (const s of mine.filter((x) => x.id !== sub.id)) {
       const v = await view(s.id);
-      expect((await req(small, `/api/v1/submissions/${s.id}`, { method: "PATCH", json: { version: v.version, content: { ...v.content, photos: [] } }, session: who })).status).toBe(200);
+      expect(
+        (
+          await req(small, `/api/v1/submissions/${s.id}`, {
+            method: "PATCH",
+            json: { version: v.version, content: { ...v.content, photos: [] } },
+            session: who,
+          })
+        ).status,
+      ).toBe(200);
     }
     const p = await up(sub.id);
     expect(p.status, p.body).toBe(201);
     sub = await view(sub.id);
-    let r = await req(small, `/api/v1/submissions/${sub.id}`, { method: "PATCH", json: { version: sub.version, sourceKind: "measured", sourceDetail: "", summary: "A photo", action: "submit" }, session: who });
+    let r = await req(small, `/api/v1/submissions/${sub.id}`, {
+      method: "PATCH",
+      json: { version: sub.version, sourceKind: "measured", sourceDetail: "", summary: "A photo", action: "submit" },
+      session: who,
+    });
     expect(r.status, where(r)).toBe(200);
-    r = await req(small, `/api/v1/submissions/${sub.id}/review`, { json: { version: json(r).submission.version, decision: "decline", message: "Blurred." }, session: mod });
+    r = await req(small, `/api/v1/submissions/${sub.id}/review`, {
+      json: { version: json(r).submission.version, decision: "decline", message: "Blurred." },
+      session: mod,
+    });
     expect(r.status, where(r)).toBe(200);
     expect((await req(small, p.photo!.url, { session: who })).status).toBe(404);
     // Two free places again.
@@ -371,13 +444,22 @@ describe("photos removed from a draft, or on a declined submission, stop countin
 describe("smaller holes", () => {
   it("a page post the browser marks Sec-Fetch-Site: cross-site is refused even without an Origin header", async () => {
     for (const path of ["/login", "/garage", "/account", "/api/v1/submissions"]) {
-      const r = await req(srv, path, { form: { email: DEMO.rider.email, password: DEMO.rider.password }, origin: null, session: rider, headers: { "Sec-Fetch-Site": "cross-site" } });
+      const r = await req(srv, path, {
+        form: { email: DEMO.rider.email, password: DEMO.rider.password },
+        origin: null,
+        session: rider,
+        headers: { "Sec-Fetch-Site": "cross-site" },
+      });
       expect(r.status, `${path}: ${where(r)}`).toBe(403);
       expect(r.setCookie ?? null).toBeNull();
     }
     // The same post from our own pages (same-origin, or no fetch metadata at all from an old browser) still works.
     for (const site of ["same-origin", null]) {
-      const r = await req(srv, "/login", { form: { email: DEMO.rider.email, password: DEMO.rider.password }, origin: null, headers: site ? { "Sec-Fetch-Site": site } : {} });
+      const r = await req(srv, "/login", {
+        form: { email: DEMO.rider.email, password: DEMO.rider.password },
+        origin: null,
+        headers: site ? { "Sec-Fetch-Site": site } : {},
+      });
       expect(r.status, where(r)).toBe(302);
     }
   });
@@ -415,8 +497,12 @@ describe("smaller holes", () => {
 describe("lock-outs an attacker cannot turn against the owner, and throttles with Retry-After", () => {
   let proxied: TestServer;
   const from = (address: string) => ({ "X-Forwarded-For": address });
-  beforeAll(async () => { proxied = await startServer({ env: { TRUST_PROXY: "loopback" } }); }, 60_000);
-  afterAll(async () => { await proxied?.stop(); });
+  beforeAll(async () => {
+    proxied = await startServer({ env: { TRUST_PROXY: "loopback" } });
+  }, 60_000);
+  afterAll(async () => {
+    await proxied?.stop();
+  });
 
   it("150 wrong passwords from ten addresses: each address is stopped, the owner on their usual address still gets in", async () => {
     const victim = DEMO.contributor;
@@ -458,7 +544,10 @@ describe("lock-outs an attacker cannot turn against the owner, and throttles wit
       statuses.push(r.status);
       if (r.status === 429) expect(r.headers.get("retry-after")).toMatch(/^\d+$/);
     }
-    expect(statuses.slice(0, 10).every((x) => x === 400), statuses.join(",")).toBe(true);
+    expect(
+      statuses.slice(0, 10).every((x) => x === 400),
+      statuses.join(","),
+    ).toBe(true);
     expect(statuses.slice(10)).toEqual([429, 429]);
   });
 
@@ -466,7 +555,10 @@ describe("lock-outs an attacker cannot turn against the owner, and throttles wit
     const s = await signIn(proxied, DEMO.admin.email, DEMO.admin.password);
     const statuses: number[] = [];
     for (let i = 0; i < 22; i++) {
-      const r = await req(proxied, "/connectors/rx750-four-ignition-unit-plug", { form: { intent: "report", text: `Cavity 3 looks different on mine (${i}).` }, session: s });
+      const r = await req(proxied, "/connectors/rx750-four-ignition-unit-plug", {
+        form: { intent: "report", text: `Cavity 3 looks different on mine (${i}).` },
+        session: s,
+      });
       statuses.push(r.status);
     }
     expect(statuses.filter((x) => x === 200)).toHaveLength(20);
@@ -482,12 +574,30 @@ describe("parallel writes wait their turn: no 500, no 503", () => {
   it("sixteen parallel resets with made-up tokens: all refused at once; a correct sign-in meanwhile is not held up", async () => {
     const t0 = performance.now();
     const [resets, signin] = await Promise.all([
-      Promise.all(Array.from({ length: 16 }, (_, i) => req(srv, "/reset", { form: { token: `made-up-token-${i}-${"x".repeat(30)}`, password: "a-long-enough-passphrase" }, headers: { "X-Test": String(i) } }))),
-      (async () => { await new Promise((r) => setTimeout(r, 30)); const t = performance.now(); const r = await req(srv, "/login", { form: { email: DEMO.moderator.email, password: DEMO.moderator.password } }); return { r, ms: performance.now() - t }; })(),
+      Promise.all(
+        Array.from({ length: 16 }, (_, i) =>
+          req(srv, "/reset", {
+            form: { token: `made-up-token-${i}-${"x".repeat(30)}`, password: "a-long-enough-passphrase" },
+            headers: { "X-Test": String(i) },
+          }),
+        ),
+      ),
+      (async () => {
+        await new Promise((r) => setTimeout(r, 30));
+        const t = performance.now();
+        const r = await req(srv, "/login", { form: { email: DEMO.moderator.email, password: DEMO.moderator.password } });
+        return { r, ms: performance.now() - t };
+      })(),
     ]);
     const statuses = resets.map((r) => r.status);
-    expect(statuses.filter((s) => s >= 500), statuses.join(",")).toEqual([]);
-    expect(statuses.every((s) => s === 400 || s === 429), statuses.join(",")).toBe(true);
+    expect(
+      statuses.filter((s) => s >= 500),
+      statuses.join(","),
+    ).toEqual([]);
+    expect(
+      statuses.every((s) => s === 400 || s === 429),
+      statuses.join(","),
+    ).toBe(true);
     expect(signin.r.status, where(signin.r)).toBe(302);
     console.info(`[resets] 16 made-up tokens in ${(performance.now() - t0).toFixed(0)} ms; a sign-in meanwhile ${signin.ms.toFixed(0)} ms`);
     expect(signin.ms).toBeLessThan(5_000);
@@ -496,11 +606,17 @@ describe("parallel writes wait their turn: no 500, no 503", () => {
   it("twenty parallel approvals of one item: one winner, every other a 409, none a 503", async () => {
     const { s } = await startSub(contributor, { connector: "rx400-four-coil-1-plug", idempotencyKey: "parallel-approve" });
     const content = { ...s!.content, notes: `${String(s!.content.notes ?? "")}\n\nChecked twice.` };
-    const r = await req(srv, `/api/v1/submissions/${s!.id}`, { method: "PATCH", json: { version: s!.version, content, sourceKind: "measured", sourceDetail: "", summary: "Notes", action: "submit" }, session: contributor });
+    const r = await req(srv, `/api/v1/submissions/${s!.id}`, {
+      method: "PATCH",
+      json: { version: s!.version, content, sourceKind: "measured", sourceDetail: "", summary: "Notes", action: "submit" },
+      session: contributor,
+    });
     expect(r.status, where(r)).toBe(200);
     const version = json(r).submission.version;
     const t0 = performance.now();
-    const all = await Promise.all(Array.from({ length: 20 }, () => req(srv, `/api/v1/submissions/${s!.id}/review`, { json: { version, decision: "approve" }, session: moderator })));
+    const all = await Promise.all(
+      Array.from({ length: 20 }, () => req(srv, `/api/v1/submissions/${s!.id}/review`, { json: { version, decision: "approve" }, session: moderator })),
+    );
     const statuses = all.map((x) => x.status).sort();
     console.info(`[approvals] 20 in ${(performance.now() - t0).toFixed(0)} ms: ${statuses.join(",")}`);
     expect(statuses.filter((x) => x === 200)).toHaveLength(1);
@@ -520,16 +636,23 @@ describe("parallel writes wait their turn: no 500, no 503", () => {
         await new Promise((r) => setTimeout(r, 20));
       }
     })();
-    const all = await Promise.all(Array.from({ length: 20 }, async () => {
-      const t = performance.now();
-      const r = await req(srv, "/login", { form: { email: DEMO.moderator.email, password: DEMO.moderator.password } });
-      return { r, ms: performance.now() - t };
-    }));
+    const all = await Promise.all(
+      Array.from({ length: 20 }, async () => {
+        const t = performance.now();
+        const r = await req(srv, "/login", { form: { email: DEMO.moderator.email, password: DEMO.moderator.password } });
+        return { r, ms: performance.now() - t };
+      }),
+    );
     burst = false;
     await reading;
     const statuses = all.map((x) => x.r.status);
-    console.info(`[sign-ins] 20 in ${(performance.now() - t0).toFixed(0)} ms: ${statuses.join(",")}; slowest ${Math.max(...all.map((x) => x.ms)).toFixed(0)} ms; slowest read meanwhile ${Math.max(...reads).toFixed(0)} ms`);
-    expect(statuses.every((s) => s === 302 || s === 429), statuses.join(",")).toBe(true);
+    console.info(
+      `[sign-ins] 20 in ${(performance.now() - t0).toFixed(0)} ms: ${statuses.join(",")}; slowest ${Math.max(...all.map((x) => x.ms)).toFixed(0)} ms; slowest read meanwhile ${Math.max(...reads).toFixed(0)} ms`,
+    );
+    expect(
+      statuses.every((s) => s === 302 || s === 429),
+      statuses.join(","),
+    ).toBe(true);
     expect(statuses.filter((s) => s === 302).length).toBeGreaterThanOrEqual(1);
     const refused = all.filter((x) => x.r.status === 429);
     expect(refused.length).toBeGreaterThanOrEqual(1);
@@ -546,9 +669,16 @@ describe("parallel writes wait their turn: no 500, no 503", () => {
   });
 
   it("eight parallel 'add bike' posts from one rider: every one answered, none a 500", async () => {
-    const all = await Promise.all(Array.from({ length: 8 }, (_, i) => req(srv, "/garage", { form: { intent: "bike", family: "rx750-four", year: String(1977 + (i % 5)), label: `Bike ${i}` }, session: rider })));
+    const all = await Promise.all(
+      Array.from({ length: 8 }, (_, i) =>
+        req(srv, "/garage", { form: { intent: "bike", family: "rx750-four", year: String(1977 + (i % 5)), label: `Bike ${i}` }, session: rider }),
+      ),
+    );
     const statuses = all.map((x) => x.status);
-    expect(statuses.filter((x) => x >= 500), statuses.join(",")).toEqual([]);
+    expect(
+      statuses.filter((x) => x >= 500),
+      statuses.join(","),
+    ).toEqual([]);
   });
 });
 
@@ -579,7 +709,11 @@ describe("the event loop is never held: heavy requests leave it free (health's e
     // the first compile of the editor's code (≈ 100 ms once per process, measured).
     expect((await req(srv, `/submissions/${s!.id}`, { session: contributor })).status).toBe(200);
     await loop();
-    const r = await fetch(`${srv.url}/submissions/${s!.id}`, { method: "POST", body, headers: { "Content-Type": "application/x-www-form-urlencoded", Cookie: `${COOKIE}=${contributor}`, Origin: srv.url } });
+    const r = await fetch(`${srv.url}/submissions/${s!.id}`, {
+      method: "POST",
+      body,
+      headers: { "Content-Type": "application/x-www-form-urlencoded", Cookie: `${COOKIE}=${contributor}`, Origin: srv.url },
+    });
     expect(r.status).toBe(400);
     const held = await loop();
     console.info(`[event loop] huge form: max ${held.maxMs} ms`);
@@ -597,7 +731,9 @@ describe("the event loop is never held: heavy requests leave it free (health's e
 
   it("a 12-megapixel photo upload: sharp decodes and resizes off the loop", async () => {
     const { s } = await startSub(contributor, { connector: "rx750-four-coil-1-plug", idempotencyKey: "loop-photo" });
-    const big = await sharp({ create: { width: 4000, height: 3000, channels: 3, background: "#707070", noise: { type: "gaussian", mean: 128, sigma: 40 } } }).jpeg({ quality: 80 }).toBuffer();
+    const big = await sharp({ create: { width: 4000, height: 3000, channels: 3, background: "#707070", noise: { type: "gaussian", mean: 128, sigma: 40 } } })
+      .jpeg({ quality: 80 })
+      .toBuffer();
     const form = new FormData();
     form.append("photo", new Blob([new Uint8Array(big)], { type: "image/jpeg" }), "big.jpg");
     form.append("consent", "yes");

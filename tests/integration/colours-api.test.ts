@@ -14,9 +14,13 @@ const HOUSE_IDS = ["jis-letters", "jis-bl-black", "jis-bl-blue", "jis-caps", "di
 
 // API.md "Colour notation" decode shape plus the additions: houseStyle, warnings, ambiguities[].houseStyle, make.
 const decodeBody = z.object({
-  input: z.string(), system: z.enum(SYSTEM_IDS), houseStyle: z.enum(HOUSE_IDS).nullable(),
+  input: z.string(),
+  system: z.enum(SYSTEM_IDS),
+  houseStyle: z.enum(HOUSE_IDS).nullable(),
   base: z.object({ name: z.string(), iec: z.string().nullable() }).nullable(),
-  tracers: z.array(z.object({ name: z.string(), iec: z.string().nullable() })), colours: z.array(z.string()).min(1), iec: z.string().nullable(),
+  tracers: z.array(z.object({ name: z.string(), iec: z.string().nullable() })),
+  colours: z.array(z.string()).min(1),
+  iec: z.string().nullable(),
   ambiguities: z.array(z.object({ system: z.enum(SYSTEM_IDS), houseStyle: z.enum(HOUSE_IDS).optional(), reading: z.string().min(1) })),
   warnings: z.array(z.object({ code: z.literal("green_yellow_reserved"), message: z.string().min(1) })),
   make: z.object({ slug: z.string(), name: z.string(), houseStyle: z.enum(HOUSE_IDS).nullable() }).optional(),
@@ -45,7 +49,13 @@ describe("GET /api/v1/colours/decode with make", () => {
   it("decodes in the make's notation and house, with nothing ambiguous, and says which make", async () => {
     // REFERENCE-FACTS 1.3 [from memory]: jis-letters L blue, W white.
     const d = await decode("code=L%2FW&make=asagiri");
-    expect(d).toMatchObject({ system: "jis", houseStyle: "jis-letters", colours: ["blue", "white"], ambiguities: [], make: { slug: "asagiri", houseStyle: "jis-letters" } });
+    expect(d).toMatchObject({
+      system: "jis",
+      houseStyle: "jis-letters",
+      colours: ["blue", "white"],
+      ambiguities: [],
+      make: { slug: "asagiri", houseStyle: "jis-letters" },
+    });
     // REFERENCE-FACTS 1.2: DIN 47002 bl = blau [published]; the make settles what auto leaves open (Bl black in English shorthand).
     const bl = await decode("code=Bl&make=brennwald");
     expect(bl).toMatchObject({ system: "din", houseStyle: "din", colours: ["blue"], ambiguities: [] });
@@ -67,7 +77,10 @@ describe("GET /api/v1/colours/decode with make", () => {
     expect(d.ambiguities).toEqual([{ system: "jis", houseStyle: "jis-bl-blue", reading: "blue with white tracer" }]);
     const auto = await decode("code=Bl");
     expect(auto.system).toBe("din");
-    expect(auto.ambiguities.filter((a) => a.system === "jis").map((a) => [a.houseStyle, a.reading])).toEqual([["jis-bl-black", "black"], ["jis-bl-blue", "blue"]]);
+    expect(auto.ambiguities.filter((a) => a.system === "jis").map((a) => [a.houseStyle, a.reading])).toEqual([
+      ["jis-bl-black", "black"],
+      ["jis-bl-blue", "blue"],
+    ]);
   });
 
   it("system may be left out, auto, or the make's own; another system → 400 naming system", async () => {
@@ -102,7 +115,10 @@ describe("GET /api/v1/colours/decode with make", () => {
     // IEC 60445 (REFERENCE-FACTS 5 [published]); IEC 60757 clause 5.1 (REFERENCE-FACTS 1.1).
     for (const q of ["code=G%2FY&make=asagiri", "code=GY&make=ashcombe", "code=gn%2Fge&make=brennwald", "code=GNYE", "code=G%2FY"]) {
       const d = await decode(q);
-      expect(d.warnings.map((w) => w.code), q).toEqual(["green_yellow_reserved"]);
+      expect(
+        d.warnings.map((w) => w.code),
+        q,
+      ).toEqual(["green_yellow_reserved"]);
       expect(d.warnings[0].message, q).toMatch(/IEC 60445/);
     }
     expect((await decode("code=G%2FW&make=asagiri")).warnings).toEqual([]);
@@ -112,9 +128,19 @@ describe("GET /api/v1/colours/decode with make", () => {
 describe("house styles in the other reads", () => {
   it("GET /api/v1/colours/systems lists each notation's house styles (four for jis)", async () => {
     // REFERENCE-FACTS 1.3 and 5 [from memory] for the jis houses.
-    const body = await getJson("/api/v1/colours/systems", z.object({
-      systems: z.array(z.object({ id: z.enum(SYSTEM_IDS), houseStyles: z.array(z.object({ id: z.enum(HOUSE_IDS), name: z.string(), codes: z.array(z.object({ code: z.string(), colour: z.string() })).min(1) })) })),
-    }));
+    const body = await getJson(
+      "/api/v1/colours/systems",
+      z.object({
+        systems: z.array(
+          z.object({
+            id: z.enum(SYSTEM_IDS),
+            houseStyles: z.array(
+              z.object({ id: z.enum(HOUSE_IDS), name: z.string(), codes: z.array(z.object({ code: z.string(), colour: z.string() })).min(1) }),
+            ),
+          }),
+        ),
+      }),
+    );
     const of = (id: string) => body.systems.find((s) => s.id === id)!.houseStyles.map((h) => h.id);
     expect(of("jis")).toEqual(["jis-letters", "jis-bl-black", "jis-bl-blue", "jis-caps"]);
     expect([of("din"), of("bs"), of("en"), of("iec")]).toEqual([["din"], ["bs"], ["en"], []]);
@@ -122,7 +148,10 @@ describe("house styles in the other reads", () => {
 
   it("families carry their make's house style (API.md additions)", async () => {
     // db/seeders/demo/makes.ts: invented makes with house styles jis-letters, jis-bl-black, din, bs.
-    const { families } = await getJson("/api/v1/families?limit=100", z.object({ families: z.array(z.object({ slug: z.string(), make: z.object({ slug: z.string() }), houseStyle: z.enum(HOUSE_IDS).nullable() })) }));
+    const { families } = await getJson(
+      "/api/v1/families?limit=100",
+      z.object({ families: z.array(z.object({ slug: z.string(), make: z.object({ slug: z.string() }), houseStyle: z.enum(HOUSE_IDS).nullable() })) }),
+    );
     const want: Record<string, string> = { asagiri: "jis-letters", kiriyama: "jis-bl-black", brennwald: "din", ashcombe: "bs" };
     expect(families.length).toBeGreaterThan(0);
     for (const f of families) expect(f.houseStyle, f.slug).toBe(want[f.make.slug]);
@@ -160,13 +189,23 @@ describe("the /colours page without JavaScript", () => {
 });
 
 describe("the colour finder says which reading it used", () => {
-  const readAs = z.object({ system: z.enum(SYSTEM_IDS), houseStyle: z.enum(HOUSE_IDS).nullable(), colours: z.array(z.string()).min(1), words: z.string().min(1) });
+  const readAs = z.object({
+    system: z.enum(SYSTEM_IDS),
+    houseStyle: z.enum(HOUSE_IDS).nullable(),
+    colours: z.array(z.string()).min(1),
+    words: z.string().min(1),
+  });
   // API.md colour finder shape, plus matches[].readAs (null where the wire has no cavity).
   const finderBody = z.object({
-    candidates: z.array(z.object({
-      connector: z.object({ slug: z.string(), name: z.string(), family: z.string() }), score: z.number().min(0).max(1),
-      matches: z.array(z.object({ wire: z.string(), cavity: z.string().nullable(), pinColour: z.string().nullable(), quality: z.string(), readAs: readAs.nullable() })),
-    })),
+    candidates: z.array(
+      z.object({
+        connector: z.object({ slug: z.string(), name: z.string(), family: z.string() }),
+        score: z.number().min(0).max(1),
+        matches: z.array(
+          z.object({ wire: z.string(), cavity: z.string().nullable(), pinColour: z.string().nullable(), quality: z.string(), readAs: readAs.nullable() }),
+        ),
+      }),
+    ),
   });
   const find = async (body: unknown) => {
     const r = await call("/api/v1/colour-finder", { method: "POST", headers: { "Content-Type": "application/json" }, body: JSON.stringify(body) });

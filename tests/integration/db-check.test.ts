@@ -124,7 +124,10 @@ describe("faults the check must report (each injected, checked, undone)", () => 
     });
     expectOnly(problems, f);
     expect(problems).toContain(`${slug}: wire #${wire!.id} is ${wire!.colourCode} but ${conn.slug} cavity ${end.cavity} says ${now}`);
-    expect(problems.some((p) => /does not parse/.test(p)), "a valid code must not be reported as unparseable").toBe(false);
+    expect(
+      problems.some((p) => /does not parse/.test(p)),
+      "a valid code must not be reported as unparseable",
+    ).toBe(false);
   });
 
   each("(b) %s: a pin moved to a cavity the housing does not have", async (slug) => {
@@ -150,7 +153,10 @@ describe("faults the check must report (each injected, checked, undone)", () => 
       return () => pin.update({ colourCode: was });
     });
     expectOnly(problems, f);
-    expect(problems.some((p) => p.startsWith(`${slug}: colour "Zz" does not parse in the family's notation (${f.colourSystem})`)), problems.join("\n")).toBe(true);
+    expect(
+      problems.some((p) => p.startsWith(`${slug}: colour "Zz" does not parse in the family's notation (${f.colourSystem})`)),
+      problems.join("\n"),
+    ).toBe(true);
   });
 
   it("(c) rx750-four: a code of another Japanese-style house (Bl) does not parse in its make's house, jis-letters", async () => {
@@ -164,7 +170,10 @@ describe("faults the check must report (each injected, checked, undone)", () => 
       return () => pin.update({ colourCode: was });
     });
     expectOnly(problems, f);
-    expect(problems.some((p) => p.startsWith(`rx750-four: colour "Bl" does not parse in the family's notation (jis)`) && p.includes("jis-letters")), problems.join("\n")).toBe(true);
+    expect(
+      problems.some((p) => p.startsWith(`rx750-four: colour "Bl" does not parse in the family's notation (jis)`) && p.includes("jis-letters")),
+      problems.join("\n"),
+    ).toBe(true);
   });
 
   each("(d) %s: deleting any one wire of the kill-run net breaks the ignition circuit → does not close", async (slug) => {
@@ -181,7 +190,10 @@ describe("faults the check must report (each injected, checked, undone)", () => 
         return () => m.Wire.create(row);
       });
       expectOnly(problems, f);
-      expect(problems.some((p) => p.startsWith(`${slug}: circuit ignition does not close through `)), `without wire #${row.id}:\n${problems.join("\n")}`).toBe(true);
+      expect(
+        problems.some((p) => p.startsWith(`${slug}: circuit ignition does not close through `)),
+        `without wire #${row.id}:\n${problems.join("\n")}`,
+      ).toBe(true);
     }
   });
 
@@ -198,10 +210,12 @@ describe("faults the check must report (each injected, checked, undone)", () => 
       return () => pin.update({ colourCode: was });
     });
     expectOnly(problems, f);
-    expect(problems).toEqual(expect.arrayContaining([
-      `${slug}: ${owner.slug} cavity ${pin.cavity} is ${now} but ${mate.slug} says ${was}`,
-      `${slug}: ${mate.slug} cavity ${pin.cavity} is ${was} but ${owner.slug} says ${now}`,
-    ]));
+    expect(problems).toEqual(
+      expect.arrayContaining([
+        `${slug}: ${owner.slug} cavity ${pin.cavity} is ${now} but ${mate.slug} says ${was}`,
+        `${slug}: ${mate.slug} cavity ${pin.cavity} is ${was} but ${owner.slug} says ${now}`,
+      ]),
+    );
   });
 
   it("after all the faults the library checks clean again", async () => {
@@ -229,8 +243,11 @@ describe("the CLI: npx tsx app/cli.server.ts setup | check", () => {
     expect(ok.stdout).toMatch(/consistent/);
 
     // Fault from outside the CLI's process: the ignition unit's loom plug loses its cavity 1 to a cavity the housing lacks.
-    await execSql(cliDb, `UPDATE pins SET cavity = '99' WHERE cavity = '1'
-      AND connector_id = (SELECT id FROM connectors WHERE slug = 'rx750-four-ignition-unit-plug')`);
+    await execSql(
+      cliDb,
+      `UPDATE pins SET cavity = '99' WHERE cavity = '1'
+      AND connector_id = (SELECT id FROM connectors WHERE slug = 'rx750-four-ignition-unit-plug')`,
+    );
     const bad = cli("check");
     expect(bad.status, bad.stdout + bad.stderr).toBe(1);
     expect(bad.stderr).toContain("rx750-four: rx750-four-ignition-unit-plug: cavity 99 does not exist in the housing");

@@ -12,7 +12,9 @@ beforeAll(async () => {
   srv = await startServer();
   rider = await signIn(srv, DEMO.rider.email, DEMO.rider.password);
 }, 60_000);
-afterAll(async () => { await srv?.stop(); });
+afterAll(async () => {
+  await srv?.stop();
+});
 
 const h1 = (body: string) => /<h1[^>]*>([^<]*)<\/h1>/.exec(body)?.[1];
 

@@ -7,10 +7,21 @@ import { startServer, type TestServer } from "../support/server";
 import { req, where } from "../support/http";
 
 let srv: TestServer;
-beforeAll(async () => { srv = await startServer(); }, 60_000);
-afterAll(async () => { await srv?.stop(); });
+beforeAll(async () => {
+  srv = await startServer();
+}, 60_000);
+afterAll(async () => {
+  await srv?.stop();
+});
 
-const decode = (s: string) => s.replace(/<!-- -->/g, "").replace(/&quot;/g, '"').replace(/&#x27;|&#39;/g, "'").replace(/&lt;/g, "<").replace(/&gt;/g, ">").replace(/&amp;/g, "&");
+const decode = (s: string) =>
+  s
+    .replace(/<!-- -->/g, "")
+    .replace(/&quot;/g, '"')
+    .replace(/&#x27;|&#39;/g, "'")
+    .replace(/&lt;/g, "<")
+    .replace(/&gt;/g, ">")
+    .replace(/&amp;/g, "&");
 const pageError = (body: string) => decode(/<p role="alert"[^>]*>([\s\S]*?)<\/p>/.exec(body)?.[1] ?? "");
 
 describe("the finder page and its API check the same input the same way", () => {

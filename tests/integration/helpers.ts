@@ -37,17 +37,29 @@ export function parseCsv(text: string): string[][] {
   for (let i = 0; i < text.length; i++) {
     const ch = text[i];
     if (quoted) {
-      if (ch === '"' && text[i + 1] === '"') { cell += '"'; i++; }
-      else if (ch === '"') quoted = false;
+      if (ch === '"' && text[i + 1] === '"') {
+        cell += '"';
+        i++;
+      } else if (ch === '"') quoted = false;
       else cell += ch;
     } else if (ch === '"' && cell === "") quoted = true;
-    else if (ch === ",") { row.push(cell); cell = ""; }
-    else if (ch === "\r" && text[i + 1] === "\n") { /* the \n ends the record */ }
-    else if (ch === "\n") { row.push(cell); rows.push(row); row = []; cell = ""; }
-    else cell += ch;
+    else if (ch === ",") {
+      row.push(cell);
+      cell = "";
+    } else if (ch === "\r" && text[i + 1] === "\n") {
+      /* the \n ends the record */
+    } else if (ch === "\n") {
+      row.push(cell);
+      rows.push(row);
+      row = [];
+      cell = "";
+    } else cell += ch;
   }
   if (quoted) throw new Error("CSV ends inside a quoted field");
-  if (cell !== "" || row.length) { row.push(cell); rows.push(row); }
+  if (cell !== "" || row.length) {
+    row.push(cell);
+    rows.push(row);
+  }
   return rows;
 }
 
@@ -114,7 +126,9 @@ export function client(base: () => string) {
 /** `npm run search:reconcile` against a test server's database and search stand-in; returns its counts. */
 export async function reconcileOnce(srv: TestServer): Promise<{ added: number; updated: number; removed: number }> {
   const { stdout } = await promisify(execFile)("npm", ["run", "--silent", "search:reconcile"], {
-    cwd: path.resolve(import.meta.dirname, "../.."), env: { ...process.env, DB_PATH: srv.dbPath, SEARCH_URL: srv.searchUrl!, SEARCH_KEY: "" }, timeout: 60_000,
+    cwd: path.resolve(import.meta.dirname, "../.."),
+    env: { ...process.env, DB_PATH: srv.dbPath, SEARCH_URL: srv.searchUrl!, SEARCH_KEY: "" },
+    timeout: 60_000,
   });
   const m = /search index reconciled: (\{.*\})/.exec(stdout);
   if (!m) throw new Error(`no counts in the reconcile output:\n${stdout}`);

@@ -56,13 +56,22 @@ beforeAll(async () => {
   http = await import("../../app/services/submission-http.server");
   lib = await import("../../app/services/library.server");
   const user = async (email: string, role: "contributor" | "moderator") => {
-    const u = await m.User.findOne({ where: { email } }) ?? await m.User.create({
-      email, displayName: email.split("@")[0], passwordHash: "x", role, emailVerifiedAt: new Date(), passwordChangedAt: new Date(), createdAt: new Date(), disabledAt: null,
-    });
+    const u =
+      (await m.User.findOne({ where: { email } })) ??
+      (await m.User.create({
+        email,
+        displayName: email.split("@")[0],
+        passwordHash: "x",
+        role,
+        emailVerifiedAt: new Date(),
+        passwordChangedAt: new Date(),
+        createdAt: new Date(),
+        disabledAt: null,
+      }));
     return { id: u.id, role };
   };
-  contributor = await user("contributor@loomlore.invalid", "contributor") as typeof contributor;
-  moderator = await user("moderator@loomlore.invalid", "moderator") as typeof moderator;
+  contributor = (await user("contributor@loomlore.invalid", "contributor")) as typeof contributor;
+  moderator = (await user("moderator@loomlore.invalid", "moderator")) as typeof moderator;
 }, 60_000);
 
 afterAll(async () => {
@@ -92,8 +101,18 @@ interface Child {
 /** A child process running tests/support/integrity-child.ts with `cfg`, on DB_PATH = `file`. */
 function spawnChild(cfg: Record<string, unknown>, file = dbPath, env: Record<string, string> = {}): Child {
   const proc = spawn(process.execPath, ["--import", "tsx", CHILD, JSON.stringify(cfg)], {
-    cwd: root, stdio: ["pipe", "pipe", "pipe"],
-    env: { ...process.env, DB_PATH: file, MAIL_WORKER: "off", PHOTO_SWEEPER: "off", SEARCH_WORKER: "off", SEARCH_URL: "http://127.0.0.1:1", SMTP_URL: "smtp://127.0.0.1:1", ...env },
+    cwd: root,
+    stdio: ["pipe", "pipe", "pipe"],
+    env: {
+      ...process.env,
+      DB_PATH: file,
+      MAIL_WORKER: "off",
+      PHOTO_SWEEPER: "off",
+      SEARCH_WORKER: "off",
+      SEARCH_URL: "http://127.0.0.1:1",
+      SMTP_URL: "smtp://127.0.0.1:1",
+      ...env,
+    },
   });
   const lines: string[] = [];
   let err = "";
@@ -110,18 +129,36 @@ function spawnChild(cfg: Record<string, unknown>, file = dbPath, env: Record<str
     }
   });
   proc.stderr!.setEncoding("utf8");
-  proc.stderr!.on("data", (chunk: string) => { err += chunk; });
+  proc.stderr!.on("data", (chunk: string) => {
+    err += chunk;
+  });
   proc.stdin!.on("error", () => {}); // a killed child's closed pipe
-  const exited = new Promise<{ code: number | null; signal: NodeJS.Signals | null }>((resolve) => proc.on("close", (code, signal) => resolve({ code, signal })));
+  const exited = new Promise<{ code: number | null; signal: NodeJS.Signals | null }>((resolve) =>
+    proc.on("close", (code, signal) => resolve({ code, signal })),
+  );
   return {
-    proc, lines, exited, stderr: () => err,
-    send: (text) => { proc.stdin!.write(text); },
+    proc,
+    lines,
+    exited,
+    stderr: () => err,
+    send: (text) => {
+      proc.stdin!.write(text);
+    },
     waitFor(pattern, timeoutMs = 30_000) {
       const seen = lines.find((l) => pattern.test(l));
       if (seen) return Promise.resolve(seen);
       return new Promise((resolve, reject) => {
-        const timer = setTimeout(() => reject(new Error(`child (${cfg.mode}) printed no ${pattern} in ${timeoutMs} ms; stderr:\n${err.slice(-2000)}`)), timeoutMs);
-        waiters.push({ pattern, resolve: (l) => { clearTimeout(timer); resolve(l); } });
+        const timer = setTimeout(
+          () => reject(new Error(`child (${cfg.mode}) printed no ${pattern} in ${timeoutMs} ms; stderr:\n${err.slice(-2000)}`)),
+          timeoutMs,
+        );
+        waiters.push({
+          pattern,
+          resolve: (l) => {
+            clearTimeout(timer);
+            resolve(l);
+          },
+        });
         void exited.then(({ code, signal }) => {
           clearTimeout(timer);
           reject(new Error(`child (${cfg.mode}) exited (${code ?? signal}) before printing ${pattern}; stderr:\n${err.slice(-2000)}`));
@@ -162,8 +199,7 @@ async function checkFile(file: string) {
 /** The sqlite3 handles Sequelize holds open: between transactions only its shared "default" one. */
 const openHandles = () => Object.keys((db.sequelize.connectionManager as unknown as { connections: Record<string, unknown> }).connections);
 
-const plain = async <T,>(sql: string, transaction?: import("sequelize").Transaction) =>
-  (await db.sequelize.query(sql, { plain: true, transaction })) as T;
+const plain = async <T>(sql: string, transaction?: import("sequelize").Transaction) => (await db.sequelize.query(sql, { plain: true, transaction })) as T;
 
 /** An edit of CARD, given a source and submitted for review; returns its id and version. */
 async function editInReview(change: (c: import("../../app/domain/submissions").CardProposal) => void) {
@@ -171,7 +207,14 @@ async function editInReview(change: (c: import("../../app/domain/submissions").C
   const v = (await svc.viewSubmission(contributor, id))!;
   const content = structuredClone(v.content);
   change(content);
-  await svc.updateSubmission(contributor, id, { version: v.version, content, sourceKind: "traced", sourceDetail: "Traced on a test loom.", summary: "Integrity test edit.", action: "submit" });
+  await svc.updateSubmission(contributor, id, {
+    version: v.version,
+    content,
+    sourceKind: "traced",
+    sourceDetail: "Traced on a test loom.",
+    summary: "Integrity test edit.",
+    action: "submit",
+  });
   const after = (await svc.viewSubmission(contributor, id))!;
   expect(after.state).toBe("in_review");
   return { id, version: after.version };
@@ -181,8 +224,15 @@ async function editInReview(change: (c: import("../../app/domain/submissions").C
 async function counterRow(name: string) {
   const now = new Date();
   const s = await m.Submission.create({
-    authorId: contributor.id, kind: "new", familyId: null, connectorId: null, baseRevision: null, content: { name, photos: [] },
-    idempotencyKey: null, createdAt: now, updatedAt: now,
+    authorId: contributor.id,
+    kind: "new",
+    familyId: null,
+    connectorId: null,
+    baseRevision: null,
+    content: { name, photos: [] },
+    idempotencyKey: null,
+    createdAt: now,
+    updatedAt: now,
   });
   return s;
 }
@@ -213,7 +263,9 @@ describe("D1 connection pragmas (QUALITY D1)", () => {
     const inside = await db.sequelize.transaction(async (t) => pragmas(t));
     expect(inside).toEqual({ journal: "wal", busy: expect.any(Number), fk: 1, sync: documented() });
     expect(inside.busy).toBeGreaterThanOrEqual(5000); // QUALITY D1
-    console.log(`D1: journal_mode=${inside.journal}, busy_timeout=${inside.busy} ms, foreign_keys=${inside.fk}, synchronous=${inside.sync} (${db.SYNCHRONOUS}) on both handles`);
+    console.log(
+      `D1: journal_mode=${inside.journal}, busy_timeout=${inside.busy} ms, foreign_keys=${inside.fk}, synchronous=${inside.sync} (${db.SYNCHRONOUS}) on both handles`,
+    );
   });
 });
 
@@ -221,22 +273,29 @@ describe("D8 transaction propagation (QUALITY D8)", () => {
   it("a pin created in a managed transaction that then throws is not there afterwards", async () => {
     const c = (await m.Connector.findOne({ where: { slug: CARD } }))!;
     const cavity = "D8-rollback";
-    await expect(db.sequelize.transaction(async (transaction) => {
-      await m.Pin.create({ familyId: c.familyId, connectorId: c.id, componentId: null, cavity, colourCode: "R", circuit: "", terminal: null, position: 99 }, { transaction });
-      expect(await m.Pin.count({ where: { connectorId: c.id, cavity }, transaction })).toBe(1); // visible to its own transaction
-      expect(await m.Pin.count({ where: { connectorId: c.id, cavity } })).toBe(0); // not to anyone else (WAL snapshot)
-      throw new Error("rollback please");
-    })).rejects.toThrow("rollback please");
+    await expect(
+      db.sequelize.transaction(async (transaction) => {
+        await m.Pin.create(
+          { familyId: c.familyId, connectorId: c.id, componentId: null, cavity, colourCode: "R", circuit: "", terminal: null, position: 99 },
+          { transaction },
+        );
+        expect(await m.Pin.count({ where: { connectorId: c.id, cavity }, transaction })).toBe(1); // visible to its own transaction
+        expect(await m.Pin.count({ where: { connectorId: c.id, cavity } })).toBe(0); // not to anyone else (WAL snapshot)
+        throw new Error("rollback please");
+      }),
+    ).rejects.toThrow("rollback please");
     expect(await m.Pin.count({ where: { connectorId: c.id, cavity } })).toBe(0);
   });
 
   it("the test-only guard catches a query that forgets { transaction } (positive control)", async () => {
     const guard = db.enableTransactionGuard();
     try {
-      await expect(db.sequelize.transaction(async (transaction) => {
-        await m.Pin.count({ transaction }); // fine
-        await m.Pin.count(); // forgotten
-      })).rejects.toThrow(/Transaction guard: a query ran without \{ transaction \}/);
+      await expect(
+        db.sequelize.transaction(async (transaction) => {
+          await m.Pin.count({ transaction }); // fine
+          await m.Pin.count(); // forgotten
+        }),
+      ).rejects.toThrow(/Transaction guard: a query ran without \{ transaction \}/);
       expect(guard.violations).toHaveLength(1);
       expect(guard.violations[0]).toMatch(/integrity\.test\.ts:\d+/); // names the file:line that forgot it
       // Outside any open transaction a query needs none.
@@ -253,19 +312,25 @@ describe("D8 transaction propagation (QUALITY D8)", () => {
     try {
       // Approve an edit with a corrected colour: the heaviest path (publish, recolour along the wire and across mates,
       // revisions for the cards that followed, loom check, audit, outbox, index job).
-      const a = await editInReview((c) => { c.pins.find((p) => p.cavity === "1")!.code = "L/W"; });
+      const a = await editInReview((c) => {
+        c.pins.find((p) => p.cavity === "1")!.code = "L/W";
+      });
       const t0 = performance.now();
       expect((await svc.decide(moderator, a.id, { version: a.version, decision: "approve", message: "" })).state).toBe("published");
       approveMs = performance.now() - t0;
       // Return with a question, answer and resubmit, approve.
-      const b = await editInReview((c) => { c.notes = "D8: returned once, then approved."; });
+      const b = await editInReview((c) => {
+        c.notes = "D8: returned once, then approved.";
+      });
       await svc.decide(moderator, b.id, { version: b.version, decision: "return", message: "Which years?" });
       const bv = (await svc.viewSubmission(contributor, b.id))!;
       await svc.updateSubmission(contributor, b.id, { version: bv.version, action: "submit", answer: "All of them." });
       const bw = (await svc.viewSubmission(moderator, b.id))!;
       expect((await svc.decide(moderator, b.id, { version: bw.version, decision: "approve", message: "Thanks." })).state).toBe("published");
       // Decline; start-and-submit in one go; a new card in a family; an idempotent start.
-      const d = await editInReview((c) => { c.location = "D8: under the seat"; });
+      const d = await editInReview((c) => {
+        c.location = "D8: under the seat";
+      });
       await svc.decide(moderator, d.id, { version: d.version, decision: "decline", message: "Not so." });
       const family = (await m.Family.findOne())!;
       await svc.startSubmission(contributor, { family: family.slug, idempotencyKey: "d8-key" });
@@ -273,7 +338,9 @@ describe("D8 transaction propagation (QUALITY D8)", () => {
       await svc.startSubmission(contributor, { connector: CARD, sourceKind: "traced", sourceDetail: "D8", submit: true });
       expect(guard.violations).toEqual([]);
       expect(guard.checked, "queries the guard saw inside transactions").toBeGreaterThan(100);
-      console.log(`D8: the guard checked ${guard.checked} queries inside the app's transactions; none forgot { transaction } (approving the recolouring edit took ${ms(approveMs)})`);
+      console.log(
+        `D8: the guard checked ${guard.checked} queries inside the app's transactions; none forgot { transaction } (approving the recolouring edit took ${ms(approveMs)})`,
+      );
     } finally {
       guard.disable();
     }
@@ -282,13 +349,17 @@ describe("D8 transaction propagation (QUALITY D8)", () => {
 
 describe("D9 database full (QUALITY D9)", () => {
   it("an approval that needs a page the capped file does not have: SQLITE_FULL → 503, rolled back, digest unchanged; then it succeeds", async () => {
-    const { id, version } = await editInReview((c) => { c.notes = `D9: ${"a longer note that needs room in a new revision. ".repeat(40)}`; });
+    const { id, version } = await editInReview((c) => {
+      c.notes = `D9: ${"a longer note that needs room in a new revision. ".repeat(40)}`;
+    });
     // Free pages would let the write fit without growing the file: start from none.
     if ((await plain<{ freelist_count: number }>("PRAGMA freelist_count")).freelist_count > 0) await db.sequelize.query("VACUUM");
     const pages = (await plain<{ page_count: number }>("PRAGMA page_count")).page_count;
     const before = await stateDigest(dbPath);
     const sql: string[] = [];
-    const record = (_options: unknown, query: { sql?: string }) => { if (query?.sql) sql.push(query.sql); };
+    const record = (_options: unknown, query: { sql?: string }) => {
+      if (query?.sql) sql.push(query.sql);
+    };
     db.sequelize.addHook("afterQuery", "d9-record", record as never);
     const { setFaults } = await import("../../app/infra/faults.server.ts");
     setFaults({ maxPageCount: pages }); // each transaction sets PRAGMA max_page_count on the write handle
@@ -307,7 +378,10 @@ describe("D9 database full (QUALITY D9)", () => {
     const res = http.submissionApiError(error);
     expect(res.status).toBe(503);
     expect(res.headers.get("Retry-After")).toBe("30");
-    expect(((await res.json()) as { error: { code: string; message: string } }).error).toMatchObject({ code: "unavailable", message: expect.stringMatching(/try again/) });
+    expect(((await res.json()) as { error: { code: string; message: string } }).error).toMatchObject({
+      code: "unavailable",
+      message: expect.stringMatching(/try again/),
+    });
     // sqlite.org/lang_transaction.html: SQLITE_FULL may roll back on its own; the app still answers with ROLLBACK.
     expect(sql.some((s) => /^ROLLBACK/i.test(s.trim()))).toBe(true);
     // That ROLLBACK finds the transaction already gone and Sequelize "kills" the handle: it must really be closed.
@@ -327,7 +401,9 @@ describe("D9 database full (QUALITY D9)", () => {
 
 describe("F9 database held by another process (QUALITY F9)", () => {
   it("reads continue while another process holds BEGIN IMMEDIATE; a decision waits about busy_timeout, answers 503, changes nothing, then succeeds", async () => {
-    const { id, version } = await editInReview((c) => { c.notes = "F9: decided after the lock is released."; });
+    const { id, version } = await editInReview((c) => {
+      c.notes = "F9: decided after the lock is released.";
+    });
     const HOLD_MS = 10_000; // QUALITY F9: "holds BEGIN IMMEDIATE for 10 s"
     const holder = spawnChild({ mode: "hold", ms: HOLD_MS });
     try {
@@ -340,9 +416,18 @@ describe("F9 database held by another process (QUALITY F9)", () => {
       const before = await stateDigest(dbPath);
       // The decision, with a card read part-way through its wait.
       t0 = performance.now();
-      let decidedAt = 0, readAt = 0;
+      let decidedAt = 0,
+        readAt = 0;
       const [outcome, during] = await Promise.all([
-        svc.decide(moderator, id, { version, decision: "approve", message: "" }).then(() => null, (e: unknown) => e).finally(() => { decidedAt = performance.now(); }),
+        svc
+          .decide(moderator, id, { version, decision: "approve", message: "" })
+          .then(
+            () => null,
+            (e: unknown) => e,
+          )
+          .finally(() => {
+            decidedAt = performance.now();
+          }),
         (async () => {
           await sleep(1000);
           const s = performance.now();
@@ -367,7 +452,9 @@ describe("F9 database held by another process (QUALITY F9)", () => {
       expect(waited).toBeLessThanOrEqual(db.BUSY_TIMEOUT_MS + 1000);
       expect(await stateDigest(dbPath)).toBe(before);
       expect(openHandles(), "the refused transaction's handle is closed").toEqual(["default"]);
-      console.log(`F9: card read while held ${ms(cardRead)}, read during the decision's wait ${ms(during)}; decision gave up after ${ms(waited)} (busy_timeout ${db.BUSY_TIMEOUT_MS} ms) → 503, digest unchanged`);
+      console.log(
+        `F9: card read while held ${ms(cardRead)}, read during the decision's wait ${ms(during)}; decision gave up after ${ms(waited)} (busy_timeout ${db.BUSY_TIMEOUT_MS} ms) → 503, digest unchanged`,
+      );
       await holder.waitFor(/^released$/, HOLD_MS + 5000);
       expect((await svc.decide(moderator, id, { version, decision: "approve", message: "" })).state).toBe("published");
     } finally {
@@ -380,7 +467,9 @@ describe("F9 database held by another process: background writes (QUALITY F9)", 
   it("a page read does not wait behind a background job's write that is waiting for the lock", async () => {
     const search = await import("../../app/services/search.server");
     // An approval leaves an index job; with no search service the drain fails and records the attempt on the job rows.
-    const { id, version } = await editInReview((c) => { c.notes = "F9: leaves an index job."; });
+    const { id, version } = await editInReview((c) => {
+      c.notes = "F9: leaves an index job.";
+    });
     await svc.decide(moderator, id, { version, decision: "approve", message: "" });
     expect(await m.IndexJob.count({ where: { doneAt: null } })).toBeGreaterThan(0);
     const holder = spawnChild({ mode: "hold", ms: db.BUSY_TIMEOUT_MS + 3000 });
@@ -388,13 +477,23 @@ describe("F9 database held by another process: background writes (QUALITY F9)", 
       await holder.waitFor(/^held$/);
       const t0 = performance.now();
       let drainAt = 0;
-      const drain = search.drainIndexJobs().then(() => null, (e: unknown) => e).finally(() => { drainAt = performance.now(); });
+      const drain = search
+        .drainIndexJobs()
+        .then(
+          () => null,
+          (e: unknown) => e,
+        )
+        .finally(() => {
+          drainAt = performance.now();
+        });
       await sleep(500); // the drain's write (IndexJob.increment, no transaction) is now waiting for the lock
       const r0 = performance.now();
       await lib.getConnectorCard(CARD);
       const readAt = performance.now();
       const failure = await drain;
-      console.log(`F9: with a background write waiting for the lock, a card read took ${ms(readAt - r0)}; the write gave up after ${ms(drainAt - t0)} (${http.isBusyOrFull(failure) ? "SQLITE_BUSY" : String(failure)})`);
+      console.log(
+        `F9: with a background write waiting for the lock, a card read took ${ms(readAt - r0)}; the write gave up after ${ms(drainAt - t0)} (${http.isBusyOrFull(failure) ? "SQLITE_BUSY" : String(failure)})`,
+      );
       expect(drainAt - t0, "the background write did wait for the lock (else this test proves nothing)").toBeGreaterThanOrEqual(db.BUSY_TIMEOUT_MS * 0.9);
       // Sequelize's sqlite dialect runs every query without a transaction on one shared handle: a write there that waits
       // for the lock holds that handle, and every read of the process queues behind it.
@@ -407,15 +506,28 @@ describe("F9 database held by another process: background writes (QUALITY F9)", 
 
 // D2/D10 workers: the app's Sequelize instance in separate processes, each transaction read-then-write.
 async function runWorkers(opts: { workers: number; count: number; submissionId: number; action: string; during?: () => Promise<void> }) {
-  const kids = Array.from({ length: opts.workers }, (_, worker) => spawnChild({ mode: "contend", submissionId: opts.submissionId, count: opts.count, worker, action: opts.action }));
+  const kids = Array.from({ length: opts.workers }, (_, worker) =>
+    spawnChild({ mode: "contend", submissionId: opts.submissionId, count: opts.count, worker, action: opts.action }),
+  );
   try {
     await Promise.all(kids.map((k) => k.waitFor(/^ready$/)));
     const t0 = performance.now();
     for (const k of kids) k.send("go\n");
     const during = opts.during?.();
-    const results = await Promise.all(kids.map(async (k) => JSON.parse((await k.waitFor(/^result /, 120_000)).slice(7)) as {
-      worker: number; waits: number[]; durations: number[]; busy: number; conflicts: number; errors: string[]; elapsed: number;
-    }));
+    const results = await Promise.all(
+      kids.map(
+        async (k) =>
+          JSON.parse((await k.waitFor(/^result /, 120_000)).slice(7)) as {
+            worker: number;
+            waits: number[];
+            durations: number[];
+            busy: number;
+            conflicts: number;
+            errors: string[];
+            elapsed: number;
+          },
+      ),
+    );
     const elapsed = performance.now() - t0;
     await during;
     return { results, elapsed };
@@ -426,7 +538,8 @@ async function runWorkers(opts: { workers: number; count: number; submissionId: 
 
 describe("D2 write contention (QUALITY D2)", () => {
   it("8 processes × 200 read-then-write IMMEDIATE transactions on one submission: no SQLITE_BUSY, exact totals, p99 wait ≤ busy_timeout/2", async () => {
-    const WORKERS = 8, COUNT = 200; // QUALITY D2
+    const WORKERS = 8,
+      COUNT = 200; // QUALITY D2
     const row = await counterRow("D2 counter");
     const { results, elapsed } = await runWorkers({ workers: WORKERS, count: COUNT, submissionId: row.id, action: "d2.tx" });
     const waits = results.flatMap((r) => r.waits).sort((a, b) => a - b);
@@ -436,8 +549,8 @@ describe("D2 write contention (QUALITY D2)", () => {
     const errors = results.flatMap((r) => r.errors);
     console.log(
       `D2: ${WORKERS}×${COUNT} transactions in ${(elapsed / 1000).toFixed(1)} s (${((WORKERS * COUNT) / (elapsed / 1000)).toFixed(0)}/s); ` +
-      `wait to begin p50 ${ms(quantile(waits, 0.5))}, p99 ${ms(quantile(waits, 0.99))}, max ${ms(waits.at(-1)!)}; ` +
-      `whole transaction p99 ${ms(quantile(durations, 0.99))}; SQLITE_BUSY ${busy}, lost updates ${conflicts}, other errors ${errors.length}`,
+        `wait to begin p50 ${ms(quantile(waits, 0.5))}, p99 ${ms(quantile(waits, 0.99))}, max ${ms(waits.at(-1)!)}; ` +
+        `whole transaction p99 ${ms(quantile(durations, 0.99))}; SQLITE_BUSY ${busy}, lost updates ${conflicts}, other errors ${errors.length}`,
     );
     expect(errors).toEqual([]);
     expect(busy).toBe(0); // QUALITY D2: 0 SQLITE_BUSY reach the caller
@@ -451,12 +564,16 @@ describe("D2 write contention (QUALITY D2)", () => {
 
 describe("D10 hot backup (QUALITY D10)", () => {
   it("VACUUM INTO while writers run: every copy opens, passes integrity_check and holds a committed state", async () => {
-    const WORKERS = 8, COUNT = 100;
+    const WORKERS = 8,
+      COUNT = 100;
     const row = await counterRow("D10 counter");
     const d2Before = await m.AuditLog.count({ where: { action: "d2.tx" } });
     const copies: { file: string; at: number }[] = [];
     const { elapsed } = await runWorkers({
-      workers: WORKERS, count: COUNT, submissionId: row.id, action: "d10.tx",
+      workers: WORKERS,
+      count: COUNT,
+      submissionId: row.id,
+      action: "d10.tx",
       during: async () => {
         const src = await raw(dbPath, sqlite3.OPEN_READONLY);
         try {
@@ -489,29 +606,66 @@ describe("D10 hot backup (QUALITY D10)", () => {
         await r.close();
       }
     }
-    console.log(`D10: ${copies.length} copies during ${(elapsed / 1000).toFixed(1)} s of writes held ${seen.join(", ")} of ${total} transactions; VACUUM INTO took ${copies.map((c) => ms(c.at)).join(", ")}`);
+    console.log(
+      `D10: ${copies.length} copies during ${(elapsed / 1000).toFixed(1)} s of writes held ${seen.join(", ")} of ${total} transactions; VACUUM INTO took ${copies.map((c) => ms(c.at)).join(", ")}`,
+    );
     expect(copies).toHaveLength(4);
-    expect(seen.some((n) => n > 0 && n < total), "at least one copy taken while the writers were mid-run").toBe(true);
+    expect(
+      seen.some((n) => n > 0 && n < total),
+      "at least one copy taken while the writers were mid-run",
+    ).toBe(true);
   }, 120_000);
 });
 
 describe("D5 kill -9 mid-transaction (QUALITY D5)", () => {
   it("a writer SIGKILLed at random moments: integrity ok, foreign keys ok, every batch all or nothing, nothing committed lost; the card still reads", async () => {
-    const BUDGET_MS = 40_000, MIN_ITERATIONS = 50, MAX_ITERATIONS = 200; // QUALITY D5 asks for 200 iterations
+    const BUDGET_MS = 40_000,
+      MIN_ITERATIONS = 50,
+      MAX_ITERATIONS = 200; // QUALITY D5 asks for 200 iterations
     const make = (await m.Make.findOne({ order: [["id", "ASC"]] }))!;
     const family = await m.Family.create({
-      makeId: make.id, slug: "crash-rig", name: "Crash rig", modelRange: "Test rig", yearFrom: 2026, yearTo: 2026, engine: "—", displacementCc: 0,
-      cylinders: 1, firingOrder: "—", crankDeg: null, ignition: "—", colourSystem: make.colourSystem, blurb: "",
+      makeId: make.id,
+      slug: "crash-rig",
+      name: "Crash rig",
+      modelRange: "Test rig",
+      yearFrom: 2026,
+      yearTo: 2026,
+      engine: "—",
+      displacementCc: 0,
+      cylinders: 1,
+      firingOrder: "—",
+      crankDeg: null,
+      ignition: "—",
+      colourSystem: make.colourSystem,
+      blurb: "",
     });
     const system = await m.System.create({ familyId: family.id, kind: "ignition", name: "Ignition" });
     const rig = await m.Connector.create({
-      familyId: family.id, systemId: system.id, componentId: null, matesWithId: null, slug: "crash-rig-plug", name: "Crash rig plug", location: "Test bench",
-      gender: "plug", housing: "—", rows: 4, cols: 5, cavities: RIG_CAVITIES.map((cavity, i) => ({ cavity, row: Math.floor(i / 5), col: i % 5 })),
-      pin1: "1", latch: "top", notes: "", revision: 0, publishedAt: new Date(),
+      familyId: family.id,
+      systemId: system.id,
+      componentId: null,
+      matesWithId: null,
+      slug: "crash-rig-plug",
+      name: "Crash rig plug",
+      location: "Test bench",
+      gender: "plug",
+      housing: "—",
+      rows: 4,
+      cols: 5,
+      cavities: RIG_CAVITIES.map((cavity, i) => ({ cavity, row: Math.floor(i / 5), col: i % 5 })),
+      pin1: "1",
+      latch: "top",
+      notes: "",
+      revision: 0,
+      publishedAt: new Date(),
     });
     const rnd = mulberry32(SEED);
     const cfg = { mode: "batches", connectorId: rig.id, familyId: family.id };
-    let iterations = 0, committedTotal = 0, inFlightCommitted = 0, emptyRuns = 0, openAtKill = 0;
+    let iterations = 0,
+      committedTotal = 0,
+      inFlightCommitted = 0,
+      emptyRuns = 0,
+      openAtKill = 0;
     let rev = 0;
     const checkMs: number[] = [];
     const t0 = performance.now();
@@ -539,11 +693,18 @@ describe("D5 kill -9 mid-transaction (QUALITY D5)", () => {
         try {
           const [c] = await r.all<{ revision: number }>("SELECT revision FROM connectors WHERE id = ?", [rig.id]);
           const pins = await r.all<{ cavity: string; colourCode: string; circuit: string; position: number }>(
-            "SELECT cavity, colour_code AS colourCode, circuit, position FROM pins WHERE connector_id = ? ORDER BY position", [rig.id]);
-          const audits = (await r.all<{ detail: string }>("SELECT detail FROM audit_log WHERE action = 'crash.batch' ORDER BY id")).map((a) => JSON.parse(a.detail) as { batch: number; checksum: string });
+            "SELECT cavity, colour_code AS colourCode, circuit, position FROM pins WHERE connector_id = ? ORDER BY position",
+            [rig.id],
+          );
+          const audits = (await r.all<{ detail: string }>("SELECT detail FROM audit_log WHERE action = 'crash.batch' ORDER BY id")).map(
+            (a) => JSON.parse(a.detail) as { batch: number; checksum: string },
+          );
           // Every batch either fully present or absent: batches 1..revision each have exactly one audit row with the
           // checksum of what that batch wrote, none after; the live pins are exactly the last batch's 20 rows.
-          expect(audits.map((a) => a.batch), `iteration ${iterations}`).toEqual(Array.from({ length: c.revision }, (_, i) => i + 1));
+          expect(
+            audits.map((a) => a.batch),
+            `iteration ${iterations}`,
+          ).toEqual(Array.from({ length: c.revision }, (_, i) => i + 1));
           for (const a of audits) expect(a.checksum, `batch ${a.batch}`).toBe(batchChecksum(a.batch));
           if (c.revision === 0) expect(pins).toEqual([]);
           else {
@@ -579,9 +740,14 @@ describe("D5 kill -9 mid-transaction (QUALITY D5)", () => {
     expect(read.pins.map((p) => p.code)).toEqual(rev ? batchPins(rev).map((p) => p.colourCode) : []);
     console.log(
       `D5: ${iterations} SIGKILLs in ${(elapsed / 1000).toFixed(1)} s (seed ${SEED}; QUALITY asks 200${iterations < MAX_ITERATIONS ? `, ${iterations} fit the ${BUDGET_MS / 1000} s budget` : ""}); ` +
-      `${committedTotal} batches committed (23 rows each), ${openAtKill} kills with a batch transaction open, ${emptyRuns} inside the child's first transaction, ` +
-      `${inFlightCommitted} where the last commit landed but its report did not; ` +
-      `check per kill p50 ${ms(quantile(checkMs.sort((a, b) => a - b), 0.5))}; integrity ok and every batch all-or-nothing after each`,
+        `${committedTotal} batches committed (23 rows each), ${openAtKill} kills with a batch transaction open, ${emptyRuns} inside the child's first transaction, ` +
+        `${inFlightCommitted} where the last commit landed but its report did not; ` +
+        `check per kill p50 ${ms(
+          quantile(
+            checkMs.sort((a, b) => a - b),
+            0.5,
+          ),
+        )}; integrity ok and every batch all-or-nothing after each`,
     );
     expect(iterations).toBeGreaterThanOrEqual(MIN_ITERATIONS);
   }, 180_000);
@@ -597,14 +763,23 @@ describe("F10 crash during start-up (QUALITY F10)", () => {
     const earlier = new Set<string>();
     for (const mig of migrations) {
       const tables: string[] = [];
-      const stub: object = new Proxy({}, {
-        get: (_t, prop) => (prop === "sequelize" ? stub : (...args: unknown[]) => {
-          if (prop === "createTable") tables.push(String(args[0]));
-          const raw = prop === "query" && typeof args[0] === "string" ? /^\s*CREATE\s+(?:VIRTUAL\s+)?TABLE\s+(?:IF\s+NOT\s+EXISTS\s+)?[`"]?(\w+)/i.exec(args[0]) : null;
-          if (raw) tables.push(raw[1]);
-          return Promise.resolve([]);
-        }),
-      });
+      const stub: object = new Proxy(
+        {},
+        {
+          get: (_t, prop) =>
+            prop === "sequelize"
+              ? stub
+              : (...args: unknown[]) => {
+                  if (prop === "createTable") tables.push(String(args[0]));
+                  const raw =
+                    prop === "query" && typeof args[0] === "string"
+                      ? /^\s*CREATE\s+(?:VIRTUAL\s+)?TABLE\s+(?:IF\s+NOT\s+EXISTS\s+)?[`"]?(\w+)/i.exec(args[0])
+                      : null;
+                  if (raw) tables.push(raw[1]);
+                  return Promise.resolve([]);
+                },
+        },
+      );
       await mig.up({ context: stub as never });
       out.push({ name: mig.name, tables: tables.filter((t) => !earlier.has(t)) });
       for (const t of tables) earlier.add(t);
@@ -636,7 +811,8 @@ describe("F10 crash during start-up (QUALITY F10)", () => {
     const unrecorded: string[] = [];
     for (const mig of expected) {
       const present = mig.tables.filter((t) => state.tables.has(t));
-      if (state.recorded.includes(mig.name) && present.length !== mig.tables.length) partial.push(`${mig.name} recorded but ${mig.tables.filter((t) => !state.tables.has(t)).join(", ")} missing`);
+      if (state.recorded.includes(mig.name) && present.length !== mig.tables.length)
+        partial.push(`${mig.name} recorded but ${mig.tables.filter((t) => !state.tables.has(t)).join(", ")} missing`);
       else if (!state.recorded.includes(mig.name) && present.length === mig.tables.length && present.length) unrecorded.push(mig.name);
       else if (!state.recorded.includes(mig.name) && present.length) partial.push(`${mig.name} not recorded but ${present.join(", ")} exist`);
     }
@@ -646,7 +822,15 @@ describe("F10 crash during start-up (QUALITY F10)", () => {
   async function startCompletes(file: string) {
     const start = spawnChild({ mode: "migrate", setup: true }, file);
     const exit = await start.exited;
-    return { ok: exit.code === 0 && start.lines.includes("done"), error: start.stderr().split("\n").find((l) => /^\w*Error\b/.test(l.trim()))?.trim() ?? "" };
+    return {
+      ok: exit.code === 0 && start.lines.includes("done"),
+      error:
+        start
+          .stderr()
+          .split("\n")
+          .find((l) => /^\w*Error\b/.test(l.trim()))
+          ?.trim() ?? "",
+    };
   }
 
   it("SIGKILL at random moments during migrations of a fresh file, and during WAL recovery after an earlier crash: the next start completes", async () => {
@@ -708,8 +892,10 @@ describe("F10 crash during start-up (QUALITY F10)", () => {
     } finally {
       await r.close();
     }
-    console.log(`F10: migrations take ${ms(span)}; 8 random kills (fresh file each) left ${kills.join(", ")} migrations recorded, none half made; ` +
-      `${8 - windowHits.length} restarted cleanly; 5 kills during WAL recovery, then a clean start with the dead writer's commit intact`);
+    console.log(
+      `F10: migrations take ${ms(span)}; 8 random kills (fresh file each) left ${kills.join(", ")} migrations recorded, none half made; ` +
+        `${8 - windowHits.length} restarted cleanly; 5 kills during WAL recovery, then a clean start with the dead writer's commit intact`,
+    );
   }, 120_000);
 
   it("SIGKILL between a migration's COMMIT and its SequelizeMeta row: the next start completes and the schema version is consistent", async () => {
@@ -725,7 +911,14 @@ describe("F10 crash during start-up (QUALITY F10)", () => {
       const state = await startupState(file);
       expect(state.integrity).toEqual(["ok"]);
       if (!done.ok) failures.push(`${mig.name}: ${done.error}`);
-      else if (state.recorded.join() !== expected.map((x) => x.name).sort().join()) failures.push(`${mig.name}: recorded ${state.recorded.join(", ")}`);
+      else if (
+        state.recorded.join() !==
+        expected
+          .map((x) => x.name)
+          .sort()
+          .join()
+      )
+        failures.push(`${mig.name}: recorded ${state.recorded.join(", ")}`);
     }
     expect(failures, "umzug records a migration after its transaction commits (db/migrate.ts): a crash in between must not stop every later start").toEqual([]);
   }, 60_000);

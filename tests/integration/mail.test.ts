@@ -117,11 +117,13 @@ describe("enqueueMail", () => {
 
   it("inside a rolled-back transaction leaves no row", async () => {
     const x = sample();
-    await expect(db.sequelize.transaction(async (transaction) => {
-      await m.AuditLog.create({ actorId: null, action: "test.action", subjectType: "test", subjectId: "1", detail: "{}", at: new Date() }, { transaction });
-      await mail.enqueueMail(x, transaction);
-      throw new Error("the action failed");
-    })).rejects.toThrow("the action failed");
+    await expect(
+      db.sequelize.transaction(async (transaction) => {
+        await m.AuditLog.create({ actorId: null, action: "test.action", subjectType: "test", subjectId: "1", detail: "{}", at: new Date() }, { transaction });
+        await mail.enqueueMail(x, transaction);
+        throw new Error("the action failed");
+      }),
+    ).rejects.toThrow("the action failed");
     expect(await m.MailOutbox.count()).toBe(0);
     expect(await m.AuditLog.count()).toBe(0);
     expect(await mail.deliverDueMail()).toEqual(zero);
@@ -162,7 +164,12 @@ describe("delivery and the stand-in's list", () => {
     expect(first.text.trim()).toBe(mails[0].text);
     expect(first.html).toContain(mails[0].html);
     expect(new Date(first.receivedAt).toISOString()).toBe(first.receivedAt);
-    expect(list.map((x) => x.receivedAt)).toEqual(list.map((x) => x.receivedAt).sort().reverse());
+    expect(list.map((x) => x.receivedAt)).toEqual(
+      list
+        .map((x) => x.receivedAt)
+        .sort()
+        .reverse(),
+    );
 
     const filtered = await inbox(`?to=${encodeURIComponent(mails[1].to.toUpperCase())}`);
     expect(filtered.map((x) => x.messageId)).toEqual([rows[1].messageId]);
@@ -202,42 +209,48 @@ describe("F3 SMTP down", () => {
     { mode: "slow-greeting", error: /ETIMEDOUT|Greeting/i },
   ];
 
-  it.for(temporary)("$mode: the action commits, the row stays queued with attempts+1 and a backoff; after restore it arrives exactly once", async ({ mode, error }) => {
-    const before = (await health()).duplicates;
-    await fault(mode);
-    const x = sample({ kind: "review-outcome" });
-    await db.sequelize.transaction(async (transaction) => {
-      await m.AuditLog.create({ actorId: null, action: "review.publish", subjectType: "card", subjectId: "7", detail: "{}", at: new Date() }, { transaction });
-      await mail.enqueueMail(x, transaction);
-    });
-    expect(await m.AuditLog.count({ where: { action: "review.publish" } })).toBe(1); // the decision commits regardless
+  it.for(temporary)(
+    "$mode: the action commits, the row stays queued with attempts+1 and a backoff; after restore it arrives exactly once",
+    async ({ mode, error }) => {
+      const before = (await health()).duplicates;
+      await fault(mode);
+      const x = sample({ kind: "review-outcome" });
+      await db.sequelize.transaction(async (transaction) => {
+        await m.AuditLog.create(
+          { actorId: null, action: "review.publish", subjectType: "card", subjectId: "7", detail: "{}", at: new Date() },
+          { transaction },
+        );
+        await mail.enqueueMail(x, transaction);
+      });
+      expect(await m.AuditLog.count({ where: { action: "review.publish" } })).toBe(1); // the decision commits regardless
 
-    const t0 = new Date();
-    const started = Date.now();
-    expect(await mail.deliverDueMail(t0)).toEqual({ sent: 0, retried: 1, failed: 0 });
-    const took = Date.now() - started;
-    expect(took, "a dead relay must not block the worker for long").toBeLessThan(3_000);
-    let row = await rowFor(x.to);
-    expect(row.status).toBe("queued");
-    expect(row.attempts).toBe(1);
-    expect(row.leaseUntil).toBeNull();
-    expect(row.lastError).toMatch(error);
-    expect(row.nextAttemptAt.getTime()).toBeGreaterThanOrEqual(t0.getTime() + MINUTE);
-    expect(row.nextAttemptAt.getTime()).toBeLessThanOrEqual(t0.getTime() + MINUTE + took + 50);
+      const t0 = new Date();
+      const started = Date.now();
+      expect(await mail.deliverDueMail(t0)).toEqual({ sent: 0, retried: 1, failed: 0 });
+      const took = Date.now() - started;
+      expect(took, "a dead relay must not block the worker for long").toBeLessThan(3_000);
+      let row = await rowFor(x.to);
+      expect(row.status).toBe("queued");
+      expect(row.attempts).toBe(1);
+      expect(row.leaseUntil).toBeNull();
+      expect(row.lastError).toMatch(error);
+      expect(row.nextAttemptAt.getTime()).toBeGreaterThanOrEqual(t0.getTime() + MINUTE);
+      expect(row.nextAttemptAt.getTime()).toBeLessThanOrEqual(t0.getTime() + MINUTE + took + 50);
 
-    // Back up, but not due yet: nothing is tried early.
-    await fault("none");
-    expect(await mail.deliverDueMail(new Date(t0.getTime() + 30_000))).toEqual(zero);
-    expect(await mail.deliverDueMail(new Date(row.nextAttemptAt.getTime() + 1))).toEqual({ sent: 1, retried: 0, failed: 0 });
-    row = await rowFor(x.to);
-    expect(row.status).toBe("sent");
-    expect(row.attempts).toBe(2);
-    expect(copiesOf(await inbox(), row.messageId)).toBe(1);
-    // Only "drop" can make the relay see a message twice (it took the first copy, we never heard 250): it is deduplicated
-    // by Message-ID and counted.
-    expect((await health()).duplicates - before).toBe(mode === "drop" ? 1 : 0);
-    expect(await mail.deliverDueMail(new Date(t0.getTime() + 10 * HOUR))).toEqual(zero);
-  });
+      // Back up, but not due yet: nothing is tried early.
+      await fault("none");
+      expect(await mail.deliverDueMail(new Date(t0.getTime() + 30_000))).toEqual(zero);
+      expect(await mail.deliverDueMail(new Date(row.nextAttemptAt.getTime() + 1))).toEqual({ sent: 1, retried: 0, failed: 0 });
+      row = await rowFor(x.to);
+      expect(row.status).toBe("sent");
+      expect(row.attempts).toBe(2);
+      expect(copiesOf(await inbox(), row.messageId)).toBe(1);
+      // Only "drop" can make the relay see a message twice (it took the first copy, we never heard 250): it is deduplicated
+      // by Message-ID and counted.
+      expect((await health()).duplicates - before).toBe(mode === "drop" ? 1 : 0);
+      expect(await mail.deliverDueMail(new Date(t0.getTime() + 10 * HOUR))).toEqual(zero);
+    },
+  );
 
   it("550 permanent: failed at once, flagged for an admin, never retried", async () => {
     await fault("permanent");
@@ -295,9 +308,31 @@ describe("F3 SMTP down", () => {
 
   it("a lease left by a crashed sender is claimed again once it expires; a live lease is left alone", async () => {
     const now = new Date();
-    const base = { kind: "test", subject: "Crash", text: "t", html: "<p>t</p>", attempts: 1, lastError: null, sentAt: null, createdAt: now, nextAttemptAt: now };
-    await m.MailOutbox.create({ ...base, messageId: "<crashed-1@loomlore.invalid>", toAddr: "crashed@example.invalid", status: "sending", leaseUntil: new Date(now.getTime() - 1000) });
-    await m.MailOutbox.create({ ...base, messageId: "<live-1@loomlore.invalid>", toAddr: "live@example.invalid", status: "sending", leaseUntil: new Date(now.getTime() + 30_000) });
+    const base = {
+      kind: "test",
+      subject: "Crash",
+      text: "t",
+      html: "<p>t</p>",
+      attempts: 1,
+      lastError: null,
+      sentAt: null,
+      createdAt: now,
+      nextAttemptAt: now,
+    };
+    await m.MailOutbox.create({
+      ...base,
+      messageId: "<crashed-1@loomlore.invalid>",
+      toAddr: "crashed@example.invalid",
+      status: "sending",
+      leaseUntil: new Date(now.getTime() - 1000),
+    });
+    await m.MailOutbox.create({
+      ...base,
+      messageId: "<live-1@loomlore.invalid>",
+      toAddr: "live@example.invalid",
+      status: "sending",
+      leaseUntil: new Date(now.getTime() + 30_000),
+    });
     expect(await mail.deliverDueMail(now)).toEqual({ sent: 1, retried: 0, failed: 0 });
     expect((await rowFor("crashed@example.invalid")).status).toBe("sent");
     expect((await rowFor("live@example.invalid")).status).toBe("sending");
@@ -385,7 +420,7 @@ describe("F3 SMTP down", () => {
       t = (t + Math.imul(t ^ (t >>> 7), 61 | t)) ^ t;
       return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
     };
-    const pick = <T,>(xs: readonly T[]) => xs[Math.floor(rand() * xs.length)];
+    const pick = <T>(xs: readonly T[]) => xs[Math.floor(rand() * xs.length)];
     const modes: FaultMode[] = ["none", "none", "temporary", "temporary", "refuse", "refuse", "drop", "drop", "permanent"];
     const problems: string[] = []; // mails neither delivered exactly once nor rejected by a 550: lost or doubled
     let total = 0;
@@ -400,10 +435,12 @@ describe("F3 SMTP down", () => {
       for (let i = 0; i < n; i++) {
         const x = sample({ kind: "random" });
         if (rand() < 0.15) {
-          await db.sequelize.transaction(async (t) => {
-            await mail.enqueueMail(x, t);
-            throw new Error("rolled back");
-          }).catch(() => {});
+          await db.sequelize
+            .transaction(async (t) => {
+              await mail.enqueueMail(x, t);
+              throw new Error("rolled back");
+            })
+            .catch(() => {});
           rolledBack.push(x.to);
         } else {
           if (rand() < 0.5) await mail.enqueueMail(x);

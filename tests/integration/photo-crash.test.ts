@@ -52,12 +52,21 @@ beforeAll(async () => {
   user = { id: u!.id, role: u!.role };
   const now = new Date();
   const draft = await m.Submission.create({
-    authorId: user.id, kind: "new", familyId: null, connectorId: null, baseRevision: null, content: { name: "Crash-test plug", photos: [] },
-    idempotencyKey: null, createdAt: now, updatedAt: now,
+    authorId: user.id,
+    kind: "new",
+    familyId: null,
+    connectorId: null,
+    baseRevision: null,
+    content: { name: "Crash-test plug", photos: [] },
+    idempotencyKey: null,
+    createdAt: now,
+    updatedAt: now,
   });
   draftId = draft.id;
   // About 1 MB of noisy JPEG first, then the text fields: a cut at 10–99 % lands inside the photo part.
-  const photo = await sharp({ create: { width: 1000, height: 750, channels: 3, background: "#808080", noise: { type: "gaussian", mean: 128, sigma: 60 } } }).jpeg({ quality: 95 }).toBuffer();
+  const photo = await sharp({ create: { width: 1000, height: 750, channels: 3, background: "#808080", noise: { type: "gaussian", mean: 128, sigma: 60 } } })
+    .jpeg({ quality: 95 })
+    .toBuffer();
   const part = (headers: string, data: Buffer | string) => [Buffer.from(`--${BOUNDARY}\r\n${headers}\r\n\r\n`), Buffer.from(data), Buffer.from("\r\n")];
   body = Buffer.concat([
     ...part(`Content-Disposition: form-data; name="photo"; filename="plug.jpg"\r\nContent-Type: image/jpeg`, photo),
@@ -75,18 +84,36 @@ afterAll(async () => {
   rmSync(dir, { recursive: true, force: true });
 });
 
-interface Result { job: number; status: number; ids?: string[]; message?: string }
-interface Run { results: Result[]; signal: NodeJS.Signals | null; code: number | null; stderr: string; readAtKill: number | null }
+interface Result {
+  job: number;
+  status: number;
+  ids?: string[];
+  message?: string;
+}
+interface Run {
+  results: Result[];
+  signal: NodeJS.Signals | null;
+  code: number | null;
+  stderr: string;
+  readAtKill: number | null;
+}
 
 /** Run the child with these jobs; with `cut`, stream that many bytes of the body on stdin, then SIGKILL it once they arrived. */
 function runChild(jobs: { body: "file" | "stdin"; crashAt?: string }[], cut?: number): Promise<Run> {
   const config = {
-    userId: user.id, role: user.role, contentType: `multipart/form-data; boundary=${BOUNDARY}`,
+    userId: user.id,
+    role: user.role,
+    contentType: `multipart/form-data; boundary=${BOUNDARY}`,
     jobs: jobs.map((j) => ({ body: j.body === "file" ? bodyFile : "stdin", length: body.length, crashAt: j.crashAt })),
   };
   const env: Record<string, string | undefined> = {
-    ...process.env, DB_PATH: dbPath, UPLOADS_DIR: uploads, MAIL_WORKER: "off", PHOTO_SWEEPER: "off",
-    PHOTO_PER_SUBMISSION: "1000", PHOTO_USER_COUNT: "1000",
+    ...process.env,
+    DB_PATH: dbPath,
+    UPLOADS_DIR: uploads,
+    MAIL_WORKER: "off",
+    PHOTO_SWEEPER: "off",
+    PHOTO_PER_SUBMISSION: "1000",
+    PHOTO_USER_COUNT: "1000",
   };
   const proc = spawn(process.execPath, ["--import", "tsx", child, JSON.stringify(config)], { cwd: root, env, stdio: ["pipe", "pipe", "pipe"] });
   const results: Result[] = [];
@@ -127,7 +154,10 @@ async function decodes(file: string): Promise<boolean> {
 async function checkAfterCrash(label: string): Promise<{ tmp: string[]; parts: string[]; unreferenced: string[] }> {
   // On a handle of its own: FTS5's integrity check on the long-lived shared handle reads the full-text index's cached
   // structure, which another handle's commit (the seeding transaction) left stale — a false "checksum mismatch".
-  const [[integrity]] = await db.sequelize.transaction((transaction) => db.sequelize.query("PRAGMA integrity_check", { transaction })) as [{ integrity_check: string }[], unknown];
+  const [[integrity]] = (await db.sequelize.transaction((transaction) => db.sequelize.query("PRAGMA integrity_check", { transaction }))) as [
+    { integrity_check: string }[],
+    unknown,
+  ];
   expect(integrity.integrity_check, `${label}: integrity_check`).toBe("ok");
   const rows = await m.Photo.findAll();
   const ids = new Set(rows.map((r) => r.id));
@@ -144,7 +174,12 @@ async function checkAfterCrash(label: string): Promise<{ tmp: string[]; parts: s
   // The draft: one version bump per successful upload, its list equal to its rows.
   const draft = await m.Submission.findByPk(draftId);
   const listed = (draft!.content as { photos: { id: string }[] }).photos.map((p) => p.id).sort();
-  expect(listed, `${label}: the draft lists exactly its photos`).toEqual(rows.filter((r) => r.submissionId === draftId).map((r) => r.id).sort());
+  expect(listed, `${label}: the draft lists exactly its photos`).toEqual(
+    rows
+      .filter((r) => r.submissionId === draftId)
+      .map((r) => r.id)
+      .sort(),
+  );
   expect(draft!.version, `${label}: version`).toBe(1 + successes);
   expect(draft!.state).toBe("draft");
 
@@ -155,8 +190,9 @@ async function checkAfterCrash(label: string): Promise<{ tmp: string[]; parts: s
   };
   await P.sweepPhotos({ tmpAgeMs: 0, orphanAgeMs: 0 });
   expect(ls(P.TMP_DIR), `${label}: sweep empties tmp/`).toEqual([]);
-  expect(ls(P.PHOTOS_DIR), `${label}: after the sweep photos/ holds exactly the rows' files`)
-    .toEqual([...ids].flatMap((id) => [`${id}.thumb.webp`, `${id}.webp`]).sort());
+  expect(ls(P.PHOTOS_DIR), `${label}: after the sweep photos/ holds exactly the rows' files`).toEqual(
+    [...ids].flatMap((id) => [`${id}.thumb.webp`, `${id}.webp`]).sort(),
+  );
   for (const id of ids) known.add(id);
   return leftovers;
 }
@@ -184,7 +220,10 @@ describe("D6/F1 crash safety of the photo pipeline (SIGKILL at each hook and par
       const run = await runChild(jobs);
       expect(run.signal, `${point}: the child was killed by its hook (${run.stderr.slice(-400)})`).toBe("SIGKILL");
       if (!first) expectRetry(run, point);
-      expect(run.results.some((r) => r.job === jobs.length - 1), `${point}: the crashing upload never answered`).toBe(false);
+      expect(
+        run.results.some((r) => r.job === jobs.length - 1),
+        `${point}: the crashing upload never answered`,
+      ).toBe(false);
       const leftovers = await checkAfterCrash(point);
       expected[point](leftovers);
       first = false;

@@ -74,8 +74,14 @@ async function contributor(role = "contributor"): Promise<User> {
   const now = new Date();
   userSeq++;
   const u = await m.User.create({
-    email: `photo-tester-${userSeq}-${randomUUID().slice(0, 8)}@loomlore.invalid`, displayName: `Photo tester ${userSeq}`, role: role as "contributor",
-    passwordHash: "not-a-hash", emailVerifiedAt: now, passwordChangedAt: now, createdAt: now, disabledAt: null,
+    email: `photo-tester-${userSeq}-${randomUUID().slice(0, 8)}@loomlore.invalid`,
+    displayName: `Photo tester ${userSeq}`,
+    role: role as "contributor",
+    passwordHash: "not-a-hash",
+    emailVerifiedAt: now,
+    passwordChangedAt: now,
+    createdAt: now,
+    disabledAt: null,
   });
   return { id: u.id, role: u.role };
 }
@@ -88,24 +94,42 @@ async function jpeg(width = 64, height = 48): Promise<Buffer> {
     const rnd = mulberry32(width * 100_000 + height);
     const pixels = Buffer.alloc(width * height * 3);
     for (let i = 0; i < pixels.length; i++) pixels[i] = 64 + Math.floor(rnd() * 128);
-    jpegCache.set(key, await sharp(pixels, { raw: { width, height, channels: 3 } }).jpeg({ quality: 85 }).toBuffer());
+    jpegCache.set(
+      key,
+      await sharp(pixels, { raw: { width, height, channels: 3 } })
+        .jpeg({ quality: 85 })
+        .toBuffer(),
+    );
   }
   return jpegCache.get(key)!;
 }
 
-interface Part { name?: string; filename?: string; type?: string; data: Buffer | string; rawHeaders?: string | Buffer }
+interface Part {
+  name?: string;
+  filename?: string;
+  type?: string;
+  data: Buffer | string;
+  rawHeaders?: string | Buffer;
+}
 const BOUNDARY = "----loomloreTestBoundary7MA4YWxkTrZu0gW";
 
 /** A multipart/form-data body (RFC 7578), by hand so that tests can break it. */
 function multipart(parts: Part[], boundary = BOUNDARY, close = true): Buffer {
   const chunks: Buffer[] = [];
   for (const p of parts) {
-    const headers = p.rawHeaders ?? [
-      `Content-Disposition: form-data${p.name !== undefined ? `; name="${p.name}"` : ""}${p.filename !== undefined ? `; filename="${p.filename}"` : ""}`,
-      ...(p.type ? [`Content-Type: ${p.type}`] : p.filename !== undefined ? ["Content-Type: image/jpeg"] : []),
-    ].join("\r\n");
-    chunks.push(Buffer.from(`--${boundary}\r\n`), Buffer.isBuffer(headers) ? headers : Buffer.from(headers), Buffer.from("\r\n\r\n"),
-      Buffer.isBuffer(p.data) ? p.data : Buffer.from(p.data), Buffer.from("\r\n"));
+    const headers =
+      p.rawHeaders ??
+      [
+        `Content-Disposition: form-data${p.name !== undefined ? `; name="${p.name}"` : ""}${p.filename !== undefined ? `; filename="${p.filename}"` : ""}`,
+        ...(p.type ? [`Content-Type: ${p.type}`] : p.filename !== undefined ? ["Content-Type: image/jpeg"] : []),
+      ].join("\r\n");
+    chunks.push(
+      Buffer.from(`--${boundary}\r\n`),
+      Buffer.isBuffer(headers) ? headers : Buffer.from(headers),
+      Buffer.from("\r\n\r\n"),
+      Buffer.isBuffer(p.data) ? p.data : Buffer.from(p.data),
+      Buffer.from("\r\n"),
+    );
   }
   if (close) chunks.push(Buffer.from(`--${boundary}--\r\n`));
   return Buffer.concat(chunks);
@@ -114,7 +138,10 @@ function multipart(parts: Part[], boundary = BOUNDARY, close = true): Buffer {
 const consent: Part = { name: "consent", data: "yes" };
 const photoPart = (data: Buffer, filename = "connector.jpg", type = "image/jpeg"): Part => ({ name: "photo", filename, type, data });
 
-function request(body: Buffer | ReadableStream<Uint8Array> | null, o: { contentType?: string | null; contentLength?: number | null; headers?: Record<string, string>; url?: string } = {}) {
+function request(
+  body: Buffer | ReadableStream<Uint8Array> | null,
+  o: { contentType?: string | null; contentLength?: number | null; headers?: Record<string, string>; url?: string } = {},
+) {
   const headers = new Headers(o.headers);
   const type = o.contentType === undefined ? `multipart/form-data; boundary=${BOUNDARY}` : o.contentType;
   if (type !== null) headers.set("Content-Type", type);
@@ -123,7 +150,15 @@ function request(body: Buffer | ReadableStream<Uint8Array> | null, o: { contentT
   return new Request(o.url ?? "http://127.0.0.1/api/v1/photos", { method: "POST", headers, body, duplex: "half" } as RequestInit & { duplex: "half" });
 }
 
-interface Attempt { status: number; code?: string; message?: string; headers?: Record<string, string>; photos?: import("../../app/services/photos.server.ts").StoredPhoto[]; fields?: Record<string, string>; ms: number }
+interface Attempt {
+  status: number;
+  code?: string;
+  message?: string;
+  headers?: Record<string, string>;
+  photos?: import("../../app/services/photos.server.ts").StoredPhoto[];
+  fields?: Record<string, string>;
+  ms: number;
+}
 /** Run receivePhotos; a PhotoError becomes its status. Anything else thrown fails the test (F5: no non-PhotoError). */
 async function attempt(req: Request, user: User, opts?: { submissionId?: number }): Promise<Attempt> {
   const t0 = performance.now();
@@ -143,7 +178,7 @@ const tmpFiles = () => ls(P.TMP_DIR);
 /** photos/ files that no Photo row accounts for (should always be empty between tests). */
 async function strayPhotoFiles(): Promise<string[]> {
   const ids = new Set((await m.Photo.findAll({ attributes: ["id"] })).map((p) => p.id));
-  return ls(P.PHOTOS_DIR).filter((f) => f !== ".gitkeep" && !ids.has(f.slice(0, 36)) || f.endsWith(".part"));
+  return ls(P.PHOTOS_DIR).filter((f) => (f !== ".gitkeep" && !ids.has(f.slice(0, 36))) || f.endsWith(".part"));
 }
 async function expectNoLeftovers(what: string) {
   expect(tmpFiles(), `${what}: tmp/ is empty`).toEqual([]);
@@ -155,18 +190,37 @@ const photoFile = (id: string, thumb = false) => path.join(P.PHOTOS_DIR, `${id}$
 async function fakeRows(user: User, count: number, bytes = 1000): Promise<() => Promise<void>> {
   const now = new Date();
   const rows = Array.from({ length: count }, () => ({
-    id: randomUUID(), ownerId: user.id, submissionId: null, licence: P.PHOTO_LICENCE, consentAt: now, width: 10, height: 10,
-    thumbWidth: 10, thumbHeight: 10, bytes, createdAt: now,
+    id: randomUUID(),
+    ownerId: user.id,
+    submissionId: null,
+    licence: P.PHOTO_LICENCE,
+    consentAt: now,
+    width: 10,
+    height: 10,
+    thumbWidth: 10,
+    thumbHeight: 10,
+    bytes,
+    createdAt: now,
   }));
   await m.Photo.bulkCreate(rows);
-  return async () => { await m.Photo.destroy({ where: { id: rows.map((r) => r.id) } }); };
+  return async () => {
+    await m.Photo.destroy({ where: { id: rows.map((r) => r.id) } });
+  };
 }
 
 async function draft(user: User, state = "draft") {
   const now = new Date();
   return m.Submission.create({
-    authorId: user.id, kind: "new", familyId: null, connectorId: null, baseRevision: null, state, content: { name: "Test plug", photos: [] },
-    idempotencyKey: null, createdAt: now, updatedAt: now,
+    authorId: user.id,
+    kind: "new",
+    familyId: null,
+    connectorId: null,
+    baseRevision: null,
+    state,
+    content: { name: "Test plug", photos: [] },
+    idempotencyKey: null,
+    createdAt: now,
+    updatedAt: now,
   });
 }
 
@@ -194,7 +248,12 @@ function pngBomb(width = 20_000, height = 20_000): Buffer {
   ihdr.writeUInt32BE(height, 4);
   ihdr[8] = 8; // bit depth
   ihdr[9] = 2; // truecolour
-  return Buffer.concat([Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]), pngChunk("IHDR", ihdr), pngChunk("IDAT", zlib.deflateSync(Buffer.alloc(16))), pngChunk("IEND", Buffer.alloc(0))]);
+  return Buffer.concat([
+    Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]),
+    pngChunk("IHDR", ihdr),
+    pngChunk("IDAT", zlib.deflateSync(Buffer.alloc(16))),
+    pngChunk("IEND", Buffer.alloc(0)),
+  ]);
 }
 /** A real JPEG whose SOF0 frame header is patched to declare width × height (ITU-T T.81, B.2.2: SOFn = FFC0, Lf, P, Y, X). */
 function jpegBomb(src: Buffer, width = 60_000, height = 60_000): Buffer {
@@ -224,19 +283,35 @@ describe("S11 upload hardening (ASVS 4.0.3 V12.x, OWASP File Upload Cheat Sheet,
   it("S11b: SVG, TIFF and HEIC are refused with 415 (HEIC told to export as JPEG) and their decoders are blocked in sharp", async () => {
     const user = await contributor();
     const svg = Buffer.from('<svg xmlns="http://www.w3.org/2000/svg" width="10" height="10"><script>alert(1)</script><rect width="10" height="10"/></svg>');
-    const tiff = await sharp({ create: { width: 16, height: 16, channels: 3, background: "#3a6" } }).tiff().toBuffer();
+    const tiff = await sharp({ create: { width: 16, height: 16, channels: 3, background: "#3a6" } })
+      .tiff()
+      .toBuffer();
     // ISO/IEC 14496-12 ftyp box with the HEIF brand "heic" (ISO/IEC 23008-12), then junk.
     const heic = Buffer.concat([Buffer.from([0, 0, 0, 24]), Buffer.from("ftypheic\0\0\0\0mif1heic", "latin1"), Buffer.alloc(200, 7)]);
-    const gif = await sharp({ create: { width: 16, height: 16, channels: 3, background: "#3a6" } }).gif().toBuffer();
-    for (const [name, data, re] of [["x.svg", svg, /SVG/], ["x.tif", tiff, /TIFF/], ["IMG_0001.heic", heic, /export the photo as JPEG/], ["x.gif", gif, /GIF/]] as const) {
+    const gif = await sharp({ create: { width: 16, height: 16, channels: 3, background: "#3a6" } })
+      .gif()
+      .toBuffer();
+    for (const [name, data, re] of [
+      ["x.svg", svg, /SVG/],
+      ["x.tif", tiff, /TIFF/],
+      ["IMG_0001.heic", heic, /export the photo as JPEG/],
+      ["x.gif", gif, /GIF/],
+    ] as const) {
       const r = await uploadOne(user, data, [], name);
       expect(r.status, name).toBe(415);
       expect(r.message, name).toMatch(re);
     }
     // Defence in depth: even if a file got past the sniffing, sharp in this process refuses to decode these formats
     // (sharp.block on the VipsForeignLoad base class, then unblock of the JPEG/PNG/WebP loaders only).
-    const avif = await sharp({ create: { width: 16, height: 16, channels: 3, background: "#3a6" } }).avif().toBuffer();
-    for (const [name, data] of [["svg", svg], ["tiff", tiff], ["gif", gif], ["heif/avif", avif]] as const) {
+    const avif = await sharp({ create: { width: 16, height: 16, channels: 3, background: "#3a6" } })
+      .avif()
+      .toBuffer();
+    for (const [name, data] of [
+      ["svg", svg],
+      ["tiff", tiff],
+      ["gif", gif],
+      ["heif/avif", avif],
+    ] as const) {
       await expect(sharp(data).metadata(), name).rejects.toThrow(/unsupported image format/);
     }
     await expect(sharp(await jpeg()).metadata()).resolves.toMatchObject({ format: "jpeg" });
@@ -262,12 +337,19 @@ describe("S11 upload hardening (ASVS 4.0.3 V12.x, OWASP File Upload Cheat Sheet,
 
   it("S11d: EXIF (GPS, serial), XMP and IPTC are gone from the stored files and the orientation is applied", async () => {
     const user = await contributor();
-    const xmp = '<x:xmpmeta xmlns:x="adobe:ns:meta/"><rdf:RDF xmlns:rdf="http://www.w3.org/1999/02/22-rdf-syntax-ns#"><rdf:Description xmlns:dc="http://purl.org/dc/elements/1.1/"><dc:creator>Someone Private</dc:creator></rdf:Description></rdf:RDF></x:xmpmeta>';
+    const xmp =
+      '<x:xmpmeta xmlns:x="adobe:ns:meta/"><rdf:RDF xmlns:rdf="http://www.w3.org/1999/02/22-rdf-syntax-ns#"><rdf:Description xmlns:dc="http://purl.org/dc/elements/1.1/"><dc:creator>Someone Private</dc:creator></rdf:Description></rdf:RDF></x:xmpmeta>';
     // STACK.md gotcha 14: withExif's Orientation is ignored, so withMetadata({orientation}) fakes a portrait phone photo.
     let input = await sharp({ create: { width: 640, height: 480, channels: 3, background: "#3a6" } })
       .withMetadata({ orientation: 6 })
-      .withExif({ IFD0: { Make: "TestCam", Model: "Unit 7", Copyright: "Private Person" }, IFD2: { BodySerialNumber: "SN-0042-XYZ" }, IFD3: { GPSLatitudeRef: "N", GPSLatitude: "51/1 30/1 0/1", GPSLongitudeRef: "W", GPSLongitude: "0/1 7/1 30/1" } })
-      .withXmp(xmp).jpeg().toBuffer();
+      .withExif({
+        IFD0: { Make: "TestCam", Model: "Unit 7", Copyright: "Private Person" },
+        IFD2: { BodySerialNumber: "SN-0042-XYZ" },
+        IFD3: { GPSLatitudeRef: "N", GPSLatitude: "51/1 30/1 0/1", GPSLongitudeRef: "W", GPSLongitude: "0/1 7/1 30/1" },
+      })
+      .withXmp(xmp)
+      .jpeg()
+      .toBuffer();
     // IPTC: an APP13 "Photoshop 3.0" segment with an 8BIM 0x0404 resource holding one IPTC record (2:120 caption),
     // spliced in after SOI (sharp cannot write IPTC itself).
     const record = Buffer.concat([Buffer.from([0x1c, 0x02, 0x78, 0x00, 0x0d]), Buffer.from("Home address!")]);
@@ -294,7 +376,8 @@ describe("S11 upload hardening (ASVS 4.0.3 V12.x, OWASP File Upload Cheat Sheet,
       expect(meta.iptc, "no IPTC").toBeUndefined();
       expect(meta.orientation ?? 1).toBe(1);
       expect(meta.width! < meta.height!, "portrait after autoOrient").toBe(true);
-      for (const secret of ["TestCam", "SN-0042", "Someone Private", "Home address", "Private Person"]) expect(stored.includes(Buffer.from(secret)), secret).toBe(false);
+      for (const secret of ["TestCam", "SN-0042", "Someone Private", "Home address", "Private Person"])
+        expect(stored.includes(Buffer.from(secret)), secret).toBe(false);
     }
     expect(r.photos![0].width).toBe(480);
   });
@@ -327,8 +410,24 @@ describe("S11 upload hardening (ASVS 4.0.3 V12.x, OWASP File Upload Cheat Sheet,
     const cases: [string, Part, (n: string) => void][] = [
       ["../../x.jpg", photoPart(data, "../../x.jpg"), (n) => expect(n).toBe("../../x.jpg")],
       ["a.jpg\\0.php (raw NUL)", photoPart(data, "a.jpg\0.php"), (n) => expect(n).toBe("a.jpg.php")],
-      ["a.jpg%00.php (RFC 5987 filename*)", { name: "photo", type: "image/jpeg", data, rawHeaders: `Content-Disposition: form-data; name="photo"; filename*=UTF-8''a.jpg%00.php\r\nContent-Type: image/jpeg` }, (n) => expect(n).toBe("a.jpg.php")],
-      ["300 characters", photoPart(data, long), (n) => { expect(Array.from(n)).toHaveLength(200); expect(n).toBe(Array.from(long).slice(0, 200).join("")); }],
+      [
+        "a.jpg%00.php (RFC 5987 filename*)",
+        {
+          name: "photo",
+          type: "image/jpeg",
+          data,
+          rawHeaders: `Content-Disposition: form-data; name="photo"; filename*=UTF-8''a.jpg%00.php\r\nContent-Type: image/jpeg`,
+        },
+        (n) => expect(n).toBe("a.jpg.php"),
+      ],
+      [
+        "300 characters",
+        photoPart(data, long),
+        (n) => {
+          expect(Array.from(n)).toHaveLength(200);
+          expect(n).toBe(Array.from(long).slice(0, 200).join(""));
+        },
+      ],
       ["bidi override", photoPart(data, "photo\u202egpj.exe"), (n) => expect(n).toBe("photogpj.exe")],
     ];
     for (const [what, part, check] of cases) {
@@ -344,7 +443,9 @@ describe("S11 upload hardening (ASVS 4.0.3 V12.x, OWASP File Upload Cheat Sheet,
     }
     // Nothing was written outside uploads/ (no x.jpg two levels up, nothing new beside the database).
     expect(ls(dir).filter((f) => !before.has(f) && !f.startsWith("photos.sqlite"))).toEqual([]);
-    expect(existsSync(path.join(dir, "x.jpg")) || existsSync(path.join(uploads, "x.jpg")) || existsSync(path.join(P.PHOTOS_DIR, "..", "..", "x.jpg"))).toBe(false);
+    expect(existsSync(path.join(dir, "x.jpg")) || existsSync(path.join(uploads, "x.jpg")) || existsSync(path.join(P.PHOTOS_DIR, "..", "..", "x.jpg"))).toBe(
+      false,
+    );
     expect(ls(P.PHOTOS_DIR).every((f) => /^[0-9a-f-]{36}(\.thumb)?\.webp$/.test(f))).toBe(true);
   });
 
@@ -385,7 +486,16 @@ describe("S11 upload hardening (ASVS 4.0.3 V12.x, OWASP File Upload Cheat Sheet,
     // No route serves the raw upload directory: only <uuid>.webp / <uuid>.thumb.webp names resolve.
     writeFileSync(path.join(P.TMP_DIR, `${id}.part`), "<script>alert(1)</script>");
     try {
-      for (const file of [`${id}.part`, `../tmp/${id}.part`, `${id}.webp.part`, `${id.toUpperCase()}.webp`, `${id}.jpg`, "..%2Fphotos.sqlite", `${id}.webp/`, `${id}.thumb.thumb.webp`]) {
+      for (const file of [
+        `${id}.part`,
+        `../tmp/${id}.part`,
+        `${id}.webp.part`,
+        `${id.toUpperCase()}.webp`,
+        `${id}.jpg`,
+        "..%2Fphotos.sqlite",
+        `${id}.webp/`,
+        `${id}.thumb.thumb.webp`,
+      ]) {
         expect((await get(file)).status, file).toBe(404);
       }
     } finally {
@@ -420,7 +530,8 @@ describe("S2 photos of a draft are visible only to their owner and moderators (A
       expect(await P.photoForViewer(file, null)).toBeNull();
     }
     // Guessing neighbours or other spellings finds nothing either.
-    for (const file of [`${randomUUID()}.webp`, `${id}.jpg`, `${id}`, `../${id}.webp`, `${id}.webp\0`]) expect(await P.photoForViewer(file, owner), file).toBeNull();
+    for (const file of [`${randomUUID()}.webp`, `${id}.jpg`, `${id}`, `../${id}.webp`, `${id}.webp\0`])
+      expect(await P.photoForViewer(file, owner), file).toBeNull();
 
     const connector = await m.Connector.findOne();
     await m.Photo.update({ connectorId: connector!.id }, { where: { id } });
@@ -438,7 +549,14 @@ describe("S2 photos of a draft are visible only to their owner and moderators (A
 describe("POST /api/v1/photos (API.md): guards, 201 shape, the one error shape", () => {
   const api = (body: Buffer | null, headers: Record<string, string>, contentType?: string) =>
     apiRoute.action({ request: request(body, { headers, contentType }), params: {}, context: {} } as never) as Promise<Response>;
-  const thrown = async (p: Promise<Response>) => { try { return await p; } catch (e) { if (e instanceof Response) return e; throw e; } };
+  const thrown = async (p: Promise<Response>) => {
+    try {
+      return await p;
+    } catch (e) {
+      if (e instanceof Response) return e;
+      throw e;
+    }
+  };
 
   it("401 without a session, 403 for a rider and for a foreign Origin; 201 with {photo, photos}; 415 as {error}", async () => {
     const body = multipart([photoPart(await jpeg()), consent]);
@@ -452,7 +570,7 @@ describe("POST /api/v1/photos (API.md): guards, 201 shape, the one error shape",
 
     const ok = await api(body, { Origin: "http://127.0.0.1", Cookie: cookie });
     expect(ok.status).toBe(201);
-    const json = await ok.json() as { photo: Record<string, unknown>; photos: Record<string, unknown>[] };
+    const json = (await ok.json()) as { photo: Record<string, unknown>; photos: Record<string, unknown>[] };
     expect(Object.keys(json.photo).sort()).toEqual(["height", "id", "thumbUrl", "url", "width"]);
     expect(json.photo.url).toBe(`/photos/${json.photo.id}.webp`);
     expect(json.photo.thumbUrl).toBe(`/photos/${json.photo.id}.thumb.webp`);
@@ -473,8 +591,21 @@ describe("photos on a submission: own draft or returned only; content.photos and
   it("appends {id, caption, credit} to content.photos, bumps version by 1, sets submissionId and position", async () => {
     const user = await contributor();
     const s = await draft(user);
-    const r = await attempt(request(multipart([photoPart(await jpeg()), photoPart(await jpeg(), "second.jpg"), consent,
-      { name: "caption", data: "Wire side,\tlatch\r\nup" }, { name: "credit", data: " A. Rider " }, { name: "intent", data: "upload" }, { name: "version", data: "1" }])), user, { submissionId: s.id });
+    const r = await attempt(
+      request(
+        multipart([
+          photoPart(await jpeg()),
+          photoPart(await jpeg(), "second.jpg"),
+          consent,
+          { name: "caption", data: "Wire side,\tlatch\r\nup" },
+          { name: "credit", data: " A. Rider " },
+          { name: "intent", data: "upload" },
+          { name: "version", data: "1" },
+        ]),
+      ),
+      user,
+      { submissionId: s.id },
+    );
     expect(r.status, r.message).toBe(201);
     expect(r.fields).toEqual({ intent: "upload", version: "1" });
     await s.reload();
@@ -600,31 +731,82 @@ describe("F5 malformed multipart (QUALITY F5; SQLite testing: malformed input mu
     const cases: [string, () => Request, number[]][] = [
       ["no boundary", () => request(valid, { contentType: "multipart/form-data" }), [415]],
       ["empty boundary", () => request(valid, { contentType: "multipart/form-data; boundary=" }), [415]],
-      ["boundary longer than 70 characters", () => request(multipart([photoPart(data), consent], "b".repeat(80)), { contentType: `multipart/form-data; boundary=${"b".repeat(80)}` }), [400]],
+      [
+        "boundary longer than 70 characters",
+        () => request(multipart([photoPart(data), consent], "b".repeat(80)), { contentType: `multipart/form-data; boundary=${"b".repeat(80)}` }),
+        [400],
+      ],
       ["wrong boundary", () => request(valid, { contentType: "multipart/form-data; boundary=somethingElse" }), [400]],
       ["truncated closing boundary", () => request(valid.subarray(0, valid.length - 6)), [400]],
       ["no closing boundary", () => request(multipart([photoPart(data), consent], BOUNDARY, false)), [400]],
-      ["part headers > 8 KB", () => request(multipart([{ name: "photo", data, rawHeaders: `Content-Disposition: form-data; name="photo"; filename="a.jpg"\r\nX-Padding: ${"p".repeat(9000)}` }, consent])), [400]],
+      [
+        "part headers > 8 KB",
+        () =>
+          request(
+            multipart([
+              { name: "photo", data, rawHeaders: `Content-Disposition: form-data; name="photo"; filename="a.jpg"\r\nX-Padding: ${"p".repeat(9000)}` },
+              consent,
+            ]),
+          ),
+        [400],
+      ],
       ["1 000 empty parts", () => request(multipart(Array.from({ length: 1000 }, (_, i) => ({ name: `f${i}`, data: "" })))), [400]],
-      ["1 000 empty parts beside a photo", () => request(multipart([photoPart(data), consent, ...Array.from({ length: 1000 }, (_, i) => ({ name: `f${i}`, data: "" }))])), [400]],
+      [
+        "1 000 empty parts beside a photo",
+        () => request(multipart([photoPart(data), consent, ...Array.from({ length: 1000 }, (_, i) => ({ name: `f${i}`, data: "" }))])),
+        [400],
+      ],
       ["1 000 unnamed parts", () => request(multipart(Array.from({ length: 1000 }, () => ({ data: "" })))), [400]],
       ["unnamed file part", () => request(multipart([{ filename: "a.jpg", type: "image/jpeg", data }, consent])), [400]],
       ["file under another field name", () => request(multipart([{ name: "avatar", filename: "a.jpg", type: "image/jpeg", data }, consent])), [400]],
       ["photo sent as a text field", () => request(multipart([{ name: "photo", data: "not a file" }, consent])), [400]],
       ["filename with CR/LF", () => request(multipart([photoPart(data, "a\r\nContent-Type: text/html\r\n.jpg"), consent])), [201, 400]],
       ["filename with NUL", () => request(multipart([photoPart(data, "evil\0.jpg"), consent])), [201, 400]],
-      ["nested multipart (multipart/mixed file part)", () => request(multipart([{ name: "photo", filename: "inner", type: "multipart/mixed; boundary=inner", data: multipart([photoPart(data)], "inner") }, consent])), [415]],
-      ["nested multipart as a text part", () => request(multipart([{ name: "photo", type: "multipart/mixed; boundary=inner", data: multipart([photoPart(data)], "inner") }, consent])), [400]],
+      [
+        "nested multipart (multipart/mixed file part)",
+        () =>
+          request(
+            multipart([{ name: "photo", filename: "inner", type: "multipart/mixed; boundary=inner", data: multipart([photoPart(data)], "inner") }, consent]),
+          ),
+        [415],
+      ],
+      [
+        "nested multipart as a text part",
+        () => request(multipart([{ name: "photo", type: "multipart/mixed; boundary=inner", data: multipart([photoPart(data)], "inner") }, consent])),
+        [400],
+      ],
       ["Content-Type: text/plain", () => request(valid, { contentType: "text/plain" }), [415]],
-      ["Content-Type: application/x-www-form-urlencoded", () => request(Buffer.from("photo=x&consent=yes"), { contentType: "application/x-www-form-urlencoded" }), [415]],
+      [
+        "Content-Type: application/x-www-form-urlencoded",
+        () => request(Buffer.from("photo=x&consent=yes"), { contentType: "application/x-www-form-urlencoded" }),
+        [415],
+      ],
       ["Content-Type: multipart/mixed", () => request(valid, { contentType: `multipart/mixed; boundary=${BOUNDARY}` }), [415]],
       ["no Content-Type", () => request(valid, { contentType: null }), [415]],
       ["no body", () => request(null), [400]],
       ["empty body", () => request(Buffer.alloc(0)), [400]],
       ["garbage body", () => request(Buffer.from("\x00\x01\x02 definitely not multipart")), [400]],
       ["preamble before the first boundary", () => request(Buffer.concat([Buffer.from("preamble\r\n"), valid])), [400]],
-      ["invalid UTF-8 in a text field", () => request(multipart([photoPart(data), consent, { name: "caption", data: Buffer.from([0xc3, 0x28, 0xff]) }])), [400]],
-      ["invalid UTF-8 in a part header", () => request(multipart([{ name: "photo", data, rawHeaders: Buffer.from(`Content-Disposition: form-data; name="photo"; filename="\xff\xfe.jpg"\r\nContent-Type: image/jpeg`, "latin1") }, consent])), [400]],
+      [
+        "invalid UTF-8 in a text field",
+        () => request(multipart([photoPart(data), consent, { name: "caption", data: Buffer.from([0xc3, 0x28, 0xff]) }])),
+        [400],
+      ],
+      [
+        "invalid UTF-8 in a part header",
+        () =>
+          request(
+            multipart([
+              {
+                name: "photo",
+                data,
+                rawHeaders: Buffer.from(`Content-Disposition: form-data; name="photo"; filename="\xff\xfe.jpg"\r\nContent-Type: image/jpeg`, "latin1"),
+              },
+              consent,
+            ]),
+          ),
+        [400],
+      ],
       ["body longer than its Content-Length", () => request(valid, { contentLength: 1000 }), [400]],
       ["no consent", () => request(multipart([photoPart(data)])), [400]],
       ["consent=no", () => request(multipart([photoPart(data), { name: "consent", data: "no" }])), [400]],
@@ -637,7 +819,10 @@ describe("F5 malformed multipart (QUALITY F5; SQLite testing: malformed input mu
     const rss0 = process.memoryUsage().rss;
     const seen: string[] = [];
     for (const [what, make, expected] of cases) {
-      if (++used > 15) { user = await contributor(); used = 1; } // stay under the per-minute limit
+      if (++used > 15) {
+        user = await contributor();
+        used = 1;
+      } // stay under the per-minute limit
       const r = await attempt(make(), user);
       seen.push(`${what}: ${r.status} ${r.code ?? ""} (${r.ms.toFixed(0)} ms)`);
       expect(expected, `${what}: got ${r.status} ${r.message}`).toContain(r.status);
@@ -655,7 +840,10 @@ describe("F5 malformed multipart (QUALITY F5; SQLite testing: malformed input mu
     const stored: string[] = [];
     let slowest = 0;
     for (let i = 0; i < 240; i++) {
-      if (++used > 15) { user = await contributor(); used = 1; }
+      if (++used > 15) {
+        user = await contributor();
+        used = 1;
+      }
       const mutated = Buffer.from(body);
       const edits = 1 + Math.floor(rnd() * 8);
       for (let k = 0; k < edits; k++) {
@@ -677,7 +865,9 @@ describe("F5 malformed multipart (QUALITY F5; SQLite testing: malformed input mu
       expect(r.ms, `mutation ${i}`).toBeLessThan(1000);
     }
     const grew = (process.memoryUsage().rss - rss0) / 1024 / 1024;
-    console.log(`[F5] 240 mutations: ${JSON.stringify(counts)}; slowest ${slowest.toFixed(0)} ms; RSS ${grew >= 0 ? "+" : ""}${grew.toFixed(1)} MB over the corpus`);
+    console.log(
+      `[F5] 240 mutations: ${JSON.stringify(counts)}; slowest ${slowest.toFixed(0)} ms; RSS ${grew >= 0 ? "+" : ""}${grew.toFixed(1)} MB over the corpus`,
+    );
     await expectNoLeftovers("F5");
     // Whatever a mutation left valid was stored as a fresh, decodable WebP.
     for (const id of stored) expect((await sharp(readFileSync(photoFile(id))).metadata()).format).toBe("webp");
@@ -692,25 +882,33 @@ function lazyBody(head: Buffer, fillBytes: number, tail: Buffer) {
   let sent = 0;
   const total = head.length + fillBytes + tail.length;
   const chunk = Buffer.alloc(64 * 1024, 0x41);
-  const stream = new ReadableStream<Uint8Array>({
-    pull(controller) {
-      let out: Buffer;
-      if (sent === 0) out = head;
-      else if (sent < head.length + fillBytes) out = chunk.subarray(0, Math.min(chunk.length, head.length + fillBytes - sent));
-      else if (sent < total) out = tail;
-      else return controller.close();
-      sent += out.length;
-      meter.pulled += out.length;
-      controller.enqueue(new Uint8Array(out));
+  const stream = new ReadableStream<Uint8Array>(
+    {
+      pull(controller) {
+        let out: Buffer;
+        if (sent === 0) out = head;
+        else if (sent < head.length + fillBytes) out = chunk.subarray(0, Math.min(chunk.length, head.length + fillBytes - sent));
+        else if (sent < total) out = tail;
+        else return controller.close();
+        sent += out.length;
+        meter.pulled += out.length;
+        controller.enqueue(new Uint8Array(out));
+      },
     },
-  }, { highWaterMark: 0 });
+    { highWaterMark: 0 },
+  );
   return { stream, meter, total };
 }
 
 describe("F6 oversized bodies: limits enforced while streaming (QUALITY F6; form-data-parser maxFileSize, STACK.md gotcha 11)", () => {
   it("a 30 MB photo against the 15 MB limit → 413, having read at most limit + 1 MB", async () => {
     const user = await contributor();
-    const head = Buffer.concat([Buffer.from(`--${BOUNDARY}\r\nContent-Disposition: form-data; name="consent"\r\n\r\nyes\r\n--${BOUNDARY}\r\nContent-Disposition: form-data; name="photo"; filename="big.jpg"\r\nContent-Type: image/jpeg\r\n\r\n`), await jpeg()]);
+    const head = Buffer.concat([
+      Buffer.from(
+        `--${BOUNDARY}\r\nContent-Disposition: form-data; name="consent"\r\n\r\nyes\r\n--${BOUNDARY}\r\nContent-Disposition: form-data; name="photo"; filename="big.jpg"\r\nContent-Type: image/jpeg\r\n\r\n`,
+      ),
+      await jpeg(),
+    ]);
     const { stream, meter } = lazyBody(head, 30 * 1024 * 1024, Buffer.from(`\r\n--${BOUNDARY}--\r\n`));
     const r = await attempt(request(stream, { contentLength: null }), user);
     const past = meter.pulled - P.PHOTO_LIMITS.maxBytes;
@@ -761,7 +959,9 @@ describe("F8 hostile or broken images → 422 in < 500 ms, no row (sharp failOn 
     const w = 8;
     const raw = Buffer.alloc(w * w * 3 * frames);
     for (let f = 0; f < frames; f++) raw.fill(f % 251, f * w * w * 3, (f + 1) * w * w * 3);
-    const animated = await sharp(raw, { raw: { width: w, height: w * frames, channels: 3, pageHeight: w } }).webp({ effort: 0, lossless: true }).toBuffer();
+    const animated = await sharp(raw, { raw: { width: w, height: w * frames, channels: 3, pageHeight: w } })
+      .webp({ effort: 0, lossless: true })
+      .toBuffer();
     expect((await sharp(animated).metadata()).pages).toBe(frames);
     const pngHeaderGarbage = Buffer.concat([pngBomb(64, 48).subarray(0, 33), Buffer.alloc(4000, 0x5a)]);
     const cases: [string, Buffer, string][] = [
@@ -769,7 +969,11 @@ describe("F8 hostile or broken images → 422 in < 500 ms, no row (sharp failOn 
       ["0-byte file", Buffer.alloc(0), "empty.jpg"],
       ["JPEG header + garbage", Buffer.concat([good.subarray(0, 200), Buffer.alloc(5000, 0x55)]), "g.jpg"],
       ["PNG header + garbage", pngHeaderGarbage, "g.png"],
-      ["WebP header + garbage", Buffer.concat([Buffer.from("RIFF"), Buffer.from([0x00, 0x10, 0, 0]), Buffer.from("WEBPVP8 "), Buffer.alloc(4096, 0x33)]), "g.webp"],
+      [
+        "WebP header + garbage",
+        Buffer.concat([Buffer.from("RIFF"), Buffer.from([0x00, 0x10, 0, 0]), Buffer.from("WEBPVP8 "), Buffer.alloc(4096, 0x33)]),
+        "g.webp",
+      ],
       ["PNG pixel bomb (20 000 × 20 000)", pngBomb(), "bomb.png"],
       ["JPEG pixel bomb (SOF0 says 60 000 × 60 000)", jpegBomb(good), "bomb.jpg"],
       [`animated WebP, ${frames} frames`, animated, "anim.webp"],
@@ -805,7 +1009,10 @@ describe("F4 disk full: ENOSPC at each write → 507 with an error id, no row, n
         expect(r.code).toBe("insufficient_storage");
         const id = /error id ([0-9a-f]{8})/.exec(r.message ?? "")?.[1];
         expect(id, "the message carries an error id").toBeTruthy();
-        expect(logged.mock.calls.some((c) => String(c[0]).includes(id!)), "the log line carries the same id").toBe(true);
+        expect(
+          logged.mock.calls.some((c) => String(c[0]).includes(id!)),
+          "the log line carries the same id",
+        ).toBe(true);
         expect(await m.Photo.count({ where: { ownerId: user.id } })).toBe(0);
         await expectNoLeftovers(`ENOSPC at write ${n}`);
       }
@@ -830,7 +1037,7 @@ describe("D7 orphan sweeper (QUALITY D7: old orphans go, referenced and young fi
     const now = Date.now();
     const put = (file: string, ageMs: number, data = "x") => {
       writeFileSync(file, data);
-      const t = new Date(now - ageMs) ;
+      const t = new Date(now - ageMs);
       utimesSync(file, t, t);
       return file;
     };
@@ -852,7 +1059,8 @@ describe("D7 orphan sweeper (QUALITY D7: old orphans go, referenced and young fi
       put(path.join(P.PHOTOS_DIR, `${randomUUID()}.webp.part`), 10_000),
       put(photoFile(youngOrphan), 1 * H), // renamed, its row not inserted yet
       put(path.join(P.PHOTOS_DIR, "README.txt"), 1000 * H), // not ours: never touched
-      photoFile(kept), photoFile(kept, true),
+      photoFile(kept),
+      photoFile(kept, true),
     ];
     const first = await P.sweepPhotos({ now: new Date(now) });
     expect(first).toMatchObject({ tmpRemoved: 2, partsRemoved: 2, orphansRemoved: 2 });
@@ -880,16 +1088,31 @@ describe("D7 orphan sweeper (QUALITY D7: old orphans go, referenced and young fi
     let sweepMs = 0;
     let sweepCount = 0;
     for (let run = 0; run < 200; run++) {
-      if (++used > 15) { user = await contributor(); used = 1; }
+      if (++used > 15) {
+        user = await contributor();
+        used = 1;
+      }
       const kind = pick(rnd, ["good", "good", "good", "broken", "html", "two"] as const);
-      const parts = kind === "two" ? [photoPart(good), photoPart(good, "b.jpg")] : [photoPart(kind === "broken" ? broken : kind === "html" ? Buffer.from("<html>") : good)];
+      const parts =
+        kind === "two" ? [photoPart(good), photoPart(good, "b.jpg")] : [photoPart(kind === "broken" ? broken : kind === "html" ? Buffer.from("<html>") : good)];
       const upload = attempt(request(multipart([...parts, consent])), user);
-      const sweeps = Array.from({ length: 1 + Math.floor(rnd() * 3) }, () => new Promise<void>((resolve, reject) => {
-        setTimeout(() => {
-          const s0 = performance.now();
-          P.sweepPhotos({ tmpAgeMs: 0, orphanAgeMs: 0 }).then(() => { sweepMs += performance.now() - s0; sweepCount++; resolve(); }, reject);
-        }, Math.floor(rnd() * 25));
-      }));
+      const sweeps = Array.from(
+        { length: 1 + Math.floor(rnd() * 3) },
+        () =>
+          new Promise<void>((resolve, reject) => {
+            setTimeout(
+              () => {
+                const s0 = performance.now();
+                P.sweepPhotos({ tmpAgeMs: 0, orphanAgeMs: 0 }).then(() => {
+                  sweepMs += performance.now() - s0;
+                  sweepCount++;
+                  resolve();
+                }, reject);
+              },
+              Math.floor(rnd() * 25),
+            );
+          }),
+      );
       const [r] = await Promise.all([upload, ...sweeps]);
       outcomes[r.status] = (outcomes[r.status] ?? 0) + 1;
       for (const p of r.photos ?? []) {
@@ -907,7 +1130,9 @@ describe("D7 orphan sweeper (QUALITY D7: old orphans go, referenced and young fi
       expect(statSync(a).size + statSync(b).size).toBe(p.bytes);
       checked++;
     }
-    console.log(`[D7] 200 runs in ${((performance.now() - t0) / 1000).toFixed(1)} s: ${JSON.stringify(outcomes)}; ${sweepCount} sweeps, ${(sweepMs / sweepCount).toFixed(1)} ms each on average (overlapping the uploads); ${checked} rows checked`);
+    console.log(
+      `[D7] 200 runs in ${((performance.now() - t0) / 1000).toFixed(1)} s: ${JSON.stringify(outcomes)}; ${sweepCount} sweeps, ${(sweepMs / sweepCount).toFixed(1)} ms each on average (overlapping the uploads); ${checked} rows checked`,
+    );
     expect(outcomes[201]).toBeGreaterThan(50);
     await expectNoLeftovers("D7 randomized");
   });

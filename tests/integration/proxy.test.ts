@@ -17,8 +17,10 @@ describe("S4c: behind a trusted proxy", () => {
       method: "POST",
       redirect: "manual",
       headers: {
-        "Content-Type": "application/x-www-form-urlencoded", Origin: origin,
-        "X-Forwarded-Host": "loomlore.test", "X-Forwarded-Proto": "https",
+        "Content-Type": "application/x-www-form-urlencoded",
+        Origin: origin,
+        "X-Forwarded-Host": "loomlore.test",
+        "X-Forwarded-Proto": "https",
       },
       body: new URLSearchParams(form).toString(),
     });

@@ -8,14 +8,7 @@
 import { mkdtempSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
-import {
-  Meilisearch,
-  MeilisearchApiError,
-  MeilisearchRequestError,
-  MeilisearchRequestTimeOutError,
-  type Index,
-  type Task,
-} from "meilisearch";
+import { Meilisearch, MeilisearchApiError, MeilisearchRequestError, MeilisearchRequestTimeOutError, type Index, type Task } from "meilisearch";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { z } from "zod";
 import { startSearchStandIn, type SearchStandIn } from "../../search/server.ts";
@@ -48,12 +41,78 @@ interface Card {
 
 // Invented families and makers (the demo library's invented names), circuits and colour codes in several notations.
 const CARDS: Card[] = [
-  { id: "rx750-pickup", family: "RX750 Four", make: "Asagiri", title: "Pickup coil plug", circuits: ["pickup coil", "ignition"], codes: ["W/R", "B/Y"], terminals: ["1", "2"], cavities: 2, year: 1979, kind: "connector" },
-  { id: "b800-kill", family: "B 800 Boxer", make: "Brennwald", title: "Handlebar kill switch", circuits: ["kill switch", "ignition"], codes: ["ws/rt", "sw"], terminals: ["15", "31"], cavities: 4, year: 1976, kind: "connector" },
-  { id: "b800-relay", family: "B 800 Boxer", make: "Brennwald", title: "Starter relay socket", circuits: ["starting"], codes: ["BLGN", "rt/sw"], terminals: ["30", "87a", "31b"], cavities: 4, year: 1977, kind: "connector" },
-  { id: "sov650-reg", family: "Sovereign 650", make: "Ashcombe", title: "Regulator rectifier block", circuits: ["charging"], codes: ["Y/G", "R"], terminals: ["B+", "L"], cavities: 3, year: 1968, kind: "connector" },
-  { id: "rx750-tail", family: "RX750 Four", make: "Asagiri", title: "Tail lamp feed", circuits: ["lighting"], codes: ["W", "R"], terminals: ["58"], cavities: 1, year: 1980, kind: "pin" },
-  { id: "marquis-horn", family: "Marquis 500", make: "Ashcombe", title: "Horn push", circuits: ["horn"], codes: ["P/B"], terminals: ["H"], cavities: 2, year: 1971, kind: "connector" },
+  {
+    id: "rx750-pickup",
+    family: "RX750 Four",
+    make: "Asagiri",
+    title: "Pickup coil plug",
+    circuits: ["pickup coil", "ignition"],
+    codes: ["W/R", "B/Y"],
+    terminals: ["1", "2"],
+    cavities: 2,
+    year: 1979,
+    kind: "connector",
+  },
+  {
+    id: "b800-kill",
+    family: "B 800 Boxer",
+    make: "Brennwald",
+    title: "Handlebar kill switch",
+    circuits: ["kill switch", "ignition"],
+    codes: ["ws/rt", "sw"],
+    terminals: ["15", "31"],
+    cavities: 4,
+    year: 1976,
+    kind: "connector",
+  },
+  {
+    id: "b800-relay",
+    family: "B 800 Boxer",
+    make: "Brennwald",
+    title: "Starter relay socket",
+    circuits: ["starting"],
+    codes: ["BLGN", "rt/sw"],
+    terminals: ["30", "87a", "31b"],
+    cavities: 4,
+    year: 1977,
+    kind: "connector",
+  },
+  {
+    id: "sov650-reg",
+    family: "Sovereign 650",
+    make: "Ashcombe",
+    title: "Regulator rectifier block",
+    circuits: ["charging"],
+    codes: ["Y/G", "R"],
+    terminals: ["B+", "L"],
+    cavities: 3,
+    year: 1968,
+    kind: "connector",
+  },
+  {
+    id: "rx750-tail",
+    family: "RX750 Four",
+    make: "Asagiri",
+    title: "Tail lamp feed",
+    circuits: ["lighting"],
+    codes: ["W", "R"],
+    terminals: ["58"],
+    cavities: 1,
+    year: 1980,
+    kind: "pin",
+  },
+  {
+    id: "marquis-horn",
+    family: "Marquis 500",
+    make: "Ashcombe",
+    title: "Horn push",
+    circuits: ["horn"],
+    codes: ["P/B"],
+    terminals: ["H"],
+    cavities: 2,
+    year: 1971,
+    kind: "connector",
+  },
 ];
 
 // Shapes from STACK.md §4 (not strict: a real instance may add fields).
@@ -128,7 +187,11 @@ beforeAll(async () => {
 afterAll(async () => {
   if (client) {
     const { results } = await client.getRawIndexes({ limit: 1000 }).catch(() => ({ results: [] as { uid: string }[] }));
-    for (const i of results.filter((r) => r.uid.startsWith(PREFIX))) await client.deleteIndex(i.uid).waitTask().catch(() => {});
+    for (const i of results.filter((r) => r.uid.startsWith(PREFIX)))
+      await client
+        .deleteIndex(i.uid)
+        .waitTask()
+        .catch(() => {});
   }
   await standIn?.close();
   if (dataDir) rmSync(dataDir, { recursive: true, force: true });
@@ -294,7 +357,14 @@ describe("documents", () => {
   it("addDocuments replaces a whole document; updateDocuments merges fields into it", async () => {
     const idx = client.index(uid("merge"));
     await ok(idx.addDocuments([{ id: "m1", title: "Horn push", cavities: 2, colour: "P/B" }]).waitTask());
-    await ok(idx.updateDocuments([{ id: "m1", title: "Horn push switch" }, { id: "m2", title: "Neutral lamp" }]).waitTask());
+    await ok(
+      idx
+        .updateDocuments([
+          { id: "m1", title: "Horn push switch" },
+          { id: "m2", title: "Neutral lamp" },
+        ])
+        .waitTask(),
+    );
     expect(await idx.getDocument("m1")).toEqual({ id: "m1", title: "Horn push switch", cavities: 2, colour: "P/B" });
     expect(await idx.getDocument("m2")).toEqual({ id: "m2", title: "Neutral lamp" });
     await ok(idx.addDocuments([{ id: "m1", title: "Horn relay" }]).waitTask());
@@ -312,7 +382,10 @@ describe("documents", () => {
     const missing = await idx.addDocuments([{ title: "no id" }]).waitTask();
     expect(missing.status).toBe("failed");
     expect(missing.error?.code).toBe("missing_document_id");
-    const none = await client.index(uid("nokey")).addDocuments([{ title: "nothing ending in i-d" }]).waitTask();
+    const none = await client
+      .index(uid("nokey"))
+      .addDocuments([{ title: "nothing ending in i-d" }])
+      .waitTask();
     expect(none.status).toBe("failed");
     expect(none.error?.code).toBe("index_primary_key_no_candidate_found");
     expect((await idx.getDocuments()).total).toBe(0); // a failed task changes nothing
@@ -478,7 +551,14 @@ describe("search", () => {
   it("short prefixes follow updates and deletes of documents", async () => {
     const own = client.index<{ id: string; title: string }>(uid("prefix-follow"));
     await ok(client.createIndex(uid("prefix-follow"), { primaryKey: "id" }).waitTask());
-    await ok(own.addDocuments([{ id: "a", title: "Zephyr lamp" }, { id: "b", title: "Quartz horn" }]).waitTask());
+    await ok(
+      own
+        .addDocuments([
+          { id: "a", title: "Zephyr lamp" },
+          { id: "b", title: "Quartz horn" },
+        ])
+        .waitTask(),
+    );
     expect(ids((await own.search("ze")).hits)).toEqual(["a"]);
     await ok(own.updateDocuments([{ id: "a", title: "Quill lamp" }]).waitTask());
     expect((await own.search("ze")).hits).toEqual([]);
@@ -514,7 +594,11 @@ describe("search", () => {
   it("circuit words and family names", async () => {
     expect((await index.search("kill switch")).hits[0]?.id).toBe("b800-kill");
     expect((await index.search("pickup coil")).hits[0]?.id).toBe("rx750-pickup");
-    expect(ids((await index.search("RX750 Four")).hits).slice(0, 2).sort()).toEqual(["rx750-pickup", "rx750-tail"]);
+    expect(
+      ids((await index.search("RX750 Four")).hits)
+        .slice(0, 2)
+        .sort(),
+    ).toEqual(["rx750-pickup", "rx750-tail"]);
     expect(ids((await index.search("charging", { filter: "make = Ashcombe" })).hits)).toEqual(["sov650-reg"]);
   });
 
@@ -531,7 +615,12 @@ describe("tasks", () => {
     const name = uid("tasks");
     const created = await ok(client.createIndex(name, { primaryKey: "id" }).waitTask());
     const failed = await client.createIndex(name).waitTask();
-    const added = await ok(client.index(name).addDocuments([{ id: "t1" }]).waitTask());
+    const added = await ok(
+      client
+        .index(name)
+        .addDocuments([{ id: "t1" }])
+        .waitTask(),
+    );
     const one = await client.tasks.getTask(added.uid);
     taskShape.parse(one);
     expect(one).toMatchObject({ uid: added.uid, indexUid: name, status: "succeeded", type: "documentAdditionOrUpdate" });

@@ -24,7 +24,13 @@ const sessions = {} as Record<Role, string>;
 
 // API.md "Search": hits type/slug/title/subtitle/url; facets make/system/pinCount; total; source; tookMs.
 const counts = z.record(z.string(), z.number().int().nonnegative());
-const hitShape = z.looseObject({ type: z.enum(["family", "connector", "pin"]), slug: z.string().min(1), title: z.string().min(1), subtitle: z.string(), url: z.string().startsWith("/") });
+const hitShape = z.looseObject({
+  type: z.enum(["family", "connector", "pin"]),
+  slug: z.string().min(1),
+  title: z.string().min(1),
+  subtitle: z.string(),
+  url: z.string().startsWith("/"),
+});
 const resultShape = z.looseObject({
   hits: z.array(hitShape),
   facets: z.object({ make: counts, system: counts, pinCount: counts }).passthrough(),
@@ -54,10 +60,12 @@ function dbAll<T = Record<string, unknown>>(sql: string, params: unknown[] = [])
 }
 /** Card slugs: published connector cards with a pin matching `cond` (SQL over pins p, connectors c, families f). */
 async function cardsWhere(cond: string, params: unknown[] = []): Promise<string[]> {
-  const rows = await dbAll<{ slug: string }>(`SELECT DISTINCT c.slug FROM pins p JOIN connectors c ON c.id = p.connector_id JOIN families f ON f.id = c.family_id WHERE ${cond} ORDER BY c.slug`, params);
+  const rows = await dbAll<{ slug: string }>(
+    `SELECT DISTINCT c.slug FROM pins p JOIN connectors c ON c.id = p.connector_id JOIN families f ON f.id = c.family_id WHERE ${cond} ORDER BY c.slug`,
+    params,
+  );
   return rows.map((r) => r.slug);
 }
-
 
 /** How the start went: the first answer from the index (or the last answer within 15 s) and when it came. */
 let startup: { ms: number; last: Result | null };
@@ -113,7 +121,11 @@ describe("API shape, filters and facets", () => {
   it("make, family, system, pins and type each narrow the result to what the unfiltered facet counted", async () => {
     const all = await find({ q: "pickup" });
     const cases: [string, string, string][] = [
-      ["make", "asagiri", "make"], ["family", "rx750-four", "family"], ["system", "ignition", "system"], ["pins", "4", "pinCount"], ["type", "connector", "type"],
+      ["make", "asagiri", "make"],
+      ["family", "rx750-four", "family"],
+      ["system", "ignition", "system"],
+      ["pins", "4", "pinCount"],
+      ["type", "connector", "type"],
     ];
     for (const [param, value, facet] of cases) {
       const expected = all.facets[facet]?.[value];
@@ -142,8 +154,16 @@ describe("API shape, filters and facets", () => {
 
   it("bad input is a 400 with the API's error body, never a 500", async () => {
     const bad: Record<string, string>[] = [
-      { q: "a".repeat(201) }, { q: "pickup", pins: "abc" }, { q: "pickup", pins: "0" }, { q: "pickup", type: "nope" }, { q: "x", make: "Not A Slug" },
-      { q: "x", family: "\u0000" }, { q: "x", make: "asagiri\u0000" }, { q: "x", system: "nope" }, { q: "x", limit: "1000" }, { q: "x", offset: "-1" },
+      { q: "a".repeat(201) },
+      { q: "pickup", pins: "abc" },
+      { q: "pickup", pins: "0" },
+      { q: "pickup", type: "nope" },
+      { q: "x", make: "Not A Slug" },
+      { q: "x", family: "\u0000" },
+      { q: "x", make: "asagiri\u0000" },
+      { q: "x", system: "nope" },
+      { q: "x", limit: "1000" },
+      { q: "x", offset: "-1" },
     ];
     for (const params of bad) {
       const qs = new URLSearchParams(params).toString();
@@ -153,7 +173,7 @@ describe("API shape, filters and facets", () => {
       expect(errorBody.safeParse(JSON.parse(r.body)).success, r.body).toBe(true);
     }
     // NUL and other control characters inside the words are read as spaces (app/validation/library.ts): an answer, not an error.
-    for (const q of ["pick\u0000up", "\u0000", "W/R\u0007", "\"unclosed", "-", "*", "NEAR(a b)", "^", "'", "a OR b", "31d AND"]) {
+    for (const q of ["pick\u0000up", "\u0000", "W/R\u0007", '"unclosed', "-", "*", "NEAR(a b)", "^", "'", "a OR b", "31d AND"]) {
       const r = await req(srv, `/api/v1/search?q=${encodeURIComponent(q)}`);
       expect(r.status, `${JSON.stringify(q)}: ${where(r)}`).toBe(200);
     }
@@ -164,7 +184,12 @@ describe("API shape, filters and facets", () => {
 describe("search quality on the (invented) demo library", () => {
   it("a typo in a family name finds that family first", async () => {
     // one letter swapped, one dropped, a letter O for a zero (typo tolerance: 1 typo from 5 characters, as the service's defaults)
-    for (const [q, family] of [["sovereing", "sovereign-650"], ["marqis 500", "marquis-500"], ["rx75o four", "rx750-four"], ["rx40o", "rx400-four"]] as const) {
+    for (const [q, family] of [
+      ["sovereing", "sovereign-650"],
+      ["marqis 500", "marquis-500"],
+      ["rx75o four", "rx750-four"],
+      ["rx40o", "rx400-four"],
+    ] as const) {
       const r = await find({ q });
       expect(r.source).toBe("index");
       expect(firstOf(r, "family")?.slug, q).toBe(family);
@@ -209,7 +234,9 @@ describe("search quality on the (invented) demo library", () => {
       expect(cards, `${q}: ${r.hits[0]?.slug}`).toContain(r.hits[0]?.slug);
     }
     const rdwh = await find({ q: "RDWH", type: "connector" });
-    const whiteRedOrRedWhite = await cardsWhere("(f.colour_system = 'jis' AND p.colour_code IN ('W/R', 'R/W')) OR (f.colour_system = 'din' AND p.colour_code IN ('rt/ws', 'RTWS')) OR (f.colour_system = 'bs' AND p.colour_code IN ('R/W', 'RW', 'WR'))");
+    const whiteRedOrRedWhite = await cardsWhere(
+      "(f.colour_system = 'jis' AND p.colour_code IN ('W/R', 'R/W')) OR (f.colour_system = 'din' AND p.colour_code IN ('rt/ws', 'RTWS')) OR (f.colour_system = 'bs' AND p.colour_code IN ('R/W', 'RW', 'WR'))",
+    );
     expect(whiteRedOrRedWhite).toContain(rdwh.hits[0]?.slug);
   });
 
@@ -245,7 +272,11 @@ describe("search quality on the (invented) demo library", () => {
   });
 
   it("as you type: a prefix of a family name already finds it", async () => {
-    for (const [q, family] of [["sov", "sovereign-650"], ["marq", "marquis-500"], ["rx4", "rx400-four"]] as const) {
+    for (const [q, family] of [
+      ["sov", "sovereign-650"],
+      ["marq", "marquis-500"],
+      ["rx4", "rx400-four"],
+    ] as const) {
       expect(firstOf(await find({ q }), "family")?.slug, q).toBe(family);
     }
   });
@@ -266,8 +297,16 @@ describe("an approved edit reaches the index; D11 reconcile", () => {
     const content = structuredClone(sub.content);
     content.pins[0].circuit = `${WORD} signal from the coil negative`;
     r = await req(srv, `/api/v1/submissions/${sub.id}`, {
-      method: "PATCH", session: sessions.contributor,
-      json: { version: sub.version, content, sourceKind: "traced", sourceDetail: "Traced with a meter on a 1976 bike", summary: "Rev counter lead", action: "submit" },
+      method: "PATCH",
+      session: sessions.contributor,
+      json: {
+        version: sub.version,
+        content,
+        sourceKind: "traced",
+        sourceDetail: "Traced with a meter on a 1976 bike",
+        summary: "Rev counter lead",
+        action: "submit",
+      },
     });
     expect(r.status, where(r)).toBe(200);
     sub = JSON.parse(r.body).submission;
@@ -276,7 +315,10 @@ describe("an approved edit reaches the index; D11 reconcile", () => {
     const approvedAt = Date.now();
 
     // The decision's transaction wrote an index job; the worker (every SEARCH_POLL_MS, 2 s) sends it to the service.
-    const jobs = await dbAll<{ id: number }>("SELECT i.id FROM index_jobs i JOIN connectors c ON c.id = i.subject_id WHERE i.kind = 'connector' AND c.slug = ?", [CARD]);
+    const jobs = await dbAll<{ id: number }>(
+      "SELECT i.id FROM index_jobs i JOIN connectors c ON c.id = i.subject_id WHERE i.kind = 'connector' AND c.slug = ?",
+      [CARD],
+    );
     expect(jobs.length).toBeGreaterThan(0);
     let found: Result | null = null;
     while (Date.now() - approvedAt < 10_000) {
@@ -329,7 +371,9 @@ describe("the database's fallback copy", () => {
          FROM search_fts f LEFT JOIN search_facets s ON s.rid = f.rowid`,
     );
     expect(rows.length).toBeGreaterThan(100);
-    const unpaired = rows.filter((r) => r.s_rid === null || ["type", "make_slug", "family_slug", "system", "pin_count"].some((c) => String(r[c]) !== String(r[`s_${c}`])));
+    const unpaired = rows.filter(
+      (r) => r.s_rid === null || ["type", "make_slug", "family_slug", "system", "pin_count"].some((c) => String(r[c]) !== String(r[`s_${c}`])),
+    );
     expect(unpaired).toEqual([]);
     const [{ n }] = await dbAll<{ n: number }>("SELECT COUNT(*) AS n FROM search_facets");
     expect(n, "no facet row without its full-text row").toBe(rows.length);

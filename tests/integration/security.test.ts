@@ -106,7 +106,8 @@ async function digest(srv: TestServer): Promise<Record<string, string>> {
     const out: Record<string, string> = {};
     for (const [table, cols] of Object.entries(DIGEST_TABLES)) {
       const rows = await new Promise<unknown[]>((resolve, reject) =>
-        db.all(`SELECT ${cols} FROM ${table} ORDER BY rowid`, (err, r) => (err ? reject(err) : resolve(r))));
+        db.all(`SELECT ${cols} FROM ${table} ORDER BY rowid`, (err, r) => (err ? reject(err) : resolve(r))),
+      );
       const h = createHash("sha256");
       for (const row of rows) h.update(JSON.stringify(row) + "\n");
       out[table] = `${rows.length}:${h.digest("hex").slice(0, 16)}`;
@@ -126,7 +127,13 @@ async function userId(srv: TestServer, email: string): Promise<number> {
 // ---------------------------------------------------------------------------------------------------------------------
 // Mail (the stand-in's JSON list, newest first)
 
-interface Mail { id: string; to: string; subject: string; text: string; receivedAt: string }
+interface Mail {
+  id: string;
+  to: string;
+  subject: string;
+  text: string;
+  receivedAt: string;
+}
 
 async function inbox(srv: TestServer, to: string): Promise<Mail[]> {
   const r = await fetch(`${srv.mailHttp}/messages?to=${encodeURIComponent(to)}`);
@@ -206,7 +213,14 @@ const median = (xs: number[]) => {
 // ---------------------------------------------------------------------------------------------------------------------
 // The route manifest (app/routes.ts) and every route file's exports
 
-interface ManifestRoute { pattern: string; file: string; source: string; hasAction: boolean; hasLoader: boolean; isApi: boolean }
+interface ManifestRoute {
+  pattern: string;
+  file: string;
+  source: string;
+  hasAction: boolean;
+  hasLoader: boolean;
+  isApi: boolean;
+}
 
 function manifest(): ManifestRoute[] {
   const text = readFileSync(path.join(root, "app/routes.ts"), "utf8");
@@ -216,7 +230,9 @@ function manifest(): ManifestRoute[] {
     const file = m[1] ?? m[3];
     const source = readFileSync(path.join(root, "app", file), "utf8");
     out.push({
-      pattern, file, source,
+      pattern,
+      file,
+      source,
       hasAction: /export\s+(?:async\s+)?(?:function|const)\s+action\b/.test(source),
       hasLoader: /export\s+(?:async\s+)?(?:function|const)\s+loader\b/.test(source),
       isApi: pattern.startsWith("api/"),
@@ -245,7 +261,12 @@ function fill(pattern: string): string {
 
 let srv: TestServer;
 const sessions: Record<Actor, string | null> = { anonymous: null, rider: null, contributor: null, moderator: null, admin: null };
-const passwords: Record<Role, string> = { rider: DEMO.rider.password, contributor: DEMO.contributor.password, moderator: DEMO.moderator.password, admin: DEMO.admin.password };
+const passwords: Record<Role, string> = {
+  rider: DEMO.rider.password,
+  contributor: DEMO.contributor.password,
+  moderator: DEMO.moderator.password,
+  admin: DEMO.admin.password,
+};
 /** A joined, unconfirmed account: the target of the admin's role change and revocation; its verify link is never used (S4a forges a POST with it, S4d opens it). */
 const BYSTANDER = { email: "bystander@loomlore.invalid", displayName: "Bystander Brook", password: "seven-pin-din-plug" };
 let bystanderVerify: { path: string; token: string };
@@ -288,7 +309,11 @@ describe("S1 role matrix: every action × every actor, enforced on the server", 
 
   async function latestBike(actor: Actor): Promise<string> {
     const email = DEMO[actor === "anonymous" ? "rider" : actor].email; // anonymous aims at the rider's bike
-    const [row] = await query<{ id: number | null }>(srv, "SELECT max(g.id) AS id FROM garage_items g JOIN users u ON u.id = g.user_id WHERE u.email = ? AND g.kind = 'bike'", [email]);
+    const [row] = await query<{ id: number | null }>(
+      srv,
+      "SELECT max(g.id) AS id FROM garage_items g JOIN users u ON u.id = g.user_id WHERE u.email = ? AND g.kind = 'bike'",
+      [email],
+    );
     expect(row.id, `${email} has a bike to remove`).not.toBeNull();
     return String(row.id);
   }
@@ -296,32 +321,95 @@ describe("S1 role matrix: every action × every actor, enforced on the server", 
 
   // The table: what each actor gets. Writes: whether an allowed cell must change the digest (GETs never may).
   const MATRIX: {
-    action: string; method: "GET" | "POST"; path: string; writes: boolean;
+    action: string;
+    method: "GET" | "POST";
+    path: string;
+    writes: boolean;
     form?: (a: Actor) => Promise<Record<string, string>> | Record<string, string>;
     expect: Record<Actor, Expected>;
     /** Cells that fail today because of an app bug (it.fails); see the KNOWN BUG comment on the row. */
     knownBug?: Actor[];
   }[] = [
-    { action: "save a card (intent=save)", method: "POST", path: `/connectors/${CARD}`, writes: true,
-      form: () => ({ intent: "save" }), expect: cells(LOGIN, 200, 200, 200, 200) },
-    { action: "mark a card bike-checked (intent=check)", method: "POST", path: `/connectors/${CARD}`, writes: true,
-      form: () => ({ intent: "check", year: "1979" }), expect: cells(LOGIN, 200, 200, 200, 200) },
-    { action: "report a mistake (intent=report)", method: "POST", path: `/connectors/${CARD}`, writes: true,
-      form: () => ({ intent: "report", text: "Cavity 3 is yellow with a red tracer on my 1979 bike, not blue." }), expect: cells(LOGIN, 200, 200, 200, 200) },
-    { action: "add a bike to the garage", method: "POST", path: "/garage", writes: true,
-      form: () => ({ intent: "bike", family: FAMILY, year: "1979", label: "matrix bike" }), expect: cells(LOGIN, 200, 200, 200, 200) },
-    { action: "remove a bike from the garage", method: "POST", path: "/garage", writes: true,
-      form: async (a) => ({ intent: "remove", id: await latestBike(a) }), expect: cells(LOGIN, 200, 200, 200, 200) },
-    { action: "change password (same password again, others kept)", method: "POST", path: "/account", writes: true,
+    {
+      action: "save a card (intent=save)",
+      method: "POST",
+      path: `/connectors/${CARD}`,
+      writes: true,
+      form: () => ({ intent: "save" }),
+      expect: cells(LOGIN, 200, 200, 200, 200),
+    },
+    {
+      action: "mark a card bike-checked (intent=check)",
+      method: "POST",
+      path: `/connectors/${CARD}`,
+      writes: true,
+      form: () => ({ intent: "check", year: "1979" }),
+      expect: cells(LOGIN, 200, 200, 200, 200),
+    },
+    {
+      action: "report a mistake (intent=report)",
+      method: "POST",
+      path: `/connectors/${CARD}`,
+      writes: true,
+      form: () => ({ intent: "report", text: "Cavity 3 is yellow with a red tracer on my 1979 bike, not blue." }),
+      expect: cells(LOGIN, 200, 200, 200, 200),
+    },
+    {
+      action: "add a bike to the garage",
+      method: "POST",
+      path: "/garage",
+      writes: true,
+      form: () => ({ intent: "bike", family: FAMILY, year: "1979", label: "matrix bike" }),
+      expect: cells(LOGIN, 200, 200, 200, 200),
+    },
+    {
+      action: "remove a bike from the garage",
+      method: "POST",
+      path: "/garage",
+      writes: true,
+      form: async (a) => ({ intent: "remove", id: await latestBike(a) }),
+      expect: cells(LOGIN, 200, 200, 200, 200),
+    },
+    {
+      action: "change password (same password again, others kept)",
+      method: "POST",
+      path: "/account",
+      writes: true,
       // Success redirects back to /account with the new session cookie (the old session is ended first).
-      form: (a) => { const pw = passwords[a === "anonymous" ? "rider" : a]; return { intent: "password", current: pw, password: pw }; }, expect: cells(LOGIN, 302, 302, 302, 302) },
-    { action: "admin: change a role", method: "POST", path: "/admin", writes: true,
-      form: async () => ({ intent: "role", userId: String(await bystanderId()), role: "rider" }), expect: cells(LOGIN, 403, 403, 403, 200) },
-    { action: "admin: set one's own role to admin (the admin's cell sets the rider's role to rider)", method: "POST", path: "/admin", writes: true,
-      form: async (a) => ({ intent: "role", userId: String(await userId(srv, DEMO[a === "anonymous" || a === "admin" ? "rider" : a].email)), role: a === "admin" ? "rider" : "admin" }),
-      expect: cells(LOGIN, 403, 403, 403, 200) },
-    { action: "admin: sign someone out everywhere", method: "POST", path: "/admin", writes: true,
-      form: async () => ({ intent: "revoke", userId: String(await bystanderId()) }), expect: cells(LOGIN, 403, 403, 403, 200) },
+      form: (a) => {
+        const pw = passwords[a === "anonymous" ? "rider" : a];
+        return { intent: "password", current: pw, password: pw };
+      },
+      expect: cells(LOGIN, 302, 302, 302, 302),
+    },
+    {
+      action: "admin: change a role",
+      method: "POST",
+      path: "/admin",
+      writes: true,
+      form: async () => ({ intent: "role", userId: String(await bystanderId()), role: "rider" }),
+      expect: cells(LOGIN, 403, 403, 403, 200),
+    },
+    {
+      action: "admin: set one's own role to admin (the admin's cell sets the rider's role to rider)",
+      method: "POST",
+      path: "/admin",
+      writes: true,
+      form: async (a) => ({
+        intent: "role",
+        userId: String(await userId(srv, DEMO[a === "anonymous" || a === "admin" ? "rider" : a].email)),
+        role: a === "admin" ? "rider" : "admin",
+      }),
+      expect: cells(LOGIN, 403, 403, 403, 200),
+    },
+    {
+      action: "admin: sign someone out everywhere",
+      method: "POST",
+      path: "/admin",
+      writes: true,
+      form: async () => ({ intent: "revoke", userId: String(await bystanderId()) }),
+      expect: cells(LOGIN, 403, 403, 403, 200),
+    },
     { action: "GET /admin", method: "GET", path: "/admin", writes: false, expect: cells(LOGIN, 403, 403, 403, 200) },
     { action: "GET /garage", method: "GET", path: "/garage", writes: false, expect: cells(LOGIN, 200, 200, 200, 200) },
     { action: "GET /api/v1/me", method: "GET", path: "/api/v1/me", writes: false, expect: cells(401, 200, 200, 200, 200) },
@@ -364,12 +452,23 @@ describe("S1 role matrix: every action × every actor, enforced on the server", 
   }
 
   it("after the matrix every demo account still has its seeded role (the admin's own change went through the audit log)", async () => {
-    const rows = await query<{ email: string; role: string }>(srv, "SELECT email, role FROM users WHERE email LIKE '%@loomlore.invalid' AND email IN (?, ?, ?, ?)",
-      Object.values(DEMO).map((d) => d.email));
+    const rows = await query<{ email: string; role: string }>(
+      srv,
+      "SELECT email, role FROM users WHERE email LIKE '%@loomlore.invalid' AND email IN (?, ?, ?, ?)",
+      Object.values(DEMO).map((d) => d.email),
+    );
     const roles = Object.fromEntries(rows.map((r) => [r.email, r.role]));
     // The admin's "make oneself admin" cell demoted the rider to rider (no-op); nobody else could change a role.
-    expect(roles).toEqual({ [DEMO.rider.email]: "rider", [DEMO.contributor.email]: "contributor", [DEMO.moderator.email]: "moderator", [DEMO.admin.email]: "admin" });
-    const audits = await query<{ action: string; n: number }>(srv, "SELECT action, count(*) AS n FROM audit_log WHERE action IN ('user.role', 'user.sessions-revoked') GROUP BY action");
+    expect(roles).toEqual({
+      [DEMO.rider.email]: "rider",
+      [DEMO.contributor.email]: "contributor",
+      [DEMO.moderator.email]: "moderator",
+      [DEMO.admin.email]: "admin",
+    });
+    const audits = await query<{ action: string; n: number }>(
+      srv,
+      "SELECT action, count(*) AS n FROM audit_log WHERE action IN ('user.role', 'user.sessions-revoked') GROUP BY action",
+    );
     expect(Object.fromEntries(audits.map((a) => [a.action, a.n]))).toEqual({ "user.role": 2, "user.sessions-revoked": 1 });
   });
 });
@@ -381,7 +480,9 @@ describe("S2 IDOR: one rider's garage items are not another's to remove", () => 
     const a = sessions.rider!;
     expect((await req(srv, `/connectors/${CARD_B}`, { form: { intent: "save" }, session: a })).status).toBe(200);
     expect((await req(srv, "/garage", { form: { intent: "bike", family: FAMILY, year: "1980", label: "A's own bike" }, session: a })).status).toBe(200);
-    const aItems = (await query<{ id: number }>(srv, "SELECT g.id FROM garage_items g JOIN users u ON u.id = g.user_id WHERE u.email = ? ORDER BY g.id", [DEMO.rider.email])).map((r) => r.id);
+    const aItems = (
+      await query<{ id: number }>(srv, "SELECT g.id FROM garage_items g JOIN users u ON u.id = g.user_id WHERE u.email = ? ORDER BY g.id", [DEMO.rider.email])
+    ).map((r) => r.id);
     expect(aItems.length).toBeGreaterThanOrEqual(2);
     const [{ top }] = await query<{ top: number }>(srv, "SELECT max(id) AS top FROM garage_items");
 
@@ -424,7 +525,9 @@ describe("S3 every action guards itself: POST with no session, without visiting 
 
   it("the manifest has the account routes with actions", () => {
     const names = routes.map((r) => r.pattern);
-    expect(names).toEqual(expect.arrayContaining(["connectors/:connector", "join", "login", "logout", "verify", "forgot", "reset", "account", "garage", "admin", "api/v1/me"]));
+    expect(names).toEqual(
+      expect.arrayContaining(["connectors/:connector", "join", "login", "logout", "verify", "forgot", "reset", "account", "garage", "admin", "api/v1/me"]),
+    );
   });
 
   for (const route of routes) {
@@ -450,14 +553,29 @@ describe("S3 every action guards itself: POST with no session, without visiting 
 describe("S4 cross-site requests", () => {
   it("(a) page actions refuse a forged Origin even with a valid session cookie, and write nothing", async () => {
     const cases: { what: string; path: string; session: string | null; form: Record<string, string> }[] = [
-      { what: "report a mistake", path: `/connectors/${CARD_C}`, session: sessions.rider, form: { intent: "report", text: "Forged report from another site." } },
+      {
+        what: "report a mistake",
+        path: `/connectors/${CARD_C}`,
+        session: sessions.rider,
+        form: { intent: "report", text: "Forged report from another site." },
+      },
       { what: "mark bike-checked", path: `/connectors/${CARD_C}`, session: sessions.rider, form: { intent: "check", year: "1981" } },
       { what: "save a card", path: `/connectors/${CARD_C}`, session: sessions.rider, form: { intent: "save" } },
       { what: "add a bike", path: "/garage", session: sessions.rider, form: { intent: "bike", family: FAMILY, year: "1981", label: "forged" } },
-      { what: "change password", path: "/account", session: sessions.rider, form: { intent: "password", current: DEMO.rider.password, password: "forged-new-password-1" } },
+      {
+        what: "change password",
+        path: "/account",
+        session: sessions.rider,
+        form: { intent: "password", current: DEMO.rider.password, password: "forged-new-password-1" },
+      },
       { what: "admin makes the rider an admin", path: "/admin", session: sessions.admin, form: { intent: "role", userId: "1", role: "admin" } },
       { what: "sign in (login CSRF)", path: "/login", session: null, form: { email: DEMO.moderator.email, password: DEMO.moderator.password } },
-      { what: "join", path: "/join", session: null, form: { displayName: "Forged Join", email: "forged-join@loomlore.invalid", password: "forged-but-long-enough" } },
+      {
+        what: "join",
+        path: "/join",
+        session: null,
+        form: { displayName: "Forged Join", email: "forged-join@loomlore.invalid", password: "forged-but-long-enough" },
+      },
       { what: "forgot (mail someone)", path: "/forgot", session: null, form: { email: DEMO.contributor.email } },
       { what: "confirm an address", path: "/verify", session: null, form: { token: bystanderVerify.token } },
     ];
@@ -544,12 +662,16 @@ describe("S4 cross-site requests", () => {
         }
         seen.add(url);
       }
-      expect(await meStatus(srv, sessions[who]), `${who} is still ${who === "anonymous" ? "signed out" : "signed in"} after GET /logout`).toBe(who === "anonymous" ? 401 : 200);
+      expect(await meStatus(srv, sessions[who]), `${who} is still ${who === "anonymous" ? "signed out" : "signed in"} after GET /logout`).toBe(
+        who === "anonymous" ? 401 : 200,
+      );
     }
     expect(seen.size).toBeGreaterThan(40);
     expect(await digest(srv), "GET changed the account tables").toEqual(before);
     // The links still work once (nothing above used them up): the reset page still offers its form with the token.
-    const [tokenRow] = await query<{ used: number }>(srv, "SELECT count(*) AS used FROM tokens WHERE used_at IS NOT NULL AND user_id = ?", [await userId(srv, BYSTANDER.email)]);
+    const [tokenRow] = await query<{ used: number }>(srv, "SELECT count(*) AS used FROM tokens WHERE used_at IS NOT NULL AND user_id = ?", [
+      await userId(srv, BYSTANDER.email),
+    ]);
     expect(tokenRow.used, "no token of the bystander was used by a GET").toBe(0);
   }, 90_000);
 
@@ -572,9 +694,17 @@ describe("S5 session cookie attributes (production)", () => {
     const r = await req(srv, "/login?next=%2Faccount", { form: { email: DEMO.contributor.email, password: DEMO.contributor.password } });
     expect(r.status).toBe(302);
     const cookies = r.headers.getSetCookie();
-    expect(cookies.filter((c) => /^__Host-loomlore=/.test(c)), cookies.join(" | ")).toHaveLength(1);
+    expect(
+      cookies.filter((c) => /^__Host-loomlore=/.test(c)),
+      cookies.join(" | "),
+    ).toHaveLength(1);
     const [nameValue, ...attrs] = r.setCookie!.split(";").map((s) => s.trim());
-    const attr = new Map(attrs.map((a) => { const [k, ...v] = a.split("="); return [k.toLowerCase(), v.join("=")]; }));
+    const attr = new Map(
+      attrs.map((a) => {
+        const [k, ...v] = a.split("=");
+        return [k.toLowerCase(), v.join("=")];
+      }),
+    );
     expect(nameValue.startsWith("__Host-")).toBe(true);
     expect(attr.has("httponly")).toBe(true);
     expect(attr.has("secure")).toBe(true);
@@ -699,7 +829,10 @@ describe("S7 sign-out, password change and reset end sessions", () => {
   it("a wrong current password changes nothing and the error is beside the current-password field", async () => {
     const one = await signIn(srv, USER.email, USER.password);
     const before = await digest(srv);
-    const r = await req(srv, "/account", { form: { intent: "password", current: "not-my-password-at-all", password: "fourth-password-for-s7", signOutOthers: "on" }, session: one });
+    const r = await req(srv, "/account", {
+      form: { intent: "password", current: "not-my-password-at-all", password: "fourth-password-for-s7", signOutOthers: "on" },
+      session: one,
+    });
     expect(r.status).toBe(400);
     expect(fieldError(r.body, "current")).toMatch(/current password/i);
     expect(await digest(srv)).toEqual(before);
@@ -745,7 +878,10 @@ describe("S7 sign-out, password change and reset end sessions", () => {
 describe("S8 password storage and policy", () => {
   const values = (html: string) => {
     const d = doc(html);
-    const v = (n: string) => { const i = d.one("input", { name: n }); return i ? i.attribs.value ?? "" : null; };
+    const v = (n: string) => {
+      const i = d.one("input", { name: n });
+      return i ? (i.attribs.value ?? "") : null;
+    };
     return { email: v("email"), displayName: v("displayName"), password: v("password") };
   };
 
@@ -777,7 +913,10 @@ describe("S8 password storage and policy", () => {
   }
 
   it("stored hashes are bcrypt with cost ≥ 10 (12 here), for a seeded and a joined account", async () => {
-    const rows = await query<{ email: string; password_hash: string }>(srv, "SELECT email, password_hash FROM users WHERE email IN (?, ?)", [DEMO.rider.email, RIDER_B.email]);
+    const rows = await query<{ email: string; password_hash: string }>(srv, "SELECT email, password_hash FROM users WHERE email IN (?, ?)", [
+      DEMO.rider.email,
+      RIDER_B.email,
+    ]);
     expect(rows).toHaveLength(2);
     for (const row of rows) {
       const m = /^\$2[aby]\$(\d\d)\$[./A-Za-z0-9]{53}$/.exec(row.password_hash);
@@ -1009,7 +1148,9 @@ describe("S14 response headers and the script nonce", () => {
       expect(r.body).toContain("Something went wrong");
       const id = /Error id (?:<!-- -->)?<code>([0-9a-f]{8})<\/code>/.exec(r.body)?.[1];
       expect(id, "the page shows an error id").toBeTruthy();
-      expect(r.body, "no error text, SQL or stack on the page").not.toMatch(/SQLITE|no such table|makes_gone|SequelizeDatabaseError|\bat \S+ \(|\.(?:ts|js):\d+/);
+      expect(r.body, "no error text, SQL or stack on the page").not.toMatch(
+        /SQLITE|no such table|makes_gone|SequelizeDatabaseError|\bat \S+ \(|\.(?:ts|js):\d+/,
+      );
       await expect.poll(() => s.output(), { timeout: 5_000 }).toContain(`[error ${id}] GET /:`);
       expect(r.headers.get("content-security-policy")).toMatch(/script-src 'self' 'nonce-/);
       const other = /Error id (?:<!-- -->)?<code>([0-9a-f]{8})<\/code>/.exec((await req(s, "/")).body)?.[1];

@@ -49,7 +49,13 @@ let jpegSmall: Buffer;
 
 // ---- a counting TCP proxy ---------------------------------------------------------------------------------------
 
-interface Conn { id: number; up: number; down: number; opened: number; closed?: number }
+interface Conn {
+  id: number;
+  up: number;
+  down: number;
+  opened: number;
+  closed?: number;
+}
 const conns: Conn[] = [];
 let proxy: net.Server;
 let proxyPort: number;
@@ -83,10 +89,12 @@ function startProxy(): Promise<void> {
     client.on("close", close);
     upstream.on("close", close);
   });
-  return new Promise((resolve) => proxy.listen(0, "127.0.0.1", () => {
-    proxyPort = (proxy.address() as net.AddressInfo).port;
-    resolve();
-  }));
+  return new Promise((resolve) =>
+    proxy.listen(0, "127.0.0.1", () => {
+      proxyPort = (proxy.address() as net.AddressInfo).port;
+      resolve();
+    }),
+  );
 }
 
 // ---- raw HTTP over TCP ------------------------------------------------------------------------------------------
@@ -148,8 +156,14 @@ function raw(head: string, plan: BodyPlan, o: { port?: number; giveUpMs?: number
       const m = /^HTTP\/1\.1 (\d{3})/.exec(text);
       const split = text.indexOf("\r\n\r\n");
       resolve({
-        status: m ? Number(m[1]) : null, head: split >= 0 ? text.slice(0, split) : text, body: split >= 0 ? text.slice(split + 4) : "",
-        msToStatus, msToClose: performance.now() - t0, sent, error, conn: port === proxyPort ? conns[before] : undefined,
+        status: m ? Number(m[1]) : null,
+        head: split >= 0 ? text.slice(0, split) : text,
+        body: split >= 0 ? text.slice(split + 4) : "",
+        msToStatus,
+        msToClose: performance.now() - t0,
+        sent,
+        error,
+        conn: port === proxyPort ? conns[before] : undefined,
       });
     });
     const giveUp = setTimeout(() => s.destroy(), o.giveUpMs ?? 15_000);
@@ -166,9 +180,7 @@ function raw(head: string, plan: BodyPlan, o: { port?: number; giveUpMs?: number
       timer = null;
       if (done || s.destroyed) return;
       const burst = plan.burst ?? 0;
-      let budget = rate === Infinity ? Infinity
-        : sent < burst ? burst - sent
-        : Math.floor((rate * (performance.now() - t0)) / 1000) + burst - sent;
+      let budget = rate === Infinity ? Infinity : sent < burst ? burst - sent : Math.floor((rate * (performance.now() - t0)) / 1000) + burst - sent;
       while (budget > 0 && sent < plan.size) {
         const chunk = nextChunk(Math.min(budget, filler.length));
         sent += chunk.length;
@@ -186,7 +198,12 @@ function raw(head: string, plan: BodyPlan, o: { port?: number; giveUpMs?: number
 }
 
 function head(method: string, target: string, headers: Record<string, string | number>, port = proxyPort): string {
-  const lines = [`${method} ${target} HTTP/1.1`, `Host: 127.0.0.1:${port}`, `Origin: http://127.0.0.1:${port}`, ...Object.entries(headers).map(([k, v]) => `${k}: ${v}`)];
+  const lines = [
+    `${method} ${target} HTTP/1.1`,
+    `Host: 127.0.0.1:${port}`,
+    `Origin: http://127.0.0.1:${port}`,
+    ...Object.entries(headers).map(([k, v]) => `${k}: ${v}`),
+  ];
   return `${lines.join("\r\n")}\r\n\r\n`;
 }
 
@@ -208,7 +225,12 @@ const uploadHeaders = (length: number | "chunked") => ({
 
 /** The server's `body cut off:` log lines after `from` (for a request that declared `declared`, if given), parsed. */
 function cutOffs(from: number, declared?: number | "chunked") {
-  return [...srv.output().slice(from).matchAll(/body cut off: (\S+) (\S+) status=(\d+) read=(\d+) declared=(\S+) reason=(\S+) closed-by=(\S+) ms=(\d+)/g)]
+  return [
+    ...srv
+      .output()
+      .slice(from)
+      .matchAll(/body cut off: (\S+) (\S+) status=(\d+) read=(\d+) declared=(\S+) reason=(\S+) closed-by=(\S+) ms=(\d+)/g),
+  ]
     .map((m) => ({ method: m[1], path: m[2], status: Number(m[3]), read: Number(m[4]), declared: m[5], reason: m[6], closedBy: m[7], ms: Number(m[8]) }))
     .filter((l) => declared === undefined || l.declared === String(declared));
 }
@@ -222,7 +244,12 @@ async function waitFor<T>(what: string, get: () => T | undefined | null | false,
   }
 }
 
-const ls = (d: string) => (existsSync(d) ? readdirSync(d).filter((f) => f !== ".gitkeep").sort() : []);
+const ls = (d: string) =>
+  existsSync(d)
+    ? readdirSync(d)
+        .filter((f) => f !== ".gitkeep")
+        .sort()
+    : [];
 const tmpFiles = () => ls(path.join(uploadsDir, "tmp"));
 const photoFiles = () => ls(path.join(uploadsDir, "photos"));
 
@@ -276,7 +303,8 @@ beforeAll(async () => {
   await startProxy();
   // Noise, so the JPEG has some size (about 20 KB): a realistic first part before a trickle.
   jpegSmall = await sharp({ create: { width: 160, height: 120, channels: 3, background: "#808080", noise: { type: "gaussian", mean: 128, sigma: 60 } } })
-    .jpeg({ quality: 90 }).toBuffer();
+    .jpeg({ quality: 90 })
+    .toBuffer();
   await healthy(); // warm: the first request migrates and seeds
 }, 60_000);
 
@@ -302,7 +330,9 @@ describe("F6 oversized bodies: answered, and the server stops reading within lim
     const r = await raw(head("POST", "/api/v1/photos", { ...uploadHeaders(body.length), Connection: "close" }), { size: body.length, prefix: body });
     expect(r.status, r.head + r.body).toBe(201);
     const keepAlive = await fetch(`${srv.url}/api/v1/photos`, {
-      method: "POST", headers: { Cookie: `${COOKIE}=${session}`, Origin: srv.url }, body: (() => {
+      method: "POST",
+      headers: { Cookie: `${COOKIE}=${session}`, Origin: srv.url },
+      body: (() => {
         const f = new FormData();
         f.append("photo", new Blob([new Uint8Array(jpegSmall)], { type: "image/jpeg" }), "plug.jpg");
         f.append("consent", "yes");
@@ -320,8 +350,10 @@ describe("F6 oversized bodies: answered, and the server stops reading within lim
     const size = prefix.length + 30 * MiB;
     const r = await raw(head("POST", "/api/v1/photos", uploadHeaders(size)), { size, prefix, rate: UPLINK });
     const log = await waitFor("the cut-off log line", () => cutOffs(from, size)[0]);
-    console.log(`[F6a] status ${r.status} in ${fmt(r.msToStatus ?? NaN)}, closed after ${fmt(r.msToClose)}; proxy accepted ${r.conn!.up} B `
-      + `(${r.conn!.up - PHOTO_MAX} past the limit); server read ${log.read} B (${log.read - PHOTO_MAX} past); client wrote ${r.sent} of ${size}`);
+    console.log(
+      `[F6a] status ${r.status} in ${fmt(r.msToStatus ?? NaN)}, closed after ${fmt(r.msToClose)}; proxy accepted ${r.conn!.up} B ` +
+        `(${r.conn!.up - PHOTO_MAX} past the limit); server read ${log.read} B (${log.read - PHOTO_MAX} past); client wrote ${r.sent} of ${size}`,
+    );
     expect(r.status, `${r.error ?? ""} ${r.head}`).toBe(413);
     expect(r.head).toMatch(/\r\nConnection: close/i);
     expect(JSON.parse(r.body.slice(r.body.indexOf("{"), r.body.lastIndexOf("}") + 1)).error.code).toBe("too_large");
@@ -345,7 +377,9 @@ describe("F6 oversized bodies: answered, and the server stops reading within lim
     const size = MAX_BODY_BYTES + 10 * MiB;
     const r = await raw(head("POST", "/api/v1/photos", uploadHeaders(size)), { size, prefix: Buffer.from(partHead("photo", "huge.jpg")), rate: 20 * KiB });
     const log = await waitFor("the cut-off log line", () => cutOffs(from, size)[0]);
-    console.log(`[F6b] status ${r.status} in ${fmt(r.msToStatus ?? NaN)}, closed after ${fmt(r.msToClose)}; proxy accepted ${r.conn!.up} B, server read ${log.read} B`);
+    console.log(
+      `[F6b] status ${r.status} in ${fmt(r.msToStatus ?? NaN)}, closed after ${fmt(r.msToClose)}; proxy accepted ${r.conn!.up} B, server read ${log.read} B`,
+    );
     expect(r.status, r.head).toBe(413);
     expect(r.msToStatus!, "answered before the body is read (it would take hours at this rate)").toBeLessThan(1_000);
     expect(r.msToClose, "closed after a short linger, not held open").toBeLessThan(3_000);
@@ -356,7 +390,9 @@ describe("F6 oversized bodies: answered, and the server stops reading within lim
   it("(c) Content-Length: 1000 followed by 50 MB: no 5xx, at most ~1 MB past, the server stays healthy", async () => {
     const size = 50 * MiB;
     const r = await raw(head("POST", "/api/v1/photos", uploadHeaders(1000)), { size, prefix: Buffer.from(partHead("photo", "liar.jpg")), rate: FAST });
-    console.log(`[F6c] status ${r.status ?? "none (connection closed)"}, closed after ${fmt(r.msToClose)}; proxy accepted ${r.conn!.up} B (${r.conn!.up - 1000} past the declared 1000); ${r.error ?? ""}`);
+    console.log(
+      `[F6c] status ${r.status ?? "none (connection closed)"}, closed after ${fmt(r.msToClose)}; proxy accepted ${r.conn!.up} B (${r.conn!.up - 1000} past the declared 1000); ${r.error ?? ""}`,
+    );
     // Node's parser reads the 1000 bytes as the body and the rest as a next request, which is not HTTP: 400 and close.
     if (r.status !== null) expect([400, 413]).toContain(r.status);
     expect(r.conn!.up - 1000).toBeLessThanOrEqual(SLACK);
@@ -370,11 +406,17 @@ describe("F6 oversized bodies: answered, and the server stops reading within lim
       const from = srv.output().length;
       const size = 1_000_000;
       const prefix = Buffer.from(`email=${encodeURIComponent(DEMO.contributor.email)}&password=`);
-      const r = await raw(head("POST", "/login", {
-        "Content-Type": "application/x-www-form-urlencoded", ...(variant === "chunked" ? { "Transfer-Encoding": "chunked" } : { "Content-Length": size }),
-      }), { size, prefix, chunked: variant === "chunked", rate: UPLINK });
+      const r = await raw(
+        head("POST", "/login", {
+          "Content-Type": "application/x-www-form-urlencoded",
+          ...(variant === "chunked" ? { "Transfer-Encoding": "chunked" } : { "Content-Length": size }),
+        }),
+        { size, prefix, chunked: variant === "chunked", rate: UPLINK },
+      );
       const log = await waitFor("the cut-off log line", () => cutOffs(from, variant === "chunked" ? "chunked" : size)[0]);
-      console.log(`[F6d] /login ${variant}: status ${r.status} in ${fmt(r.msToStatus ?? NaN)}; proxy accepted ${r.conn!.up} B, server read ${log.read} B (cap ${FORM_MAX} B)`);
+      console.log(
+        `[F6d] /login ${variant}: status ${r.status} in ${fmt(r.msToStatus ?? NaN)}; proxy accepted ${r.conn!.up} B, server read ${log.read} B (cap ${FORM_MAX} B)`,
+      );
       expect(r.status, r.head).toBe(413);
       expect(r.msToStatus!).toBeLessThan(1_000);
       expect(r.head).toMatch(/content-type: text\/html/i);
@@ -385,12 +427,18 @@ describe("F6 oversized bodies: answered, and the server stops reading within lim
     it(`(d) a 1 MB JSON body to /api/v1/colour-finder (${variant}): 413 in the API's error shape`, async () => {
       const from = srv.output().length;
       const size = 1_000_000;
-      const json = Buffer.from(JSON.stringify({ wires: Array.from({ length: 80_000 }, () => "Bk/Wh") }).slice(0, size - 2) + "\"]");
-      const r = await raw(head("POST", "/api/v1/colour-finder", {
-        "Content-Type": "application/json", ...(variant === "chunked" ? { "Transfer-Encoding": "chunked" } : { "Content-Length": json.length }),
-      }), { size: json.length, prefix: json, chunked: variant === "chunked", rate: UPLINK });
+      const json = Buffer.from(JSON.stringify({ wires: Array.from({ length: 80_000 }, () => "Bk/Wh") }).slice(0, size - 2) + '"]');
+      const r = await raw(
+        head("POST", "/api/v1/colour-finder", {
+          "Content-Type": "application/json",
+          ...(variant === "chunked" ? { "Transfer-Encoding": "chunked" } : { "Content-Length": json.length }),
+        }),
+        { size: json.length, prefix: json, chunked: variant === "chunked", rate: UPLINK },
+      );
       const log = await waitFor("the cut-off log line", () => cutOffs(from, variant === "chunked" ? "chunked" : json.length)[0]);
-      console.log(`[F6d] colour-finder ${variant}: status ${r.status} in ${fmt(r.msToStatus ?? NaN)}; proxy accepted ${r.conn!.up} B, server read ${log.read} B (cap ${FORM_MAX} B)`);
+      console.log(
+        `[F6d] colour-finder ${variant}: status ${r.status} in ${fmt(r.msToStatus ?? NaN)}; proxy accepted ${r.conn!.up} B, server read ${log.read} B (cap ${FORM_MAX} B)`,
+      );
       expect(r.status, r.head).toBe(413);
       expect(r.msToStatus!).toBeLessThan(1_000);
       const bodyText = r.body.slice(r.body.indexOf("{"), r.body.lastIndexOf("}") + 1);
@@ -408,7 +456,11 @@ describe("F6 oversized bodies: answered, and the server stops reading within lim
     it(`${c.what}: answered and closed, instead of leaving the uploader blocked until keepAliveTimeout`, async () => {
       const from = srv.output().length;
       const size = 20 * MiB;
-      const r = await raw(head("POST", "/api/v1/photos", { ...uploadHeaders(size), ...c.headers }), { size, prefix: Buffer.from(partHead("photo", "early.jpg")), rate: UPLINK });
+      const r = await raw(head("POST", "/api/v1/photos", { ...uploadHeaders(size), ...c.headers }), {
+        size,
+        prefix: Buffer.from(partHead("photo", "early.jpg")),
+        rate: UPLINK,
+      });
       const log = await waitFor("the cut-off log line", () => cutOffs(from, size)[0]);
       console.log(`[F6] ${c.status} before reading: closed after ${fmt(r.msToClose)}; proxy accepted ${r.conn!.up} B, server read ${log.read} B`);
       expect(r.status, r.head).toBe(c.status);
@@ -424,7 +476,11 @@ describe("F6 oversized bodies: answered, and the server stops reading within lim
 // ---- F7 ---------------------------------------------------------------------------------------------------------
 
 describe("F7 slow uploads and slowloris", () => {
-  interface Latency { page: number; health: number; n: number }
+  interface Latency {
+    page: number;
+    health: number;
+    n: number;
+  }
   const summary = (l: { page: number[]; health: number[] }): Latency => ({ page: p975(l.page), health: p975(l.health), n: l.page.length + l.health.length });
   const show = (l: Latency) => `GET / ${fmt(l.page)}, GET /api/v1/health ${fmt(l.health)} (n=${l.n})`;
 
@@ -471,14 +527,23 @@ describe("F7 slow uploads and slowloris", () => {
       const photosBefore = photoFiles();
       let maxTmp = 0;
       const watcher = setInterval(() => (maxTmp = Math.max(maxTmp, tmpFiles().length)), 50);
-      const results = await Promise.all(Array.from({ length: 20 }, () =>
-        raw(head("POST", "/api/v1/photos", { ...uploadHeaders(size), Accept: "application/json" }, appPort), { size, prefix, burst: prefix.length, rate: 1 * KiB }, { port: appPort })));
+      const results = await Promise.all(
+        Array.from({ length: 20 }, () =>
+          raw(
+            head("POST", "/api/v1/photos", { ...uploadHeaders(size), Accept: "application/json" }, appPort),
+            { size, prefix, burst: prefix.length, rate: 1 * KiB },
+            { port: appPort },
+          ),
+        ),
+      );
       clearInterval(watcher);
       const answered = results.map((r) => r.msToStatus ?? NaN);
       const closed = results.map((r) => r.msToClose);
-      console.log(`[F7] trickling uploads: statuses ${JSON.stringify(results.map((r) => r.status))}; answered after ${fmt(Math.min(...answered))}–${fmt(Math.max(...answered))}, `
-        + `closed after ${fmt(Math.min(...closed))}–${fmt(Math.max(...closed))} `
-        + `(grace ${GRACE_MS} ms); at most ${maxTmp} files in tmp/ meanwhile`);
+      console.log(
+        `[F7] trickling uploads: statuses ${JSON.stringify(results.map((r) => r.status))}; answered after ${fmt(Math.min(...answered))}–${fmt(Math.max(...answered))}, ` +
+          `closed after ${fmt(Math.min(...closed))}–${fmt(Math.max(...closed))} ` +
+          `(grace ${GRACE_MS} ms); at most ${maxTmp} files in tmp/ meanwhile`,
+      );
       for (const r of results) {
         expect(r.status, `${r.error ?? ""} ${r.head}`).toBe(408);
         expect(JSON.parse(r.body.slice(r.body.indexOf("{"), r.body.lastIndexOf("}") + 1)).error.code).toBe("request_timeout");
@@ -507,7 +572,8 @@ describe("F7 slow uploads and slowloris", () => {
 
   it("an upload above the minimum rate, lasting past the grace period, is stored", async () => {
     const big = await sharp({ create: { width: 700, height: 500, channels: 3, background: "#808080", noise: { type: "gaussian", mean: 128, sigma: 60 } } })
-      .jpeg({ quality: 95 }).toBuffer();
+      .jpeg({ quality: 95 })
+      .toBuffer();
     const body = multipart([big]);
     const rate = 2 * MIN_BPS;
     expect(body.length / rate, "the upload lasts longer than the grace period").toBeGreaterThan(GRACE_MS / 1000);
@@ -529,17 +595,26 @@ describe("F7 slow uploads and slowloris", () => {
         s.on("error", () => {});
         s.write(text.slice(0, 16)); // the request line, then a byte at a time
         i = 16;
-        const drip = setInterval(() => { if (!s.destroyed) s.write(i < text.length ? text[i++] : "a"); }, Math.round(HEADERS_TIMEOUT_MS / 2.5));
-        return new Promise<{ ms: number; got: string }>((resolve) => s.on("close", () => {
-          clearInterval(drip);
-          resolve({ ms: performance.now() - t0, got });
-        }));
+        const drip = setInterval(
+          () => {
+            if (!s.destroyed) s.write(i < text.length ? text[i++] : "a");
+          },
+          Math.round(HEADERS_TIMEOUT_MS / 2.5),
+        );
+        return new Promise<{ ms: number; got: string }>((resolve) =>
+          s.on("close", () => {
+            clearInterval(drip);
+            resolve({ ms: performance.now() - t0, got });
+          }),
+        );
       });
       return Promise.all(sockets);
     });
     const ms = results.map((r) => r.ms);
-    console.log(`[F7] slowloris: 200 sockets closed after ${fmt(Math.min(...ms))}–${fmt(Math.max(...ms))} (headersTimeout ${HEADERS_TIMEOUT_MS} ms, `
-      + `checked every ${CHECK_MS} ms); ${results.filter((r) => r.got.startsWith("HTTP/1.1 408")).length} got a 408`);
+    console.log(
+      `[F7] slowloris: 200 sockets closed after ${fmt(Math.min(...ms))}–${fmt(Math.max(...ms))} (headersTimeout ${HEADERS_TIMEOUT_MS} ms, ` +
+        `checked every ${CHECK_MS} ms); ${results.filter((r) => r.got.startsWith("HTTP/1.1 408")).length} got a 408`,
+    );
     for (const r of results) {
       expect(r.ms, "closed by headersTimeout, not earlier").toBeGreaterThanOrEqual(HEADERS_TIMEOUT_MS - 50);
       expect(r.ms, "closed within headersTimeout plus a check interval (and scheduling slack)").toBeLessThan(HEADERS_TIMEOUT_MS + 2 * CHECK_MS + 1_000);

@@ -14,13 +14,19 @@ function run(env: Record<string, string>): Promise<{ code: number | null; out: s
   const dir = mkdtempSync(path.join(tmpdir(), "loomlore-startup-"));
   return new Promise((resolve) => {
     const child = spawn(process.execPath, ["--import", "tsx", path.join(root, "app/serve.server.ts")], {
-      cwd: root, env: { ...process.env, NODE_ENV: "production", PORT: "0", DB_PATH: path.join(dir, "t.sqlite"), UPLOADS_DIR: path.join(dir, "up"), ...env }, stdio: ["ignore", "pipe", "pipe"],
+      cwd: root,
+      env: { ...process.env, NODE_ENV: "production", PORT: "0", DB_PATH: path.join(dir, "t.sqlite"), UPLOADS_DIR: path.join(dir, "up"), ...env },
+      stdio: ["ignore", "pipe", "pipe"],
     });
     let out = "";
     child.stdout.on("data", (d) => (out += d));
     child.stderr.on("data", (d) => (out += d));
     const timer = setTimeout(() => child.kill("SIGKILL"), 30_000);
-    child.on("exit", (code) => { clearTimeout(timer); rmSync(dir, { recursive: true, force: true }); resolve({ code, out }); });
+    child.on("exit", (code) => {
+      clearTimeout(timer);
+      rmSync(dir, { recursive: true, force: true });
+      resolve({ code, out });
+    });
   });
 }
 

@@ -22,7 +22,13 @@ beforeAll(async () => {
 afterAll(async () => srv?.stop());
 
 const json = (r: { body: string }) => JSON.parse(r.body);
-type Sub = { id: number; version: number; state: string; content: { pins: { cavity: string; code: string | null; circuit: string; terminal: string | null }[]; notes: string; name: string }; problems: unknown[] };
+type Sub = {
+  id: number;
+  version: number;
+  state: string;
+  content: { pins: { cavity: string; code: string | null; circuit: string; terminal: string | null }[]; notes: string; name: string };
+  problems: unknown[];
+};
 
 async function start(session: string, body: unknown) {
   const r = await req(srv, "/api/v1/submissions", { json: body, session });
@@ -41,7 +47,9 @@ describe("guards", () => {
   it("another contributor's draft is a 404, for reading and for writing; moderators may read it", async () => {
     const { s } = await start(sessions.contributor, { connector: CARD });
     expect((await req(srv, `/api/v1/submissions/${s!.id}`, { session: sessions.rider })).status).toBe(404);
-    expect((await req(srv, `/api/v1/submissions/${s!.id}`, { method: "PATCH", json: { version: 1, summary: "x" }, session: sessions.moderator })).status).toBe(404);
+    expect((await req(srv, `/api/v1/submissions/${s!.id}`, { method: "PATCH", json: { version: 1, summary: "x" }, session: sessions.moderator })).status).toBe(
+      404,
+    );
     expect((await req(srv, `/api/v1/submissions/${s!.id}`, { session: sessions.moderator })).status).toBe(200);
     expect((await req(srv, `/submissions/${s!.id}`, { session: sessions.rider })).status).toBe(404);
     expect((await req(srv, "/api/v1/submissions/999999", { session: sessions.contributor })).status).toBe(404);
@@ -57,12 +65,20 @@ describe("guards", () => {
   });
 
   it("bad bodies are 400/415, never 500", async () => {
-    for (const body of [{}, { connector: "Not A Slug" }, { connector: CARD, family: "rx750-four" }, { family: "rx750-four", content: { pins: "x" } }, { familyRequest: { make: "asagiri" } }]) {
+    for (const body of [
+      {},
+      { connector: "Not A Slug" },
+      { connector: CARD, family: "rx750-four" },
+      { family: "rx750-four", content: { pins: "x" } },
+      { familyRequest: { make: "asagiri" } },
+    ]) {
       const r = await req(srv, "/api/v1/submissions", { json: body, session: sessions.contributor });
       expect(r.status, JSON.stringify(body)).toBe(400);
       expect(json(r).error.code).toBe("bad_request");
     }
-    expect((await req(srv, "/api/v1/submissions", { method: "POST", headers: { "Content-Type": "text/plain" }, session: sessions.contributor })).status).toBe(415);
+    expect((await req(srv, "/api/v1/submissions", { method: "POST", headers: { "Content-Type": "text/plain" }, session: sessions.contributor })).status).toBe(
+      415,
+    );
     expect((await start(sessions.contributor, { family: "no-such-family" })).r.status).toBe(404);
   });
 });
@@ -70,15 +86,26 @@ describe("guards", () => {
 describe("S2: a draft's photos", () => {
   it("are served to their author and moderators only; anyone else gets 404; served photos are inert images", async () => {
     const { s } = await start(sessions.contributor, { connector: CARD });
-    const jpeg = await sharp({ create: { width: 64, height: 48, channels: 3, background: "#808080" } }).jpeg().toBuffer();
+    const jpeg = await sharp({ create: { width: 64, height: 48, channels: 3, background: "#808080" } })
+      .jpeg()
+      .toBuffer();
     const form = new FormData();
     form.append("photo", new Blob([new Uint8Array(jpeg)], { type: "image/jpeg" }), "p.jpg");
     form.append("consent", "yes");
     form.append("submission", String(s!.id));
-    const up = await fetch(`${srv.url}/api/v1/photos`, { method: "POST", body: form, headers: { Cookie: `${COOKIE}=${sessions.contributor}`, Origin: srv.url } });
+    const up = await fetch(`${srv.url}/api/v1/photos`, {
+      method: "POST",
+      body: form,
+      headers: { Cookie: `${COOKIE}=${sessions.contributor}`, Origin: srv.url },
+    });
     expect(up.status, await up.clone().text()).toBe(201);
     const { photo } = (await up.json()) as { photo: { id: string; url: string; thumbUrl: string } };
-    for (const [who, status] of [[null, 404], [sessions.rider, 404], [sessions.contributor, 200], [sessions.moderator, 200]] as const) {
+    for (const [who, status] of [
+      [null, 404],
+      [sessions.rider, 404],
+      [sessions.contributor, 200],
+      [sessions.moderator, 200],
+    ] as const) {
       const r = await req(srv, photo.url, { session: who });
       expect(r.status, `${photo.url} as ${who ? "signed in" : "anonymous"}`).toBe(status);
       if (status === 200) {
@@ -90,16 +117,30 @@ describe("S2: a draft's photos", () => {
     }
     expect((await req(srv, "/uploads/photos/" + photo.id + ".webp")).status).toBe(404); // no route serves the raw directory
     // The draft lists it, with a bumped version.
-    expect(json(await req(srv, `/api/v1/submissions/${s!.id}`, { session: sessions.contributor })).submission.content.photos).toEqual([expect.objectContaining({ id: photo.id })]);
+    expect(json(await req(srv, `/api/v1/submissions/${s!.id}`, { session: sessions.contributor })).submission.content.photos).toEqual([
+      expect.objectContaining({ id: photo.id }),
+    ]);
   });
 });
 
 describe("S13: mass assignment", () => {
   it("extra fields (state, authorId, role, version, bikeCheckedCount) are ignored", async () => {
-    const { r, s } = await start(sessions.contributor, { connector: CARD, state: "published", authorId: 1, role: "admin", version: 999, bikeCheckedCount: 1000, idempotencyKey: "mass-assign-1" });
+    const { r, s } = await start(sessions.contributor, {
+      connector: CARD,
+      state: "published",
+      authorId: 1,
+      role: "admin",
+      version: 999,
+      bikeCheckedCount: 1000,
+      idempotencyKey: "mass-assign-1",
+    });
     expect(r.status, where(r)).toBe(201);
     expect(s).toMatchObject({ state: "draft", version: 1 });
-    const u = await req(srv, `/api/v1/submissions/${s!.id}`, { method: "PATCH", json: { version: 1, state: "published", authorId: 1, publishedRevision: 9, decidedBy: 1, summary: "only this" }, session: sessions.contributor });
+    const u = await req(srv, `/api/v1/submissions/${s!.id}`, {
+      method: "PATCH",
+      json: { version: 1, state: "published", authorId: 1, publishedRevision: 9, decidedBy: 1, summary: "only this" },
+      session: sessions.contributor,
+    });
     expect(u.status, where(u)).toBe(200);
     expect(json(u).submission).toMatchObject({ state: "draft", version: 2, summary: "only this", author: { displayName: DEMO.contributor.displayName } });
   });
@@ -108,7 +149,9 @@ describe("S13: mass assignment", () => {
 describe("optimistic locking and double submit", () => {
   it("a stale version is a 409 with the current state and version, and changes nothing", async () => {
     const { s } = await start(sessions.contributor, { connector: CARD });
-    expect((await req(srv, `/api/v1/submissions/${s!.id}`, { method: "PATCH", json: { version: 1, summary: "first" }, session: sessions.contributor })).status).toBe(200);
+    expect(
+      (await req(srv, `/api/v1/submissions/${s!.id}`, { method: "PATCH", json: { version: 1, summary: "first" }, session: sessions.contributor })).status,
+    ).toBe(200);
     const digest = await stateDigest(srv.dbPath);
     const r = await req(srv, `/api/v1/submissions/${s!.id}`, { method: "PATCH", json: { version: 1, summary: "second" }, session: sessions.contributor });
     expect(r.status).toBe(409);
@@ -126,10 +169,17 @@ describe("optimistic locking and double submit", () => {
 
 describe("S10 and the whole loop: submit → return with a question → answer → approve", () => {
   const XSS = [
-    "<script>alert(1)</script>", "<img src=x onerror=alert(1)>", "[x](javascript:alert(1))", "<a href=\"&#106;avascript:alert(1)\">j</a>",
-    "<svg><foreignObject><script>alert(1)</script></foreignObject></svg>", "<iframe srcdoc=\"<script>alert(1)</script>\"></iframe>",
-    "<form action=\"javascript:alert(1)\"><button formaction=\"javascript:alert(1)\">go</button></form>", "[d](data:text/html;base64,PHNjcmlwdD5hbGVydCgxKTwvc2NyaXB0Pg==)",
-    "<a href=\"https://example.org\" target=\"_blank\">ok link</a>", "<style>body{display:none}</style>", "<object data=x></object><embed src=x>",
+    "<script>alert(1)</script>",
+    "<img src=x onerror=alert(1)>",
+    "[x](javascript:alert(1))",
+    '<a href="&#106;avascript:alert(1)">j</a>',
+    "<svg><foreignObject><script>alert(1)</script></foreignObject></svg>",
+    '<iframe srcdoc="<script>alert(1)</script>"></iframe>',
+    '<form action="javascript:alert(1)"><button formaction="javascript:alert(1)">go</button></form>',
+    "[d](data:text/html;base64,PHNjcmlwdD5hbGVydCgxKTwvc2NyaXB0Pg==)",
+    '<a href="https://example.org" target="_blank">ok link</a>',
+    "<style>body{display:none}</style>",
+    "<object data=x></object><embed src=x>",
   ]; // OWASP XSS Filter Evasion Cheat Sheet payloads (../shared/REFERENCE-FACTS.md §7.1)
 
   it("publishes the new revision, renders every payload inert, and both outcome mails reach the stand-in", async () => {
@@ -137,22 +187,40 @@ describe("S10 and the whole loop: submit → return with a question → answer �
     const content = structuredClone(s!.content);
     content.notes = XSS.join("\n\n");
     content.pins[1].circuit = "<script>alert('circuit')</script>";
-    content.pins[2].circuit = "\"><img src=x onerror=alert(2)>";
-    let r = await req(srv, `/api/v1/submissions/${s!.id}`, { method: "PATCH", json: { version: s!.version, content, sourceKind: "traced", sourceDetail: "On my 1979 bike", summary: "Circuit names", action: "submit" }, session: sessions.contributor });
+    content.pins[2].circuit = '"><img src=x onerror=alert(2)>';
+    let r = await req(srv, `/api/v1/submissions/${s!.id}`, {
+      method: "PATCH",
+      json: { version: s!.version, content, sourceKind: "traced", sourceDetail: "On my 1979 bike", summary: "Circuit names", action: "submit" },
+      session: sessions.contributor,
+    });
     expect(r.status, where(r)).toBe(200);
     let sub = json(r).submission as Sub;
     expect(sub.state).toBe("in_review");
 
     r = await req(srv, `/api/v1/submissions/${sub.id}/review`, { json: { version: sub.version, decision: "return" }, session: sessions.moderator });
     expect(r.status, "a return needs a question").toBe(400);
-    r = await req(srv, `/api/v1/submissions/${sub.id}/review`, { json: { version: sub.version, decision: "return", message: "Which year did you trace?" }, session: sessions.moderator });
+    r = await req(srv, `/api/v1/submissions/${sub.id}/review`, {
+      json: { version: sub.version, decision: "return", message: "Which year did you trace?" },
+      session: sessions.moderator,
+    });
     expect(r.status, where(r)).toBe(200);
     sub = json(r).submission;
     expect(sub.state).toBe("returned");
     // The loser of a race: the same version again is a 409.
-    expect((await req(srv, `/api/v1/submissions/${sub.id}/review`, { json: { version: sub.version - 1, decision: "decline", message: "late" }, session: sessions.admin })).status).toBe(409);
+    expect(
+      (
+        await req(srv, `/api/v1/submissions/${sub.id}/review`, {
+          json: { version: sub.version - 1, decision: "decline", message: "late" },
+          session: sessions.admin,
+        })
+      ).status,
+    ).toBe(409);
 
-    r = await req(srv, `/api/v1/submissions/${sub.id}`, { method: "PATCH", json: { version: sub.version, action: "submit", answer: "A 1979 bike." }, session: sessions.contributor });
+    r = await req(srv, `/api/v1/submissions/${sub.id}`, {
+      method: "PATCH",
+      json: { version: sub.version, action: "submit", answer: "A 1979 bike." },
+      session: sessions.contributor,
+    });
     expect(r.status, where(r)).toBe(200);
     sub = json(r).submission;
     expect(sub.state).toBe("in_review");
@@ -169,7 +237,12 @@ describe("S10 and the whole loop: submit → return with a question → answer �
     expect(page.status).toBe(200);
     const nodes = parseDocument(page.body).children;
     const main = DomUtils.findOne((e) => e.name === "main", nodes)!;
-    const bad = DomUtils.findAll((e) => ["script", "iframe", "object", "embed", "form", "style"].includes(e.name) || (e.name === "svg" && !e.attribs["aria-label"] && !e.attribs.role && !e.attribs["aria-hidden"]), [main]);
+    const bad = DomUtils.findAll(
+      (e) =>
+        ["script", "iframe", "object", "embed", "form", "style"].includes(e.name) ||
+        (e.name === "svg" && !e.attribs["aria-label"] && !e.attribs.role && !e.attribs["aria-hidden"]),
+      [main],
+    );
     expect(bad.filter((e) => e.name !== "svg").map((e) => e.name)).toEqual([]);
     const notes = DomUtils.findOne((e) => e.attribs.class?.includes("prose") ?? false, [main])!;
     expect(DomUtils.findAll((e) => e.name === "svg", [notes])).toEqual([]);
@@ -179,7 +252,8 @@ describe("S10 and the whole loop: submit → return with a question → answer �
         if (k === "href" || k === "src" || k === "action" || k === "formaction") expect(v, `${el.name} ${k}=${v}`).toMatch(/^(https?:|mailto:|\/|#|\?|[^:]*$)/);
       }
     }
-    for (const a of DomUtils.findAll((e) => e.name === "a" && e.attribs.href?.startsWith("https://example.org"), [notes])) expect(a.attribs.rel).toMatch(/noopener/);
+    for (const a of DomUtils.findAll((e) => e.name === "a" && e.attribs.href?.startsWith("https://example.org"), [notes]))
+      expect(a.attribs.rel).toMatch(/noopener/);
     expect(page.body).toContain("&lt;script&gt;alert(&#x27;circuit&#x27;)&lt;/script&gt;");
 
     // Both outcome mails (returned, then published) reach the stand-in.
@@ -191,12 +265,26 @@ describe("S10 and the whole loop: submit → return with a question → answer �
       if (subjects.some((x) => /published/i.test(x)) && subjects.some((x) => /needs another look/i.test(x))) break;
       await new Promise((ok) => setTimeout(ok, 250));
     }
-    expect(subjects.filter((x) => /published/i.test(x)), subjects.join(" | ")).toHaveLength(1);
+    expect(
+      subjects.filter((x) => /published/i.test(x)),
+      subjects.join(" | "),
+    ).toHaveLength(1);
   }, 60_000);
 });
 
 describe("spec conditions end to end: contribute → review diff → publish → card page, JSON and bench sheet", () => {
-  type Spec = { name: string; min: number; max: number | null; unit: string; between: [string, string]; atC: number; source: string; conditions: string; kind: string; material: string | null };
+  type Spec = {
+    name: string;
+    min: number;
+    max: number | null;
+    unit: string;
+    between: [string, string];
+    atC: number;
+    source: string;
+    conditions: string;
+    kind: string;
+    material: string | null;
+  };
   type El = ReturnType<typeof DomUtils.findAll>[number];
   const dom = (html: string) => {
     const nodes = parseDocument(html).children;
@@ -207,8 +295,15 @@ describe("spec conditions end to end: contribute → review diff → publish →
   // Invented demo conditions, not the demo data's own texts (those are rewritten separately).
   const CONDITIONS = "Ignition off, plug apart, across the two cavities of the part's side, meter on the 2 kΩ range";
   const INSULATION: Omit<Spec, "between"> = {
-    name: "Winding to engine (insulation)", min: 1, max: null, unit: "MΩ", atC: 20, source: "Measured with a meter",
-    conditions: "Ignition off, plug apart, both cavities joined, to bare metal of the engine, meter on its top range", kind: "insulation", material: null,
+    name: "Winding to engine (insulation)",
+    min: 1,
+    max: null,
+    unit: "MΩ",
+    atC: 20,
+    source: "Measured with a meter",
+    conditions: "Ignition off, plug apart, both cavities joined, to bare metal of the engine, meter on its top range",
+    kind: "insulation",
+    material: null,
   };
 
   it("a spec without conditions cannot be sent for review; with them it publishes and every view carries them", async () => {
@@ -217,7 +312,10 @@ describe("spec conditions end to end: contribute → review diff → publish →
     let slug = "";
     for (const c of familyBody.systems.flatMap((x) => x.connectors)) {
       if (c.slug === CARD) continue;
-      if ((json(await req(srv, `/api/v1/connectors/${c.slug}`)).connector.specs as Spec[]).length) { slug = c.slug; break; }
+      if ((json(await req(srv, `/api/v1/connectors/${c.slug}`)).connector.specs as Spec[]).length) {
+        slug = c.slug;
+        break;
+      }
     }
     expect(slug, "a demo card with a spec").not.toBe("");
 
@@ -227,7 +325,11 @@ describe("spec conditions end to end: contribute → review diff → publish →
     const first = content.specs[0];
     // Changed, but no conditions stated: a clear field error names it.
     content.specs[0] = { ...first, min: first.min + 1, conditions: "" };
-    let r = await req(srv, `/api/v1/submissions/${s!.id}`, { method: "PATCH", json: { version: s!.version, content, sourceKind: "measured", sourceDetail: "", summary: "Measuring conditions", action: "submit" }, session: sessions.contributor });
+    let r = await req(srv, `/api/v1/submissions/${s!.id}`, {
+      method: "PATCH",
+      json: { version: s!.version, content, sourceKind: "measured", sourceDetail: "", summary: "Measuring conditions", action: "submit" },
+      session: sessions.contributor,
+    });
     expect(r.status, where(r)).toBe(400);
     expect(json(r).error.field).toBe("specs.0.conditions");
     expect(json(r).error.problems.map((p: { field: string }) => p.field)).toContain("specs.0.conditions");
@@ -237,7 +339,11 @@ describe("spec conditions end to end: contribute → review diff → publish →
     content.specs[0] = { ...first, conditions: CONDITIONS, material };
     content.specs.push({ ...INSULATION, between: first.between });
     const version = json(await req(srv, `/api/v1/submissions/${s!.id}`, { session: sessions.contributor })).submission.version;
-    r = await req(srv, `/api/v1/submissions/${s!.id}`, { method: "PATCH", json: { version, content, sourceKind: "measured", summary: "Measuring conditions", action: "submit" }, session: sessions.contributor });
+    r = await req(srv, `/api/v1/submissions/${s!.id}`, {
+      method: "PATCH",
+      json: { version, content, sourceKind: "measured", summary: "Measuring conditions", action: "submit" },
+      session: sessions.contributor,
+    });
     expect(r.status, where(r)).toBe(200);
     const sub = json(r).submission as { id: number; version: number; state: string; diff: { specs: { change: string; fields: string[] }[] } };
     expect(sub.state).toBe("in_review");

@@ -41,15 +41,24 @@ beforeAll(async () => {
   checkLibrary = (await import("../../db/check.ts")).checkLibrary;
   svc = await import("../../app/services/submissions.server");
   const user = async (email: string, role: "contributor" | "moderator") => {
-    const u = await m.User.findOne({ where: { email } }) ?? await m.User.create({
-      email, displayName: email.split("@")[0], passwordHash: "x", role, emailVerifiedAt: new Date(), passwordChangedAt: new Date(), createdAt: new Date(), disabledAt: null,
-    });
+    const u =
+      (await m.User.findOne({ where: { email } })) ??
+      (await m.User.create({
+        email,
+        displayName: email.split("@")[0],
+        passwordHash: "x",
+        role,
+        emailVerifiedAt: new Date(),
+        passwordChangedAt: new Date(),
+        createdAt: new Date(),
+        disabledAt: null,
+      }));
     return { id: u.id, role: u.role as typeof role };
   };
-  contributor = await user("contributor@loomlore.invalid", "contributor") as typeof contributor;
-  other = await user("second-contributor@loomlore.invalid", "contributor") as typeof other;
-  modA = await user("moderator@loomlore.invalid", "moderator") as typeof modA;
-  modB = await user("second-moderator@loomlore.invalid", "moderator") as typeof modB;
+  contributor = (await user("contributor@loomlore.invalid", "contributor")) as typeof contributor;
+  other = (await user("second-contributor@loomlore.invalid", "contributor")) as typeof other;
+  modA = (await user("moderator@loomlore.invalid", "moderator")) as typeof modA;
+  modB = (await user("second-moderator@loomlore.invalid", "moderator")) as typeof modB;
 }, 60_000);
 
 afterAll(async () => {
@@ -63,7 +72,14 @@ async function editInReview(change: (c: import("../../app/domain/submissions").C
   const v = (await svc.viewSubmission(contributor, id))!;
   const content = structuredClone(v.content);
   change(content);
-  await svc.updateSubmission(contributor, id, { version: v.version, content, sourceKind: "traced", sourceDetail: "Traced on a 1979 bike.", summary: "Test edit.", action: "submit" });
+  await svc.updateSubmission(contributor, id, {
+    version: v.version,
+    content,
+    sourceKind: "traced",
+    sourceDetail: "Traced on a 1979 bike.",
+    summary: "Test edit.",
+    action: "submit",
+  });
   const after = (await svc.viewSubmission(contributor, id))!;
   expect(after.state).toBe("in_review");
   return { id, version: after.version };
@@ -85,7 +101,9 @@ describe("the way through review", () => {
 
   it("approving a corrected colour publishes a revision; the colour follows the wire to its far end and the loom check stays clean", async () => {
     const before = await m.Connector.findOne({ where: { slug: CARD } });
-    const { id, version } = await editInReview((c) => { c.pins.find((p) => p.cavity === "1")!.code = "L/W"; });
+    const { id, version } = await editInReview((c) => {
+      c.pins.find((p) => p.cavity === "1")!.code = "L/W";
+    });
     const v = (await svc.viewSubmission(modA, id))!;
     expect(v.diff.pins.find((r) => r.cavity === "1")).toMatchObject({ change: "changed", fields: ["code"] });
     const out = await svc.decide(modA, id, { version, decision: "approve", message: "" });
@@ -111,7 +129,9 @@ describe("the way through review", () => {
   });
 
   it("return with a question → the contributor answers and resubmits → approve", async () => {
-    const { id, version } = await editInReview((c) => { c.notes = "The plug body is **grey** on early bikes."; });
+    const { id, version } = await editInReview((c) => {
+      c.notes = "The plug body is **grey** on early bikes.";
+    });
     const r = await svc.decide(modA, id, { version, decision: "return", message: "Which years have the grey body?" });
     expect(r.state).toBe("returned");
     const v = (await svc.viewSubmission(contributor, id))!;
@@ -125,7 +145,9 @@ describe("the way through review", () => {
   });
 
   it("declining needs nothing published and is final", async () => {
-    const { id, version } = await editInReview((c) => { c.location = "Under the tank"; });
+    const { id, version } = await editInReview((c) => {
+      c.location = "Under the tank";
+    });
     const card = await m.Connector.findOne({ where: { slug: CARD } });
     await svc.decide(modA, id, { version, decision: "decline", message: "The card already says so." });
     expect((await m.Connector.findOne({ where: { slug: CARD } }))!.revision).toBe(card!.revision);
@@ -142,8 +164,12 @@ describe("the way through review", () => {
   });
 
   it("an edit begun before another was published is refused on approval (no lost update)", async () => {
-    const first = await editInReview((c) => { c.housing = "4-way, grey"; });
-    const second = await editInReview((c) => { c.housing = "4-way, black"; });
+    const first = await editInReview((c) => {
+      c.housing = "4-way, grey";
+    });
+    const second = await editInReview((c) => {
+      c.housing = "4-way, black";
+    });
     await svc.decide(modA, first.id, { version: first.version, decision: "approve", message: "" });
     expect((await svc.viewSubmission(modA, second.id))!.stale).toBe(true);
     await expect(svc.decide(modA, second.id, { version: second.version, decision: "approve", message: "" })).rejects.toMatchObject({ status: 409 });
@@ -152,12 +178,31 @@ describe("the way through review", () => {
 
   it("a new card with a family request publishes the family and the card together", async () => {
     const { id } = await svc.startSubmission(contributor, {
-      familyRequest: { make: "asagiri", name: "RX250 Twin", modelRange: "RX250", yearFrom: 1976, yearTo: 1980, engine: "parallel twin", cylinders: 2, displacementCc: 250, firingOrder: "1-2", ignition: "points" },
+      familyRequest: {
+        make: "asagiri",
+        name: "RX250 Twin",
+        modelRange: "RX250",
+        yearFrom: 1976,
+        yearTo: 1980,
+        engine: "parallel twin",
+        cylinders: 2,
+        displacementCc: 250,
+        firingOrder: "1-2",
+        ignition: "points",
+      },
     });
     const v = (await svc.viewSubmission(contributor, id))!;
     const content = {
-      ...v.content, name: "Points plug", location: "Under the seat", housing: "2-way", gender: "socket" as const, system: "ignition",
-      pins: [{ cavity: "1", code: "B", circuit: "Points feed", terminal: "1", goesTo: null }, { cavity: "2", code: "G", circuit: "Earth", terminal: "31", goesTo: null }],
+      ...v.content,
+      name: "Points plug",
+      location: "Under the seat",
+      housing: "2-way",
+      gender: "socket" as const,
+      system: "ignition",
+      pins: [
+        { cavity: "1", code: "B", circuit: "Points feed", terminal: "1", goesTo: null },
+        { cavity: "2", code: "G", circuit: "Earth", terminal: "31", goesTo: null },
+      ],
     };
     await svc.updateSubmission(contributor, id, { version: v.version, content, sourceKind: "manual", sourceDetail: "Service manual p. 7-3", action: "submit" });
     const w = (await svc.viewSubmission(modA, id))!;
@@ -210,8 +255,10 @@ describe("D3: two moderators on one item", () => {
     const rnd = mulberry32(3);
     for (let i = 0; i < 100; i++) {
       const approveRace = i % 10 === 0; // every tenth race includes a publish; the rest return vs decline
-      const { id, version } = await editInReview((c) => { c.notes = `Race ${i}.`; });
-      const a = approveRace ? "approve" as const : "return" as const;
+      const { id, version } = await editInReview((c) => {
+        c.notes = `Race ${i}.`;
+      });
+      const a = approveRace ? ("approve" as const) : ("return" as const);
       const delay = (ms: number) => new Promise((r) => setTimeout(r, ms));
       const [ra, rb] = await Promise.allSettled([
         delay(Math.floor(rnd() * 5)).then(() => svc.decide(modA, id, { version, decision: a, message: "Question A?" })),
@@ -221,7 +268,9 @@ describe("D3: two moderators on one item", () => {
       expect(won, `race ${i}`).toHaveLength(1);
       const lost = [ra, rb].find((r) => r.status === "rejected") as PromiseRejectedResult;
       expect(lost.reason).toMatchObject({ status: 409, current: { version: version + 1 } });
-      expect(await m.AuditLog.count({ where: { subjectType: "submission", subjectId: String(id), action: ["review.approve", "review.return", "review.decline"] } })).toBe(1);
+      expect(
+        await m.AuditLog.count({ where: { subjectType: "submission", subjectId: String(id), action: ["review.approve", "review.return", "review.decline"] } }),
+      ).toBe(1);
       expect(await count(`SELECT COUNT(*) AS n FROM mail_outbox WHERE text LIKE '%/submissions/${id}%'`)).toBe(1);
       const s = await m.Submission.findByPk(id);
       expect(s!.version).toBe(version + 1);
@@ -233,9 +282,13 @@ describe("D3: two moderators on one item", () => {
 describe("D4: a decision is all or nothing", () => {
   for (const point of ["submission", "card", "revision", "message", "audit", "outbox", "index"] as const) {
     it(`a failure after the ${point} write leaves the database exactly as it was`, async () => {
-      const { id, version } = await editInReview((c) => { c.pins.find((p) => p.cavity === "2")!.circuit = `Pickup (${point})`; });
+      const { id, version } = await editInReview((c) => {
+        c.pins.find((p) => p.cavity === "2")!.circuit = `Pickup (${point})`;
+      });
       const digest = await stateDigest(dbPath);
-      svc.setDecisionFaultHook((p) => { if (p === point) throw new Error(`injected after ${p}`); });
+      svc.setDecisionFaultHook((p) => {
+        if (p === point) throw new Error(`injected after ${p}`);
+      });
       try {
         await expect(svc.decide(modA, id, { version, decision: "approve", message: "Publishing." })).rejects.toThrow(`injected after ${point}`);
       } finally {
@@ -251,7 +304,13 @@ describe("D4: a decision is all or nothing", () => {
 describe("mistake reports in the queue", () => {
   it("an open report is a queue item; closing it is audited and a second close is a 409", async () => {
     const card = await m.Connector.findOne({ where: { slug: CARD } });
-    const r = await m.MistakeReport.create({ userId: other.id, connectorId: card!.id, revision: card!.revision, text: "Cavity 3 is violet on mine.", createdAt: new Date() });
+    const r = await m.MistakeReport.create({
+      userId: other.id,
+      connectorId: card!.id,
+      revision: card!.revision,
+      text: "Cavity 3 is violet on mine.",
+      createdAt: new Date(),
+    });
     const queue = await svc.reviewQueue({ family: FAMILY });
     expect(queue.items.some((it) => it.key === `report-${r.id}`)).toBe(true);
     await svc.closeReport(modA, r.id, "dismissed", "Checked two bikes: it is pink.");
@@ -264,7 +323,9 @@ describe("mistake reports in the queue", () => {
     const { items } = await svc.reviewQueue({});
     const times = items.map((it) => it.at);
     expect([...times].sort()).toEqual(times);
-    expect((await svc.reviewQueue({ family: "marquis-500" })).items.every((it) => (it.submission?.family?.slug ?? it.report?.family.slug) === "marquis-500")).toBe(true);
+    expect(
+      (await svc.reviewQueue({ family: "marquis-500" })).items.every((it) => (it.submission?.family?.slug ?? it.report?.family.slug) === "marquis-500"),
+    ).toBe(true);
   });
 });
 
@@ -284,7 +345,14 @@ describe("spec conditions, kind, material and an open maximum through publishing
     const v = (await svc.viewSubmission(contributor, id))!;
     const content = structuredClone(v.content);
     change(content);
-    await svc.updateSubmission(contributor, id, { version: v.version, content, sourceKind: "measured", sourceDetail: "", summary: "Conditions.", action: "submit" });
+    await svc.updateSubmission(contributor, id, {
+      version: v.version,
+      content,
+      sourceKind: "measured",
+      sourceDetail: "",
+      summary: "Conditions.",
+      action: "submit",
+    });
     const after = (await svc.viewSubmission(contributor, id))!;
     expect(after.state).toBe("in_review");
     return { id, version: after.version };
@@ -296,8 +364,10 @@ describe("spec conditions, kind, material and an open maximum through publishing
     expect(v.content.specs.length).toBeGreaterThan(0);
     const content = structuredClone(v.content);
     content.specs[0] = { ...content.specs[0], min: content.specs[0].min + 1, conditions: "" };
-    await expect(svc.updateSubmission(contributor, id, { version: v.version, content, sourceKind: "measured", action: "submit" }))
-      .rejects.toMatchObject({ status: 400, field: "specs.0.conditions" });
+    await expect(svc.updateSubmission(contributor, id, { version: v.version, content, sourceKind: "measured", action: "submit" })).rejects.toMatchObject({
+      status: 400,
+      field: "specs.0.conditions",
+    });
   });
 
   it("publishing writes them to the card's spec rows and its revision snapshot", async () => {
@@ -307,8 +377,18 @@ describe("spec conditions, kind, material and an open maximum through publishing
     const { id, version } = await inReview(slug, (c) => {
       material = c.specs[0].material === "copper" ? "other" : "copper";
       c.specs[0] = { ...c.specs[0], conditions: CONDITIONS, material };
-      c.specs.push({ name: "Pickup insulation to earth", min: 1, max: null, unit: "MΩ", between: c.specs[0].between, atC: 20, source: "Measured",
-        conditions: "Ignition off, plug apart, both cavities to the engine", kind: "insulation", material: null });
+      c.specs.push({
+        name: "Pickup insulation to earth",
+        min: 1,
+        max: null,
+        unit: "MΩ",
+        between: c.specs[0].between,
+        atC: 20,
+        source: "Measured",
+        conditions: "Ignition off, plug apart, both cavities to the engine",
+        kind: "insulation",
+        material: null,
+      });
     });
     const v = (await svc.viewSubmission(modA, id))!;
     expect(v.diff.specs[0].fields).toEqual(["conditions", "material"]);
@@ -316,7 +396,10 @@ describe("spec conditions, kind, material and an open maximum through publishing
     const card = await m.Connector.findOne({ where: { slug } });
     const rows = await m.SpecValue.findAll({ where: { connectorId: card!.id }, order: [["id", "ASC"]] });
     const firstName = v.content.specs[0].name;
-    const pick = <T extends { name: string }>(list: T[]) => [list.find((r) => r.name === firstName)!, list.find((r) => r.name === "Pickup insulation to earth")!];
+    const pick = <T extends { name: string }>(list: T[]) => [
+      list.find((r) => r.name === firstName)!,
+      list.find((r) => r.name === "Pickup insulation to earth")!,
+    ];
     expect(rows).toHaveLength(v.content.specs.length);
     expect(pick(rows).map((r) => [r.conditions, r.kind, r.material, r.max === null])).toEqual([
       [CONDITIONS, "resistance", material, false],
@@ -332,6 +415,8 @@ describe("spec conditions, kind, material and an open maximum through publishing
     ]);
     expect(await checkLibrary()).toEqual([]);
     // Unchanged specs need not restate anything: an edit that touches only a pin goes in for review.
-    await inReview(slug, (c) => { c.pins[0] = { ...c.pins[0], circuit: `${c.pins[0].circuit} (checked)` }; });
+    await inReview(slug, (c) => {
+      c.pins[0] = { ...c.pins[0], circuit: `${c.pins[0].circuit} (checked)` };
+    });
   });
 });

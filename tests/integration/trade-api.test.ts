@@ -12,16 +12,35 @@ const text = z.string().min(1);
 const num = z.number().finite();
 const int = z.number().int();
 
-const familyBody = z.object({ family: z.object({ slug: text, systemVoltage: z.union([z.literal(6), z.literal(12)]), earth: z.enum(["negative", "positive"]) }) });
+const familyBody = z.object({
+  family: z.object({ slug: text, systemVoltage: z.union([z.literal(6), z.literal(12)]), earth: z.enum(["negative", "positive"]) }),
+});
 const walkBody = z.object({
   state: z.object({ engine: z.enum(["stopped", "cranking", "running"]), points: z.enum(["open", "closed"]).nullable() }),
   reference: z.object({ post: z.enum(["+", "-"]), earth: z.enum(["negative", "positive"]), words: text }).nullable(),
   battery: z.object({ min: num, max: num, nominal: num }).nullable(),
   notes: z.array(text),
-  probePoints: z.array(z.object({
-    step: int, connector: z.string().nullable(), cavity: text, colour: z.string().nullable(), label: text, how: text, side: z.enum(["supply", "return"]),
-    expect: z.object({ quantity: text, min: num.nullable(), max: num.nullable(), unit: text, nominal: num.nullable().optional(), steady: z.boolean().optional() }),
-  })).min(2),
+  probePoints: z
+    .array(
+      z.object({
+        step: int,
+        connector: z.string().nullable(),
+        cavity: text,
+        colour: z.string().nullable(),
+        label: text,
+        how: text,
+        side: z.enum(["supply", "return"]),
+        expect: z.object({
+          quantity: text,
+          min: num.nullable(),
+          max: num.nullable(),
+          unit: text,
+          nominal: num.nullable().optional(),
+          steady: z.boolean().optional(),
+        }),
+      }),
+    )
+    .min(2),
 });
 type Walk = z.infer<typeof walkBody>;
 const diagnoseBody = z.object({
@@ -30,10 +49,25 @@ const diagnoseBody = z.object({
   battery: z.object({ verdict: z.enum(["ok", "low", "high"]), message: text }).nullable(),
 });
 const planBody = z.object({
-  wires: z.array(z.object({
-    id: text, from: text, to: text, colour: z.string(), currentA: num, sizeMm2: num, awg: int.nullable(), dropV: num, decidedBy: text, notes: z.array(z.string()),
-    role: z.enum(["power", "earth", "signal"]), net: text, colours: z.array(text),
-  })).min(1),
+  wires: z
+    .array(
+      z.object({
+        id: text,
+        from: text,
+        to: text,
+        colour: z.string(),
+        currentA: num,
+        sizeMm2: num,
+        awg: int.nullable(),
+        dropV: num,
+        decidedBy: text,
+        notes: z.array(z.string()),
+        role: z.enum(["power", "earth", "signal"]),
+        net: text,
+        colours: z.array(text),
+      }),
+    )
+    .min(1),
   fuses: z.array(z.object({ name: text, ratingA: num, factoryA: num, raised: z.boolean(), basis: text })),
   parts: z.array(z.object({ kind: text, item: text, quantity: num, unit: text })),
   legend: z.array(z.object({ colour: z.string(), nets: z.array(text) })),
@@ -49,7 +83,9 @@ beforeAll(async () => {
   server = await startServer();
   digestBefore = await stateDigest(server.dbPath);
 }, 120_000);
-afterAll(async () => { await server?.stop(); });
+afterAll(async () => {
+  await server?.stop();
+});
 
 const walk = (family: string, circuit: string, q = "") => getJson(`/api/v1/families/${family}/circuits/${circuit}/walk${q}`, walkBody);
 async function diagnose(family: string, circuit: string, body: object) {
@@ -57,7 +93,8 @@ async function diagnose(family: string, circuit: string, body: object) {
   expect(r.status, r.body.slice(0, 300)).toBe(200);
   return shape(diagnoseBody, JSON.parse(r.body));
 }
-const readingsOf = (w: Walk) => w.probePoints.filter((p) => p.expect.steady !== false && p.expect.nominal !== undefined).map((p) => ({ step: p.step, value: p.expect.nominal! }));
+const readingsOf = (w: Walk) =>
+  w.probePoints.filter((p) => p.expect.steady !== false && p.expect.nominal !== undefined).map((p) => ({ step: p.step, value: p.expect.nominal! }));
 
 describe("families carry their system voltage and earth polarity", () => {
   it("the positive-earth British twin, the 6 V single, and a 12 V negative-earth four", async () => {
@@ -144,7 +181,10 @@ describe("6 V and positive earth", () => {
     const page = await call("/families/sovereign-650/circuits/headlamp-dip");
     expect(page.body).toMatch(/positive earth/);
     // Readings typed without their minus sign are read as magnitudes, not as faults.
-    const d = await diagnose("sovereign-650", "headlamp-dip", { switches: { lights: "on" }, readings: readingsOf(w).map((r) => ({ ...r, value: Math.abs(r.value) })) });
+    const d = await diagnose("sovereign-650", "headlamp-dip", {
+      switches: { lights: "on" },
+      readings: readingsOf(w).map((r) => ({ ...r, value: Math.abs(r.value) })),
+    });
     expect(d.fault === null || /Every point reads/.test(d.fault.reason)).toBe(true);
   });
 

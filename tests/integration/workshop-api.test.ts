@@ -32,19 +32,30 @@ const MATERIALS = ["copper", "carbon", "other"] as const;
 // measured and at20C are numbers, or "OL" for an open circuit (JSON has no Infinity); max null is "no upper limit".
 const reading = num.or(z.literal("OL"));
 const benchBody = z.object({
-  results: z.array(z.object({
-    name: text, measured: reading, at20C: reading, verdict: z.enum(VERDICTS), unit: text, max: num.nullable(), material: z.enum(MATERIALS), steps: z.array(text),
-  })),
+  results: z.array(
+    z.object({
+      name: text,
+      measured: reading,
+      at20C: reading,
+      verdict: z.enum(VERDICTS),
+      unit: text,
+      max: num.nullable(),
+      material: z.enum(MATERIALS),
+      steps: z.array(text),
+    }),
+  ),
   cautions: z.array(z.object({ kind: text, title: text, text })).min(1),
 });
 
 const QUALITIES = ["exact", "tracer-missing", "faded", "none"] as const;
 const finderBody = z.object({
-  candidates: z.array(z.object({
-    connector: z.object({ slug, name: text, family: slug }),
-    score: z.number().min(0).max(1),
-    matches: z.array(z.object({ wire: text, cavity: text.nullable(), pinColour: text.nullable(), quality: z.enum(QUALITIES) })),
-  })),
+  candidates: z.array(
+    z.object({
+      connector: z.object({ slug, name: text, family: slug }),
+      score: z.number().min(0).max(1),
+      matches: z.array(z.object({ wire: text, cavity: text.nullable(), pinColour: text.nullable(), quality: z.enum(QUALITIES) })),
+    }),
+  ),
 });
 type Finder = z.infer<typeof finderBody>;
 
@@ -57,19 +68,33 @@ const circuitsBody = z.object({
 const expectSchema = z.object({
   quantity: z.enum(["voltage", "continuity", "resistance"]),
   // A continuity check past a load with no spec on the card has no upper bound: null is allowed for either end.
-  min: num.nullable(), max: num.nullable(), unit: text,
+  min: num.nullable(),
+  max: num.nullable(),
+  unit: text,
   // The healthy loom's value and whether it is steady (added with the engine states; not in API.md's minimum).
-  nominal: num.nullable().optional(), steady: z.boolean().optional(),
+  nominal: num.nullable().optional(),
+  steady: z.boolean().optional(),
 });
 const walkBody = z.object({
   // Whether current flows through the circuit's load in these positions (added with the engine states).
   loaded: z.boolean().optional(),
-  probePoints: z.array(z.object({
-    step: int.min(1), connector: slug.nullable(), cavity: text, colour: text.nullable(), expect: expectSchema, how: text,
-    // Extra fields of the route (used to follow the current's path, not in API.md): the previous point on this point's path.
-    after: int.min(1).nullable().optional(), side: z.enum(["supply", "return"]).optional(), label: z.string().optional(),
-    elementsBefore: z.array(z.string()).optional(),
-  })).min(1),
+  probePoints: z
+    .array(
+      z.object({
+        step: int.min(1),
+        connector: slug.nullable(),
+        cavity: text,
+        colour: text.nullable(),
+        expect: expectSchema,
+        how: text,
+        // Extra fields of the route (used to follow the current's path, not in API.md): the previous point on this point's path.
+        after: int.min(1).nullable().optional(),
+        side: z.enum(["supply", "return"]).optional(),
+        label: z.string().optional(),
+        elementsBefore: z.array(z.string()).optional(),
+      }),
+    )
+    .min(1),
 });
 type Walk = z.infer<typeof walkBody>;
 type Point = Walk["probePoints"][number];
@@ -81,7 +106,11 @@ const diagnoseBody = z.object({
 
 const cardBody = z.object({
   connector: z.object({
-    slug, name: text, family: z.object({ slug }), gender: z.enum(["plug", "socket"]), matesWith: slug.nullable(),
+    slug,
+    name: text,
+    family: z.object({ slug }),
+    gender: z.enum(["plug", "socket"]),
+    matesWith: slug.nullable(),
     layout: z.object({ cavities: z.array(z.object({ cavity: text })).min(1) }),
     pins: z.array(z.object({ cavity: text, colour: z.object({ code: text.nullable() }) })),
   }),
@@ -101,7 +130,9 @@ const cards = new Map<string, Card>();
 const { call, getJson } = client(() => server.url);
 
 const jsonInit = (body: unknown, type = "application/json"): RequestInit => ({
-  method: "POST", headers: { "Content-Type": type }, body: typeof body === "string" ? body : JSON.stringify(body),
+  method: "POST",
+  headers: { "Content-Type": type },
+  body: typeof body === "string" ? body : JSON.stringify(body),
 });
 
 /** POST JSON → 200 JSON, parsed against a schema. */
@@ -115,7 +146,9 @@ async function postJson<T extends z.ZodType>(path: string, body: unknown, schema
 /** Any request that must fail: status, JSON Content-Type, the API.md error shape; returns the error. */
 async function expectError(path: string, status: number, init?: RequestInit) {
   const r = await call(path, init);
-  expect(r.status, `${init?.method ?? "GET"} ${path.slice(0, 120)} ${String(init?.body ?? "").slice(0, 120)} → ${r.status} ${r.body.slice(0, 200)}`).toBe(status);
+  expect(r.status, `${init?.method ?? "GET"} ${path.slice(0, 120)} ${String(init?.body ?? "").slice(0, 120)} → ${r.status} ${r.body.slice(0, 200)}`).toBe(
+    status,
+  );
   expect(r.type, `${path.slice(0, 120)}: error responses are JSON (API.md conventions)`).toMatch(/^application\/json\b/);
   return { ...shape(errorBody, JSON.parse(r.body), path.slice(0, 120)).error, status: r.status, res: r.res };
 }
@@ -222,11 +255,13 @@ describe("POST computations: media type, size, malformed JSON, method", () => {
   });
 
   it.each(["/api/v1/families/rx750-four/circuits", "/api/v1/families/rx750-four/circuits/ignition/walk"])(
-    "POST %s (read-only) → 405 with Allow: GET", async (path) => {
+    "POST %s (read-only) → 405 with Allow: GET",
+    async (path) => {
       const err = await expectError(path, 405, jsonInit({}));
       expect(err.code).toBe("method_not_allowed");
       expect(err.res.headers.get("allow")).toMatch(/\bGET\b/);
-    });
+    },
+  );
 });
 
 // ---------------------------------------------------------------------------------------------------------------------
@@ -343,7 +378,10 @@ describe("POST /api/v1/wire-size", () => {
     expect(values).toContain(0.017241); // RF §3.3 IEC 60028: ρ20 = 0.017241 Ω·mm²/m
     expect(values).toContain(0.00393); // RF §3.3 IEC 60028 / IACS: α20 = 0.00393 /°C
     expect(r.basis.find((b) => b.value === 0.017241)!.source).toMatch(/IEC 60028/);
-    expect(r.basis.some((b) => b.unit === "m" && b.value === 6), "conductor length 2 × 3 m").toBe(true);
+    expect(
+      r.basis.some((b) => b.unit === "m" && b.value === 6),
+      "conductor length 2 × 3 m",
+    ).toBe(true);
   });
 
   it.each([
@@ -367,12 +405,17 @@ describe("POST /api/v1/wire-size", () => {
     expect(err.field).toBe(field);
   });
 
-  it.each([["{}", "currentA"], ["[]", undefined], ["null", undefined], ["42", undefined], ['"10 A"', undefined]])(
-    "a body of %s → 400 (never 500)", async (raw, field) => {
-      const err = await expectError("/api/v1/wire-size", 400, jsonInit(raw));
-      expect(err.code).toBe("bad_request");
-      if (field) expect(err.field).toBe(field);
-    });
+  it.each([
+    ["{}", "currentA"],
+    ["[]", undefined],
+    ["null", undefined],
+    ["42", undefined],
+    ['"10 A"', undefined],
+  ])("a body of %s → 400 (never 500)", async (raw, field) => {
+    const err = await expectError("/api/v1/wire-size", 400, jsonInit(raw));
+    expect(err.code).toBe("bad_request");
+    if (field) expect(err.field).toBe(field);
+  });
 });
 
 // ---------------------------------------------------------------------------------------------------------------------
@@ -406,14 +449,24 @@ describe("POST /api/v1/bench", () => {
     // Pickup coil window 400–500 Ω (a generic range inside RF §4's 150–1000 Ω for inductive pickups).
     const spec = { min: 400, max: 500, unit: "Ω" };
     const cases: [number, number, (typeof VERDICTS)[number]][] = [
-      [20, 399.9, "low"], [20, 400, "in_range"], [20, 400.1, "in_range"], [20, 450, "in_range"],
-      [20, 499.9, "in_range"], [20, 500, "in_range"], [20, 500.1, "high"], [20, 0, "low"],
+      [20, 399.9, "low"],
+      [20, 400, "in_range"],
+      [20, 400.1, "in_range"],
+      [20, 450, "in_range"],
+      [20, 499.9, "in_range"],
+      [20, 500, "in_range"],
+      [20, 500.1, "high"],
+      [20, 0, "low"],
       // At 80 °C a reading of exactly min × 1.2358 is the minimum at 20 °C: in range, not flipped by rounding.
-      [80, 400 * 1.2358, "in_range"], [80, 400 * 1.2358 - 0.1, "low"], [80, 500 * 1.2358, "in_range"], [80, 500 * 1.2358 + 0.1, "high"],
+      [80, 400 * 1.2358, "in_range"],
+      [80, 400 * 1.2358 - 0.1, "low"],
+      [80, 500 * 1.2358, "in_range"],
+      [80, 500 * 1.2358 + 0.1, "high"],
       // The uncorrected 80 °C reading 600 Ω would be "high"; corrected it is 485.5 Ω, in range.
       [80, 600, "in_range"],
       // Cold: at −10 °C the factor is 1 − 0.1179 = 0.8821; 360 Ω reads 408.1 Ω at 20 °C.
-      [-10, 360, "in_range"], [-10, 350, "low"],
+      [-10, 360, "in_range"],
+      [-10, 350, "low"],
     ];
     const r = await bench(cases.map(([tempC, measured], i) => ({ name: `pickup ${i + 1}`, ...spec, measured, tempC })));
     expect(r.results).toHaveLength(cases.length);
@@ -573,14 +626,27 @@ describe("GET /bench (the page, without JavaScript: the sheet lives in its addre
     const selected = (sel: El) => {
       const options = DomUtils.findAll((o) => o.name === "option", [sel]);
       const o = options.find((x) => "selected" in x.attribs) ?? options[0];
-      return o ? o.attribs.value ?? text(o) : "";
+      return o ? (o.attribs.value ?? text(o)) : "";
     };
     return { all, text, row, inRow, named, selected };
   }
 
   it("a resistor cap at 40 °C on auto is high, a pickup on auto is corrected, and each row has a material select", async () => {
     // RF §4 resistor caps ≈ 5 kΩ; RF 5.1 carbon is not corrected; RF §3.3 α = 0.00393: 560 / 1.0786 = 519.2 Ω.
-    const q = new URLSearchParams({ n0: "Resistor plug cap", lo0: "4", hi0: "6", u0: "kohm", m0: "6.3", t0: "40", n1: "Pickup coil", lo1: "420", hi1: "580", u1: "Ω", m1: "560", t1: "40" });
+    const q = new URLSearchParams({
+      n0: "Resistor plug cap",
+      lo0: "4",
+      hi0: "6",
+      u0: "kohm",
+      m0: "6.3",
+      t0: "40",
+      n1: "Pickup coil",
+      lo1: "420",
+      hi1: "580",
+      u1: "Ω",
+      m1: "560",
+      t1: "40",
+    });
     const p = await page(q.toString());
     const verdict = (i: number) => p.inRow(i, (e) => e.attribs["data-verdict"] !== undefined)[0]?.attribs["data-verdict"];
     expect(verdict(0)).toBe("high");
@@ -597,7 +663,20 @@ describe("GET /bench (the page, without JavaScript: the sheet lives in its addre
   });
 
   it("a chosen material, an open maximum and OL are kept in the address and judged", async () => {
-    const q = new URLSearchParams({ n0: "Pickup coil", lo0: "420", hi0: "580", u0: "Ω", m0: "600", t0: "60", mt0: "carbon", n1: "Stator phase to earth", lo1: "1", hi1: "open", u1: "MΩ", m1: "OL" });
+    const q = new URLSearchParams({
+      n0: "Pickup coil",
+      lo0: "420",
+      hi0: "580",
+      u0: "Ω",
+      m0: "600",
+      t0: "60",
+      mt0: "carbon",
+      n1: "Stator phase to earth",
+      lo1: "1",
+      hi1: "open",
+      u1: "MΩ",
+      m1: "OL",
+    });
     const p = await page(q.toString());
     expect(p.selected(p.named(0, "mt0"))).toBe("carbon");
     expect(p.inRow(0, (e) => e.attribs["data-verdict"] !== undefined)[0].attribs["data-verdict"]).toBe("high"); // 600 not corrected
@@ -622,9 +701,21 @@ describe("GET /bench (the page, without JavaScript: the sheet lives in its addre
   });
 
   it("a sheet from a card carries each spec's material, kind, conditions and open maximum into its row", async () => {
-    const specBody = z.object({ connector: z.object({ specs: z.array(z.object({
-      name: text, min: num, max: num.nullable(), unit: text, conditions: z.string(), kind: text, material: z.enum(MATERIALS).nullable(),
-    })) }) });
+    const specBody = z.object({
+      connector: z.object({
+        specs: z.array(
+          z.object({
+            name: text,
+            min: num,
+            max: num.nullable(),
+            unit: text,
+            conditions: z.string(),
+            kind: text,
+            material: z.enum(MATERIALS).nullable(),
+          }),
+        ),
+      }),
+    });
     const withSpecs: { slug: string; specs: z.infer<typeof specBody>["connector"]["specs"] }[] = [];
     const detail = z.object({ family: z.object({ systems: z.array(z.object({ connectors: z.array(z.object({ slug })) })) }) });
     for (const f of familySlugs.slice(0, 3)) {
@@ -638,7 +729,9 @@ describe("GET /bench (the page, without JavaScript: the sheet lives in its addre
     for (const { slug: s, specs } of withSpecs.slice(0, 6)) {
       const p = await page(`connector=${s}`);
       specs.forEach((spec, i) => {
-        expect(p.named(i, `n${i}`).attribs.value, `${s} row ${i + 1}`).toMatch(new RegExp(`^${spec.name.replace(/[.*+?^${}()|[\]\\]/g, "\\$&")}, between cavities`));
+        expect(p.named(i, `n${i}`).attribs.value, `${s} row ${i + 1}`).toMatch(
+          new RegExp(`^${spec.name.replace(/[.*+?^${}()|[\]\\]/g, "\\$&")}, between cavities`),
+        );
         expect(p.named(i, `hi${i}`).attribs.value).toBe(spec.max === null ? "open" : String(spec.max));
         expect(p.selected(p.named(i, `mt${i}`))).toBe(spec.material ?? "");
         const shown = p.inRow(i, (e) => e.attribs["data-conditions"] !== undefined)[0];
@@ -665,10 +758,11 @@ describe("POST /api/v1/colour-finder", () => {
     const detail = z.object({ family: z.object({ systems: z.array(z.object({ connectors: z.array(z.object({ slug })) })) }) });
     for (const f of familySlugs) {
       const { family } = await getJson(`/api/v1/families/${f}`, detail);
-      for (const s of family.systems) for (const c of s.connectors) {
-        const k = await card(c.slug);
-        if (k.pins.filter((p) => p.colour.code).length >= 4) out.push(k);
-      }
+      for (const s of family.systems)
+        for (const c of s.connectors) {
+          const k = await card(c.slug);
+          if (k.pins.filter((p) => p.colour.code).length >= 4) out.push(k);
+        }
     }
     return out;
   }
@@ -676,7 +770,10 @@ describe("POST /api/v1/colour-finder", () => {
   /** Check a response's matches against the cards: the wires in the order sent, cavities and pin colours from the card. */
   async function checkMatches(res: Finder, wires: string[]) {
     for (const c of res.candidates) {
-      expect(c.matches.map((m) => m.wire), c.connector.slug).toEqual(wires);
+      expect(
+        c.matches.map((m) => m.wire),
+        c.connector.slug,
+      ).toEqual(wires);
       const k = await card(c.connector.slug);
       const used = c.matches.map((m) => m.cavity).filter((x) => x !== null);
       expect(new Set(used).size, `${c.connector.slug}: one wire per cavity`).toBe(used.length);
@@ -704,27 +801,46 @@ describe("POST /api/v1/colour-finder", () => {
     const misses: string[] = [];
     for (const k of list) {
       const coded = k.pins.filter((p) => p.colour.code);
-      const wires = shuffle(shuffle(coded, rnd).slice(0, 4).map((p) => p.colour.code!), rnd).slice(0, 3);
+      const wires = shuffle(
+        shuffle(coded, rnd)
+          .slice(0, 4)
+          .map((p) => p.colour.code!),
+        rnd,
+      ).slice(0, 3);
       const res = await find({ wires });
       await checkMatches(res, wires);
       const own = new Set([k.slug, k.matesWith]);
       const rank = res.candidates.findIndex((c) => own.has(c.connector.slug));
       if (rank === 0) first++;
-      if (rank < 0 || rank > 2) misses.push(`${k.slug} ${JSON.stringify(wires)} → rank ${rank} (top: ${res.candidates.slice(0, 3).map((c) => `${c.connector.slug} ${c.score}`).join(", ")})`);
+      if (rank < 0 || rank > 2)
+        misses.push(
+          `${k.slug} ${JSON.stringify(wires)} → rank ${rank} (top: ${res.candidates
+            .slice(0, 3)
+            .map((c) => `${c.connector.slug} ${c.score}`)
+            .join(", ")})`,
+        );
       else {
         // The card (or its mate, same codes) explains every wire exactly.
         const hit = res.candidates[rank];
-        expect(hit.matches.every((m) => m.quality === "exact"), `${k.slug}: ${JSON.stringify(hit.matches)}`).toBe(true);
+        expect(
+          hit.matches.every((m) => m.quality === "exact"),
+          `${k.slug}: ${JSON.stringify(hit.matches)}`,
+        ).toBe(true);
       }
     }
-    console.log(`colour finder: ${first}/${list.length} (${Math.round((100 * first) / list.length)} %) of the cut-off demo plugs ranked first, ${list.length - misses.length}/${list.length} in the top 3`);
+    console.log(
+      `colour finder: ${first}/${list.length} (${Math.round((100 * first) / list.length)} %) of the cut-off demo plugs ranked first, ${list.length - misses.length}/${list.length} in the top 3`,
+    );
     expect(misses, misses.join("\n")).toEqual([]);
   });
 
   it("a faded or tracer-less wire still finds the rx750-four ignition unit plug, and says which", async () => {
     // rx750-four-ignition-unit-plug (api.test.ts): 1 O/W, 2 B, 3 B/Y, 4 B/L. "B" for B/L = the tracer wore off; "R/W" for O/W = red for a faded orange.
     const res = await find({ wires: ["B/Y", "R/W", "B"], family: "rx750-four" });
-    const top = res.candidates.slice(0, 2).map((c) => c.connector.slug).sort();
+    const top = res.candidates
+      .slice(0, 2)
+      .map((c) => c.connector.slug)
+      .sort();
     expect(top).toEqual(["rx750-four-ignition-unit-plug", "rx750-four-ignition-unit-socket"]);
     const q = Object.fromEntries(res.candidates[0].matches.map((m) => [m.wire, [m.cavity, m.quality]]));
     expect(q["B/Y"]).toEqual(["3", "exact"]);
@@ -735,11 +851,20 @@ describe("POST /api/v1/colour-finder", () => {
   it("family filter: only that family's connectors come back (every demo family)", async () => {
     for (const f of familySlugs) {
       const some = [...(await demoConnectors())].find((c) => c.family.slug === f)!;
-      const wires = some.pins.map((p) => p.colour.code).filter((x): x is string => !!x).slice(0, 3);
+      const wires = some.pins
+        .map((p) => p.colour.code)
+        .filter((x): x is string => !!x)
+        .slice(0, 3);
       const res = await find({ wires, family: f });
       expect(res.candidates.length, f).toBeGreaterThan(0);
-      expect(res.candidates.map((c) => c.connector.family).filter((x) => x !== f), f).toEqual([]);
-      expect(res.candidates.map((c) => c.connector.slug), f).toContain(some.slug);
+      expect(
+        res.candidates.map((c) => c.connector.family).filter((x) => x !== f),
+        f,
+      ).toEqual([]);
+      expect(
+        res.candidates.map((c) => c.connector.slug),
+        f,
+      ).toContain(some.slug);
     }
     // An unknown family filters everything out: an empty list, not an error.
     expect((await find({ wires: ["B"], family: "no-such-family" })).candidates).toEqual([]);
@@ -809,7 +934,10 @@ describe("GET /api/v1/families/:slug/circuits", () => {
       const { circuits } = await getJson(`/api/v1/families/${f}/circuits`, circuitsBody);
       expect(circuits.length, f).toBeGreaterThanOrEqual(1);
       expect(new Set(circuits.map((c) => c.slug)).size, f).toBe(circuits.length);
-      expect(circuits.map((c) => c.slug), f).toContain("ignition");
+      expect(
+        circuits.map((c) => c.slug),
+        f,
+      ).toContain("ignition");
       expect(circuits.find((c) => c.slug === "ignition")!.system, f).toBe("ignition");
     }
   });
@@ -818,9 +946,15 @@ describe("GET /api/v1/families/:slug/circuits", () => {
     // RF §4.1, Halderman companion-cylinder method: 1 2 over 4 3 → columns 1&4, 2&3.
     const { wastedSpark } = await getJson("/api/v1/families/rx750-four/circuits", circuitsBody);
     expect(wastedSpark.suitable).toBe(true);
-    expect(wastedSpark.pairs).toEqual([[1, 4], [2, 3]]);
+    expect(wastedSpark.pairs).toEqual([
+      [1, 4],
+      [2, 3],
+    ]);
     // rx400-four has the same firing order (db/seeders/demo): the same pairs.
-    expect((await getJson("/api/v1/families/rx400-four/circuits", circuitsBody)).wastedSpark.pairs).toEqual([[1, 4], [2, 3]]);
+    expect((await getJson("/api/v1/families/rx400-four/circuits", circuitsBody)).wastedSpark.pairs).toEqual([
+      [1, 4],
+      [2, 3],
+    ]);
   });
 
   it("sovereign-650 (360° parallel twin) suits wasted spark; marquis-500 (180° twin) does not", async () => {
@@ -847,8 +981,10 @@ const walkUrl = (family: string, circuit: string, switches?: string) =>
 const walk = (family: string, circuit: string, switches?: string) => getJson(walkUrl(family, circuit, switches), walkBody);
 // By magnitude (a positive-earth bike's live points read negative) and for 6 V as well as 12 V families; a pin with no
 // steady reading (it switches with the points or the ignition unit) is neither.
-const BATTERY = (p: Point) => p.expect.quantity === "voltage" && p.expect.min !== null && p.expect.max !== null && Math.min(Math.abs(p.expect.min), Math.abs(p.expect.max)) >= 4.5;
-const NEAR_ZERO = (p: Point) => p.expect.quantity === "voltage" && p.expect.min !== null && p.expect.max !== null && Math.max(Math.abs(p.expect.min), Math.abs(p.expect.max)) <= 0.8;
+const BATTERY = (p: Point) =>
+  p.expect.quantity === "voltage" && p.expect.min !== null && p.expect.max !== null && Math.min(Math.abs(p.expect.min), Math.abs(p.expect.max)) >= 4.5;
+const NEAR_ZERO = (p: Point) =>
+  p.expect.quantity === "voltage" && p.expect.min !== null && p.expect.max !== null && Math.max(Math.abs(p.expect.min), Math.abs(p.expect.max)) <= 0.8;
 
 /** Steps at or after `step` along the current's path (following each point's `after` back to it). */
 function downstreamOf(w: Walk, step: number): Set<number> {
@@ -858,7 +994,10 @@ function downstreamOf(w: Walk, step: number): Set<number> {
     const seen = new Set<number>();
     for (let q: Point | undefined = p; q && !seen.has(q.step); q = q.after ? byStep.get(q.after) : undefined) {
       seen.add(q.step);
-      if (q.step === step) { out.add(p.step); break; }
+      if (q.step === step) {
+        out.add(p.step);
+        break;
+      }
     }
   }
   return out;
@@ -885,10 +1024,16 @@ describe("GET /api/v1/families/:slug/circuits/:circuit/walk", () => {
       const { circuits } = await getJson(`/api/v1/families/${f}/circuits`, circuitsBody);
       for (const c of circuits) {
         const r = await call(walkUrl(f, c.slug));
-        if (r.status !== 200) { problems.push(`${f}/${c.slug}: walk → ${r.status} ${r.body.slice(0, 160)}`); continue; }
+        if (r.status !== 200) {
+          problems.push(`${f}/${c.slug}: walk → ${r.status} ${r.body.slice(0, 160)}`);
+          continue;
+        }
         const w = shape(walkBody, JSON.parse(r.body), `${f}/${c.slug} walk`);
         walks++;
-        expect(w.probePoints.map((p) => p.step), `${f}/${c.slug} steps`).toEqual(w.probePoints.map((_, i) => i + 1));
+        expect(
+          w.probePoints.map((p) => p.step),
+          `${f}/${c.slug} steps`,
+        ).toEqual(w.probePoints.map((_, i) => i + 1));
         for (const p of w.probePoints) {
           const where = `${f}/${c.slug} step ${p.step}`;
           expect(p.how.trim(), where).not.toBe("");
@@ -897,9 +1042,13 @@ describe("GET /api/v1/families/:slug/circuits/:circuit/walk", () => {
           else expect(p.expect.unit, where).toMatch(/Ω$/);
           if (p.connector === null) continue;
           connectorPoints++;
-          const k = cards.get(p.connector) ?? (await call(`/api/v1/connectors/${p.connector}`).then((x) =>
-            x.status === 200 ? shape(cardBody, JSON.parse(x.body)).connector : null));
-          if (!k) { problems.push(`${where}: connector ${p.connector} → not a card`); continue; }
+          const k =
+            cards.get(p.connector) ??
+            (await call(`/api/v1/connectors/${p.connector}`).then((x) => (x.status === 200 ? shape(cardBody, JSON.parse(x.body)).connector : null)));
+          if (!k) {
+            problems.push(`${where}: connector ${p.connector} → not a card`);
+            continue;
+          }
           cards.set(k.slug, k);
           expect(k.family.slug, where).toBe(f);
           if (!k.layout.cavities.some((x) => x.cavity === p.cavity)) problems.push(`${where}: ${p.connector} has no cavity ${p.cavity}`);
@@ -931,11 +1080,17 @@ describe("GET /api/v1/families/:slug/circuits/:circuit/walk", () => {
     expect(dropped.length, "some battery-voltage points now read near 0 V").toBeGreaterThan(0);
     // The kill switch's output is the right handlebar switch loom socket, cavity 2 (api.test.ts: same net as the unit's feed).
     const out = pointAt(riding, "rx750-four-right-switch-socket", "2");
-    expect(riding.probePoints.every((p) => p.after !== undefined), "the walk says which point precedes each").toBe(true);
+    expect(
+      riding.probePoints.every((p) => p.after !== undefined),
+      "the walk says which point precedes each",
+    ).toBe(true);
     const past = downstreamOf(killed, out.step);
     expect(past.size).toBeGreaterThan(1);
     const stillHigh = killed.probePoints.filter((p) => past.has(p.step) && BATTERY(p));
-    expect(stillHigh.map((p) => `${p.step} ${p.connector ?? ""}:${p.cavity}`), "no point downstream of the kill switch expects battery voltage").toEqual([]);
+    expect(
+      stillHigh.map((p) => `${p.step} ${p.connector ?? ""}:${p.cavity}`),
+      "no point downstream of the kill switch expects battery voltage",
+    ).toEqual([]);
     expect(dropped.map((p) => p.step)).toContain(out.step);
     // Upstream of the switch nothing changes: battery voltage up to the switch's input (cavity 1).
     const input = pointAt(riding, "rx750-four-right-switch-socket", "1");
@@ -997,8 +1152,9 @@ describe("POST /api/v1/families/:slug/circuits/:circuit/diagnose", () => {
     const up = upstreamOf(w, input.step);
     const down = downstreamOf(w, output.step);
     // Supply points only (what a rider probes with the red lead on the feed side); 12.6 V: a charged battery at rest (RF §5).
-    const readings = w.probePoints.filter((p) => p.side !== "return").flatMap((p) =>
-      up.has(p.step) ? [{ step: p.step, value: 12.6 }] : down.has(p.step) ? [{ step: p.step, value: 0 }] : []);
+    const readings = w.probePoints
+      .filter((p) => p.side !== "return")
+      .flatMap((p) => (up.has(p.step) ? [{ step: p.step, value: 12.6 }] : down.has(p.step) ? [{ step: p.step, value: 0 }] : []));
     expect(readings.filter((r) => r.value === 0).length).toBeGreaterThan(0);
     const d = await diagnose({ switches: {}, readings });
     expect(d.fault, JSON.stringify(d)).not.toBeNull();
@@ -1021,7 +1177,8 @@ describe("POST /api/v1/families/:slug/circuits/:circuit/diagnose", () => {
           if (p.side !== "supply" || !p.after || !BATTERY(p) || !BATTERY(w.probePoints[p.after - 1])) continue;
           const up = upstreamOf(w, p.after);
           const down = downstreamOf(w, p.step);
-          const readings = w.probePoints.filter((q) => q.side === "supply" && BATTERY(q) && (up.has(q.step) || down.has(q.step)))
+          const readings = w.probePoints
+            .filter((q) => q.side === "supply" && BATTERY(q) && (up.has(q.step) || down.has(q.step)))
             .map((q) => ({ step: q.step, value: up.has(q.step) ? (w.probePoints[0].expect.nominal ?? 12.6) : 0 }));
           const d = await diagnose({ readings }, f, c.slug);
           cases++;
@@ -1049,7 +1206,8 @@ describe("POST /api/v1/families/:slug/circuits/:circuit/diagnose", () => {
           if (p.side !== "return" || !a || a.side !== "return" || !NEAR_ZERO(p) || !NEAR_ZERO(a)) continue;
           const up = upstreamOf(w, a.step);
           const down = downstreamOf(w, p.step);
-          const readings = w.probePoints.filter((q) => up.has(q.step) || down.has(q.step))
+          const readings = w.probePoints
+            .filter((q) => up.has(q.step) || down.has(q.step))
             .map((q) => ({ step: q.step, value: up.has(q.step) ? (w.probePoints[0].expect.nominal ?? 12.6) : 0 }));
           const d = await diagnose({ readings }, f, c.slug);
           cases++;
@@ -1073,10 +1231,18 @@ describe("POST /api/v1/families/:slug/circuits/:circuit/diagnose", () => {
     expect((await diagnose({ readings: [] })).next).toBe((await diagnose({ switches: {}, readings: [] })).next);
   });
 
-  it("value \"OL\" (an ohmmeter's over-limit) is accepted", async () => {
+  it('value "OL" (an ohmmeter\'s over-limit) is accepted', async () => {
     const w = await walk("rx750-four", "pickup-1");
     const last = w.probePoints[w.probePoints.length - 1].step;
-    const r = await call(url("rx750-four", "pickup-1"), jsonInit({ readings: [{ step: 1, value: 0 }, { step: last, value: "OL" }] }));
+    const r = await call(
+      url("rx750-four", "pickup-1"),
+      jsonInit({
+        readings: [
+          { step: 1, value: 0 },
+          { step: last, value: "OL" },
+        ],
+      }),
+    );
     expect(r.status, r.body.slice(0, 200)).toBe(200);
     const d = shape(diagnoseBody, JSON.parse(r.body));
     // An open loop past the first point: the fault lies somewhere between 1 and the OL point, or the next probe narrows it.

@@ -9,18 +9,26 @@ import { loadavg } from "node:os";
 import { mulberry32, pick } from "../fixtures/random.ts";
 import { performance } from "node:perf_hooks";
 import { encodeColour, type ColourName, type ColourSystemId, type HouseStyleId } from "../../app/domain/colours/index.ts";
-import {
-  FADING_PAIRS,
-  buildFinderIndex,
-  findConnectors,
-  type FinderConnector,
-  type FinderIndex,
-} from "../../app/domain/colour-finder.ts";
-
+import { FADING_PAIRS, buildFinderIndex, findConnectors, type FinderConnector, type FinderIndex } from "../../app/domain/colour-finder.ts";
 
 const PALETTE: ColourName[] = [
-  "black", "brown", "red", "orange", "yellow", "green", "blue", "violet", "grey", "white", "pink",
-  "light green", "light blue", "sky blue", "dark green", "chocolate", "tan",
+  "black",
+  "brown",
+  "red",
+  "orange",
+  "yellow",
+  "green",
+  "blue",
+  "violet",
+  "grey",
+  "white",
+  "pink",
+  "light green",
+  "light blue",
+  "sky blue",
+  "dark green",
+  "chocolate",
+  "tan",
 ];
 const SYSTEMS = ["ignition", "lighting", "charging", "signals", "starting", "instruments"];
 const code = (c: ColourName[]) => encodeColour(c[0], c.slice(1), "jis") ?? encodeColour(c[0], c.slice(1), "en");
@@ -87,7 +95,14 @@ function queries(lib: FinderConnector[], count: number, seed: number): { wires: 
 
 // Invented families spread over the house styles Loomlore knows, and one jis family with no house.
 const HOUSES: [ColourSystemId, HouseStyleId | null][] = [
-  ["jis", "jis-letters"], ["jis", "jis-bl-black"], ["jis", "jis-bl-blue"], ["jis", "jis-caps"], ["din", "din"], ["bs", "bs"], ["en", "en"], ["jis", null],
+  ["jis", "jis-letters"],
+  ["jis", "jis-bl-black"],
+  ["jis", "jis-bl-blue"],
+  ["jis", "jis-caps"],
+  ["din", "din"],
+  ["bs", "bs"],
+  ["en", "en"],
+  ["jis", null],
 ];
 /** The same connectors with each family (bench-family-<n>) in one notation and house. */
 const housed = (lib: FinderConnector[]): FinderConnector[] =>

@@ -43,22 +43,97 @@ const MAKES: { slug: string; name: string; system: ColourSystemId }[] = [
   { slug: "brathe", name: "Brathe Motorcycles", system: "en" },
 ];
 const COMPONENTS = [
-  "Main switch", "Ignition unit", "Pickup", "Stator", "Regulator", "Starter relay", "Tail lamp", "Headlamp", "Kill button", "Horn",
-  "Indicator relay", "Fuse box", "Coil", "Neutral switch", "Brake switch", "Tacho sender", "Lights switch", "Rectifier", "Clock lamp", "Oil switch",
+  "Main switch",
+  "Ignition unit",
+  "Pickup",
+  "Stator",
+  "Regulator",
+  "Starter relay",
+  "Tail lamp",
+  "Headlamp",
+  "Kill button",
+  "Horn",
+  "Indicator relay",
+  "Fuse box",
+  "Coil",
+  "Neutral switch",
+  "Brake switch",
+  "Tacho sender",
+  "Lights switch",
+  "Rectifier",
+  "Clock lamp",
+  "Oil switch",
 ];
 const CIRCUITS = [
-  "fused battery feed", "switched feed (ignition on)", "ignition feed after the kill switch", "pickup signal", "pickup return", "coil negative",
-  "earth", "alternator phase 1", "alternator phase 2", "alternator phase 3", "headlamp", "tail lamp", "brake lamp", "start button to relay",
-  "charging output to battery", "indicator left", "indicator right", "horn push", "neutral lamp", "oil pressure lamp", "main beam", "dip beam",
+  "fused battery feed",
+  "switched feed (ignition on)",
+  "ignition feed after the kill switch",
+  "pickup signal",
+  "pickup return",
+  "coil negative",
+  "earth",
+  "alternator phase 1",
+  "alternator phase 2",
+  "alternator phase 3",
+  "headlamp",
+  "tail lamp",
+  "brake lamp",
+  "start button to relay",
+  "charging output to battery",
+  "indicator left",
+  "indicator right",
+  "horn push",
+  "neutral lamp",
+  "oil pressure lamp",
+  "main beam",
+  "dip beam",
 ];
 // DIN 72552 terminal designations as the demo cards use them.
-const TERMINALS = ["30", "15", "31", "31b", "31d", "1", "1a", "1b", "4", "7", "50", "56", "56a", "56b", "57", "58", "54", "85", "86", "87", "87a", "49", "49a", "D+", "DF", "B+", "61"];
+const TERMINALS = [
+  "30",
+  "15",
+  "31",
+  "31b",
+  "31d",
+  "1",
+  "1a",
+  "1b",
+  "4",
+  "7",
+  "50",
+  "56",
+  "56a",
+  "56b",
+  "57",
+  "58",
+  "54",
+  "85",
+  "86",
+  "87",
+  "87a",
+  "49",
+  "49a",
+  "D+",
+  "DF",
+  "B+",
+  "61",
+];
 const PALETTE: ColourName[] = ["black", "brown", "red", "orange", "yellow", "green", "blue", "violet", "grey", "white", "pink", "light green", "light blue"];
-const LOCATIONS = ["under the seat", "inside the headlamp shell", "behind the left side cover", "left of the frame, below the tank", "beside the battery", "front engine cover"];
+const LOCATIONS = [
+  "under the seat",
+  "inside the headlamp shell",
+  "behind the left side cover",
+  "left of the frame, below the tank",
+  "beside the battery",
+  "front engine cover",
+];
 
 const capital = (s: string) => s[0].toUpperCase() + s.slice(1);
 
-interface Family { input: FamilyInput; system: ColourSystemId }
+interface Family {
+  input: FamilyInput;
+  system: ColourSystemId;
+}
 function families(count: number, rnd: () => number): Family[] {
   const out: Family[] = [];
   const seen = new Set<string>();
@@ -73,7 +148,16 @@ function families(count: number, rnd: () => number): Family[] {
     const yearFrom = 1962 + Math.floor(rnd() * 30);
     out.push({
       system: make.system,
-      input: { slug, name, modelRange: `${name}, ${name} S`, yearFrom, yearTo: yearFrom + 1 + Math.floor(rnd() * 9), engine: pick(rnd, ["parallel twin, air-cooled", "inline four, air-cooled", "flat twin, air-cooled", "single, air-cooled"]), ignition: pick(rnd, ["contact breaker (points)", "transistor, two pickups", "capacitor discharge"]), make: { slug: make.slug, name: make.name } },
+      input: {
+        slug,
+        name,
+        modelRange: `${name}, ${name} S`,
+        yearFrom,
+        yearTo: yearFrom + 1 + Math.floor(rnd() * 9),
+        engine: pick(rnd, ["parallel twin, air-cooled", "inline four, air-cooled", "flat twin, air-cooled", "single, air-cooled"]),
+        ignition: pick(rnd, ["contact breaker (points)", "transistor, two pickups", "capacitor discharge"]),
+        make: { slug: make.slug, name: make.name },
+      },
     });
   }
   return out;
@@ -96,11 +180,22 @@ function cards(fams: Family[], count: number, rnd: () => number, from: number): 
     const side = rnd() < 0.5 ? "plug" : "socket";
     const pins: ConnectorInput["pins"] = Array.from({ length: 2 + Math.floor(rnd() * 7) }, (_, k) => {
       const c = wire(rnd);
-      return { cavity: String(k + 1), code: encodeColour(c[0], c.slice(1), fam.system), circuit: pick(rnd, CIRCUITS), terminal: rnd() < 0.6 ? pick(rnd, TERMINALS) : null, goesTo: null };
+      return {
+        cavity: String(k + 1),
+        code: encodeColour(c[0], c.slice(1), fam.system),
+        circuit: pick(rnd, CIRCUITS),
+        terminal: rnd() < 0.6 ? pick(rnd, TERMINALS) : null,
+        goesTo: null,
+      };
     });
     const input: ConnectorInput = {
-      slug: `${fam.input.slug}-${component.toLowerCase().replace(/\s+/g, "-")}-${side}-${i}`, name: `${component}, ${side === "plug" ? "loom plug" : "socket on the unit"}`,
-      location: pick(rnd, LOCATIONS), housing: `${pins.length}-way flat-blade`, system: pick(rnd, ["ignition", "charging", "starting", "lighting", "signals", "instruments"]), revision: 1, pins,
+      slug: `${fam.input.slug}-${component.toLowerCase().replace(/\s+/g, "-")}-${side}-${i}`,
+      name: `${component}, ${side === "plug" ? "loom plug" : "socket on the unit"}`,
+      location: pick(rnd, LOCATIONS),
+      housing: `${pins.length}-way flat-blade`,
+      system: pick(rnd, ["ignition", "charging", "starting", "lighting", "signals", "instruments"]),
+      revision: 1,
+      pins,
     };
     out.push(connectorDocs(fam.input, input, fam.system)[0]);
   }
@@ -111,7 +206,16 @@ function cards(fams: Family[], count: number, rnd: () => number, from: number): 
 
 function queries(fams: Family[], count: number, seed: number): { kind: string; q: string }[] {
   const rnd = mulberry32(seed);
-  const words = [...new Set([...fams.map((f) => f.input.name.split(" ")[0]), ...MAKES.map((m) => m.name.split(" ")[0]), ...COMPONENTS.flatMap((c) => c.split(" ")), ...CIRCUITS.flatMap((c) => c.split(/[\s()]+/))].filter((w) => w.length >= 3))];
+  const words = [
+    ...new Set(
+      [
+        ...fams.map((f) => f.input.name.split(" ")[0]),
+        ...MAKES.map((m) => m.name.split(" ")[0]),
+        ...COMPONENTS.flatMap((c) => c.split(" ")),
+        ...CIRCUITS.flatMap((c) => c.split(/[\s()]+/)),
+      ].filter((w) => w.length >= 3),
+    ),
+  ];
   const out: { kind: string; q: string }[] = [];
   const letters = "abcdefghijklmnopqrstuvwxyz";
   while (out.length < count) {
@@ -122,10 +226,18 @@ function queries(fams: Family[], count: number, seed: number): { kind: string; q
       out.push({ kind: "prefix", q: w.slice(0, Math.min(w.length, 1 + Math.floor(rnd() * 6))) });
     } else if (r < 0.5) {
       // one typo (substitution, deletion or insertion) in a word of 5 or more letters
-      const w = pick(rnd, words.filter((x) => x.length >= 5)).toLowerCase();
+      const w = pick(
+        rnd,
+        words.filter((x) => x.length >= 5),
+      ).toLowerCase();
       const at = 1 + Math.floor(rnd() * (w.length - 1));
       const edit = rnd();
-      const typo = edit < 0.4 ? w.slice(0, at) + pick(rnd, [...letters]) + w.slice(at + 1) : edit < 0.7 ? w.slice(0, at) + w.slice(at + 1) : w.slice(0, at) + pick(rnd, [...letters]) + w.slice(at);
+      const typo =
+        edit < 0.4
+          ? w.slice(0, at) + pick(rnd, [...letters]) + w.slice(at + 1)
+          : edit < 0.7
+            ? w.slice(0, at) + w.slice(at + 1)
+            : w.slice(0, at) + pick(rnd, [...letters]) + w.slice(at);
       out.push({ kind: "typo", q: typo });
     } else if (r < 0.8) {
       // a colour code in any of the five notations
@@ -150,7 +262,11 @@ const rnd = mulberry32(20261202);
 const fams = families(400, rnd);
 const QUERIES = queries(fams, 500, 72552);
 const kinds = QUERIES.reduce<Record<string, number>>((a, q) => ({ ...a, [q.kind]: (a[q.kind] ?? 0) + 1 }), {});
-console.log(`node ${process.version}, ${cpus().length} cores, load average ${loadavg()[0].toFixed(1)}; ${QUERIES.length} fixed queries (${Object.entries(kinds).map(([k, n]) => `${n} ${k}`).join(", ")}) through GET /api/v1/search`);
+console.log(
+  `node ${process.version}, ${cpus().length} cores, load average ${loadavg()[0].toFixed(1)}; ${QUERIES.length} fixed queries (${Object.entries(kinds)
+    .map(([k, n]) => `${n} ${k}`)
+    .join(", ")}) through GET /api/v1/search`,
+);
 
 const srv = await startServer({ search: true, env: { SEARCH_TIMEOUT_MS: "10000", SEARCH_BREAKER_MS: "2000", MAIL_WORKER: "off", PHOTO_SWEEPER: "off" } });
 // The server's database: the fallback table is written through the app's own writeFallbackDocs on that file.
@@ -213,7 +329,16 @@ async function seed(docs: SearchDoc[]): Promise<{ indexMs: number; fallbackMs: n
   return { indexMs, fallbackMs: performance.now() - t1 };
 }
 
-interface Run { p50: number; p95: number; max: number; sources: Record<string, number>; overTimeout: number; tookP95: number; byKind: string; slowest: string }
+interface Run {
+  p50: number;
+  p95: number;
+  max: number;
+  sources: Record<string, number>;
+  overTimeout: number;
+  tookP95: number;
+  byKind: string;
+  slowest: string;
+}
 async function run(): Promise<Run> {
   for (const q of QUERIES.slice(0, 50)) await api(q.q); // warm-up, as a running server would be
   const times: number[] = [];
@@ -230,13 +355,26 @@ async function run(): Promise<Run> {
     sources[r.source] = (sources[r.source] ?? 0) + 1;
   }
   return {
-    p50: pct(times, 50), p95: pct(times, 95), max: Math.max(...times), sources, overTimeout: times.filter((t) => t > PRODUCTION_TIMEOUT_MS).length, tookP95: pct(took, 95),
-    byKind: Object.entries(kind).map(([k, xs]) => `${k} p50 ${ms(pct(xs, 50))} p95 ${ms(pct(xs, 95))}`).join(" · "),
-    slowest: all.sort((a, b) => b.ms - a.ms).slice(0, 6).map((x) => `${JSON.stringify(x.q)} ${x.ms.toFixed(0)}`).join(", "),
+    p50: pct(times, 50),
+    p95: pct(times, 95),
+    max: Math.max(...times),
+    sources,
+    overTimeout: times.filter((t) => t > PRODUCTION_TIMEOUT_MS).length,
+    tookP95: pct(took, 95),
+    byKind: Object.entries(kind)
+      .map(([k, xs]) => `${k} p50 ${ms(pct(xs, 50))} p95 ${ms(pct(xs, 95))}`)
+      .join(" · "),
+    slowest: all
+      .sort((a, b) => b.ms - a.ms)
+      .slice(0, 6)
+      .map((x) => `${JSON.stringify(x.q)} ${x.ms.toFixed(0)}`)
+      .join(", "),
   };
 }
 const line = (label: string, r: Run) =>
-  `search ${label}: p50 ${ms(r.p50)} p95 ${ms(r.p95)} max ${ms(r.max)} | server tookMs p95 ${ms(r.tookP95)} | answered by ${Object.entries(r.sources).map(([k, n]) => `${k} ${n}`).join(", ")}` +
+  `search ${label}: p50 ${ms(r.p50)} p95 ${ms(r.p95)} max ${ms(r.max)} | server tookMs p95 ${ms(r.tookP95)} | answered by ${Object.entries(r.sources)
+    .map(([k, n]) => `${k} ${n}`)
+    .join(", ")}` +
   (r.overTimeout ? ` | ${r.overTimeout} answers over the production ${PRODUCTION_TIMEOUT_MS} ms timeout` : "") +
   `\n    by kind: ${r.byKind}\n    slowest (ms): ${r.slowest}`;
 
@@ -259,16 +397,26 @@ try {
   await untilIndex(30_000);
   const [[{ n: demo }]] = (await sequelize.query("SELECT COUNT(*) AS n FROM search_fts")) as unknown as [[{ n: number }]];
   const ready = Date.now() + 60_000;
-  while ((await client.index(INDEX).getStats().catch(() => ({ numberOfDocuments: -1 }))).numberOfDocuments !== demo) {
+  while (
+    (
+      await client
+        .index(INDEX)
+        .getStats()
+        .catch(() => ({ numberOfDocuments: -1 }))
+    ).numberOfDocuments !== demo
+  ) {
     if (Date.now() > ready) throw new Error("the app's start-up reconcile did not fill the index");
     await new Promise((ok) => setTimeout(ok, 200));
   }
   const famDocs = fams.map((f) => familyDoc(f.input));
   const first = [...famDocs, ...cards(fams, 10_000, rnd, 0)];
   const t = await seed(first);
-  console.log(`seeded 10 000 invented cards + ${famDocs.length} families (${demo} demo documents beside them): index ${s(t.indexMs)}, database fallback ${s(t.fallbackMs)}`);
+  console.log(
+    `seeded 10 000 invented cards + ${famDocs.length} families (${demo} demo documents beside them): index ${s(t.indexMs)}, database fallback ${s(t.fallbackMs)}`,
+  );
   const small = await measure("10k ");
-  if (process.env.BENCH_ONLY_10K) console.log(`BENCH_ONLY_10K is set: 100k skipped. QUALITY P3 index p95 at 10k ≤ ${BUDGET.index10k} ms: ${verdict(small.index.p95, BUDGET.index10k)}`);
+  if (process.env.BENCH_ONLY_10K)
+    console.log(`BENCH_ONLY_10K is set: 100k skipped. QUALITY P3 index p95 at 10k ≤ ${BUDGET.index10k} ms: ${verdict(small.index.p95, BUDGET.index10k)}`);
   else await hundredK(small);
 } finally {
   await sequelize.close().catch(() => {});
@@ -279,10 +427,14 @@ async function hundredK(small: { index: Run; fallback: Run }) {
   const rest = cards(fams, 90_000, rnd, 10_000);
   const t = await seed(rest);
   const total = (await client.index(INDEX).getStats()).numberOfDocuments;
-  console.log(`seeded 90 000 more (100 000 cards, ${total} documents in the index): index ${s(t.indexMs)}, database fallback ${s(t.fallbackMs)}; bench process RSS ${(process.memoryUsage().rss / 2 ** 20).toFixed(0)} MiB (the stand-in runs in it)`);
+  console.log(
+    `seeded 90 000 more (100 000 cards, ${total} documents in the index): index ${s(t.indexMs)}, database fallback ${s(t.fallbackMs)}; bench process RSS ${(process.memoryUsage().rss / 2 ** 20).toFixed(0)} MiB (the stand-in runs in it)`,
+  );
   const big = await measure("100k");
 
-  console.log(`search 100k/10k p95 ratio: index ${(big.index.p95 / small.index.p95).toFixed(2)}, database ${(big.fallback.p95 / small.fallback.p95).toFixed(2)}`);
+  console.log(
+    `search 100k/10k p95 ratio: index ${(big.index.p95 / small.index.p95).toFixed(2)}, database ${(big.fallback.p95 / small.fallback.p95).toFixed(2)}`,
+  );
   console.log("QUALITY P3 budgets (printed, not asserted; a local stand-in, not the real engine):");
   console.log(`  index p95 at 10k ≤ ${BUDGET.index10k} ms: ${verdict(small.index.p95, BUDGET.index10k)}`);
   console.log(`  index p95 at 100k ≤ ${BUDGET.index100k} ms: ${verdict(big.index.p95, BUDGET.index100k)}`);

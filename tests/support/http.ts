@@ -37,7 +37,6 @@ export interface ReqOptions {
   noBusyRetry?: boolean;
 }
 
-
 export async function req(srv: TestServer, pathAndQuery: string, o: ReqOptions = {}): Promise<Reply> {
   const method = o.method ?? (o.form || o.json !== undefined ? "POST" : "GET");
   const headers: Record<string, string> = { ...o.headers };
@@ -68,4 +67,3 @@ export async function signIn(srv: TestServer, email: string, password: string, s
   expect(r.session, `sign in ${email} sets a session cookie`).toBeTruthy();
   return r.session!;
 }
-

@@ -80,7 +80,17 @@ async function contend(cfg: { submissionId: number; count: number; worker: numbe
         const s = await Submission.findByPk(cfg.submissionId, { attributes: ["id", "version"], transaction, rejectOnEmpty: true });
         const [n] = await Submission.update({ version: s.version + 1 }, { where: { id: s.id, version: s.version }, transaction });
         if (n !== 1) conflicts++;
-        await AuditLog.create({ actorId: null, action: cfg.action, subjectType: "submission", subjectId: String(s.id), detail: JSON.stringify({ worker: cfg.worker, i }), at: new Date() }, { transaction });
+        await AuditLog.create(
+          {
+            actorId: null,
+            action: cfg.action,
+            subjectType: "submission",
+            subjectId: String(s.id),
+            detail: JSON.stringify({ worker: cfg.worker, i }),
+            at: new Date(),
+          },
+          { transaction },
+        );
       });
     } catch (e) {
       if (errorCode(e) === "SQLITE_BUSY") busy++;
@@ -107,7 +117,17 @@ async function batches(cfg: { connectorId: number; familyId: number }) {
       await Connector.update({ revision: k, notes: `Crash rig, batch ${k}.` }, { where: { id: c.id }, transaction });
       await Pin.destroy({ where: { connectorId: c.id }, transaction });
       for (const p of pins) await Pin.create({ familyId: cfg.familyId, connectorId: c.id, componentId: null, terminal: null, ...p }, { transaction });
-      await AuditLog.create({ actorId: null, action: "crash.batch", subjectType: "connector", subjectId: String(c.id), detail: JSON.stringify({ batch: k, checksum: batchChecksum(k, pins) }), at: new Date() }, { transaction });
+      await AuditLog.create(
+        {
+          actorId: null,
+          action: "crash.batch",
+          subjectType: "connector",
+          subjectId: String(c.id),
+          detail: JSON.stringify({ batch: k, checksum: batchChecksum(k, pins) }),
+          at: new Date(),
+        },
+        { transaction },
+      );
       return k;
     });
     await write(`committed ${k}`);
@@ -161,7 +181,8 @@ async function walwriter(cfg: { rows: number }) {
   const { exec } = await rawDb(process.env.DB_PATH!);
   await exec("PRAGMA journal_mode = WAL; PRAGMA wal_autocheckpoint = 0");
   let sql = "BEGIN IMMEDIATE;";
-  for (let i = 0; i < cfg.rows; i++) sql += `INSERT INTO audit_log (actor_id, action, subject_type, subject_id, detail, at) VALUES (NULL, 'f10.probe', 'test', '${i}', '{}', '2026-12-01 00:00:00.000 +00:00');`;
+  for (let i = 0; i < cfg.rows; i++)
+    sql += `INSERT INTO audit_log (actor_id, action, subject_type, subject_id, detail, at) VALUES (NULL, 'f10.probe', 'test', '${i}', '{}', '2026-12-01 00:00:00.000 +00:00');`;
   await exec(sql + "COMMIT;");
   await write("committed");
   await new Promise(() => {}); // until SIGKILL: the WAL keeps the commit, uncheckpointed
@@ -170,7 +191,9 @@ async function walwriter(cfg: { rows: number }) {
 async function card(cfg: { slug: string }) {
   const { getConnectorCard } = await import("../../app/services/library.server.ts");
   const c = await getConnectorCard(cfg.slug);
-  await write(`result ${JSON.stringify(c ? { slug: c.connector.slug, revision: c.connector.revision.number, notes: c.connector.notes, pins: c.connector.pins.map((p) => ({ cavity: p.cavity, code: p.colour.code, circuit: p.circuit })) } : null)}`);
+  await write(
+    `result ${JSON.stringify(c ? { slug: c.connector.slug, revision: c.connector.revision.number, notes: c.connector.notes, pins: c.connector.pins.map((p) => ({ cavity: p.cavity, code: p.colour.code, circuit: p.circuit })) } : null)}`,
+  );
   const { sequelize } = await import("../../db/index.server.ts");
   await sequelize.close();
   process.exit(0);

@@ -13,7 +13,11 @@
 import { readFileSync } from "node:fs";
 import { Readable } from "node:stream";
 
-interface Job { body: string; length: number; crashAt?: string }
+interface Job {
+  body: string;
+  length: number;
+  crashAt?: string;
+}
 const config = JSON.parse(process.argv[2] ?? "{}") as { userId: number; role: string; contentType: string; jobs: Job[] };
 
 const { receivePhotos, PhotoError } = await import("../../app/services/photos.server.ts");
@@ -24,13 +28,15 @@ const write = (line: string) => new Promise<void>((resolve) => process.stdout.wr
 function stdinBody(): ReadableStream<Uint8Array> {
   let read = 0;
   const source = Readable.toWeb(process.stdin) as ReadableStream<Uint8Array>;
-  return source.pipeThrough(new TransformStream<Uint8Array, Uint8Array>({
-    async transform(chunk, controller) {
-      read += chunk.byteLength;
-      await write(`read ${read}`);
-      controller.enqueue(chunk);
-    },
-  }));
+  return source.pipeThrough(
+    new TransformStream<Uint8Array, Uint8Array>({
+      async transform(chunk, controller) {
+        read += chunk.byteLength;
+        await write(`read ${read}`);
+        controller.enqueue(chunk);
+      },
+    }),
+  );
 }
 
 for (const [i, job] of config.jobs.entries()) {
@@ -41,7 +47,10 @@ for (const [i, job] of config.jobs.entries()) {
     body = stdinBody();
   } else body = readFileSync(job.body);
   const request = new Request("http://127.0.0.1/api/v1/photos", {
-    method: "POST", headers: { "Content-Type": config.contentType, "Content-Length": String(job.length) }, body, duplex: "half",
+    method: "POST",
+    headers: { "Content-Type": config.contentType, "Content-Length": String(job.length) },
+    body,
+    duplex: "half",
   } as RequestInit & { duplex: "half" });
   try {
     const { photos } = await receivePhotos(request, { id: config.userId, role: config.role });

@@ -79,7 +79,17 @@ export async function startServer(arg: StartOptions | Record<string, string> = {
   const nodeArgs = (process.env.SERVER_NODE_ARGS ?? "").split(" ").filter(Boolean);
   const child: ChildProcess = spawn(process.execPath, [...nodeArgs, "--import", "tsx", path.join(root, "app/serve.server.ts")], {
     cwd: root,
-    env: { ...process.env, NODE_ENV: "production", PORT: String(port), HOST: "127.0.0.1", DB_PATH: dbPath, UPLOADS_DIR: path.join(dir, "uploads"), SEARCH_URL: searchUrl ?? "http://127.0.0.1:1", ...mailEnv, ...env },
+    env: {
+      ...process.env,
+      NODE_ENV: "production",
+      PORT: String(port),
+      HOST: "127.0.0.1",
+      DB_PATH: dbPath,
+      UPLOADS_DIR: path.join(dir, "uploads"),
+      SEARCH_URL: searchUrl ?? "http://127.0.0.1:1",
+      ...mailEnv,
+      ...env,
+    },
     stdio: ["ignore", "pipe", "pipe"],
   });
   child.stdout!.on("data", (d) => (log += d));
@@ -92,7 +102,9 @@ export async function startServer(arg: StartOptions | Record<string, string> = {
       try {
         const r = await fetch(`${url}/api/v1/health`);
         if (r.status === 200) break;
-      } catch { /* not listening yet */ }
+      } catch {
+        /* not listening yet */
+      }
       if (Date.now() > deadline) throw new Error(`server did not become healthy in 30 s:\n${log}`);
       await new Promise((r) => setTimeout(r, 150));
     }
@@ -107,12 +119,18 @@ export async function startServer(arg: StartOptions | Record<string, string> = {
     dbPath,
     mailHttp,
     searchUrl,
-    search: searchStandIn ? {
-      url: searchUrl!,
-      stop: async () => { await searchStandIn?.close(); },
-      // Same port and data dir: a restarted service keeps what it had persisted.
-      restart: async () => { searchStandIn = await startSearchStandIn({ port: searchPort, dataDir: searchDir }); },
-    } : undefined,
+    search: searchStandIn
+      ? {
+          url: searchUrl!,
+          stop: async () => {
+            await searchStandIn?.close();
+          },
+          // Same port and data dir: a restarted service keeps what it had persisted.
+          restart: async () => {
+            searchStandIn = await startSearchStandIn({ port: searchPort, dataDir: searchDir });
+          },
+        }
+      : undefined,
     output: () => log,
     stop: async () => {
       if (child.exitCode === null) {

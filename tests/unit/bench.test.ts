@@ -5,7 +5,13 @@ import { WorkshopInputError } from "~/domain/wire-size";
 // Sources are the sections of /work/shared/REFERENCE-FACTS.md named beside each check.
 
 const coil = (over: Partial<BenchReading> = {}): BenchReading => ({
-  name: "pickup coil", min: 450, max: 550, unit: "Ω", measured: 500, tempC: 20, ...over,
+  name: "pickup coil",
+  min: 450,
+  max: 550,
+  unit: "Ω",
+  measured: 500,
+  tempC: 20,
+  ...over,
 });
 
 describe("copper correction to 20 °C", () => {
@@ -265,8 +271,15 @@ describe("material: only copper is corrected", () => {
 });
 
 describe("specs with no upper limit and open-circuit readings", () => {
-  const insulation = (measured: number | "OL", over: Partial<BenchReading> = {}): BenchReading =>
-    ({ name: "Stator phase to earth", min: 1, max: null, unit: "MΩ", measured, tempC: 20, ...over });
+  const insulation = (measured: number | "OL", over: Partial<BenchReading> = {}): BenchReading => ({
+    name: "Stator phase to earth",
+    min: 1,
+    max: null,
+    unit: "MΩ",
+    measured,
+    tempC: 20,
+    ...over,
+  });
 
   it("is in range at or above the minimum and low below it", () => {
     // Insulation to earth must read open: at least 1 MΩ on a meter's top range (common practice).
@@ -299,7 +312,11 @@ describe("specs with no upper limit and open-circuit readings", () => {
   });
 
   it("still refuses an omitted maximum, and a measured text other than OL", () => {
-    for (const [over, field] of [[{ max: undefined }, "reading.max"], [{ measured: "open" }, "reading.measured"], [{ measured: Number.POSITIVE_INFINITY }, "reading.measured"]] as const) {
+    for (const [over, field] of [
+      [{ max: undefined }, "reading.max"],
+      [{ measured: "open" }, "reading.measured"],
+      [{ measured: Number.POSITIVE_INFINITY }, "reading.measured"],
+    ] as const) {
       try {
         benchReading({ name: "Pickup coil", min: 1, max: 2, unit: "Ω", measured: 1.5, ...over } as unknown as BenchReading);
         expect.unreachable();

@@ -11,8 +11,13 @@ import { diffCards, proposalProblems, type CardProposal, type ProposedPin } from
 
 type El = ReturnType<typeof DomUtils.findAll>[number];
 
-const pin = (cavity: string, code: string | null, circuit: string, terminal: string | null = null, goesTo: ProposedPin["goesTo"] = null): ProposedPin =>
-  ({ cavity, code, circuit, terminal, goesTo });
+const pin = (cavity: string, code: string | null, circuit: string, terminal: string | null = null, goesTo: ProposedPin["goesTo"] = null): ProposedPin => ({
+  cavity,
+  code,
+  circuit,
+  terminal,
+  goesTo,
+});
 
 const published: CardProposal = {
   name: "Trigger plug (demo)",
@@ -29,8 +34,30 @@ const published: CardProposal = {
     pin("4", "Y/G", "Spare", null, null),
   ],
   specs: [
-    { name: "Trigger winding", min: 400, max: 600, unit: "Ω", between: ["1", "2"], atC: 20, source: "demo data", conditions: "Ignition off, plug apart, meter on the 2 kΩ range", kind: "resistance", material: "copper" },
-    { name: "Insulation to earth", min: 1, max: null, unit: "MΩ", between: ["1", "3"], atC: 20, source: "demo data", conditions: "Ignition off, plug apart, cavity 1 to the engine", kind: "insulation", material: null },
+    {
+      name: "Trigger winding",
+      min: 400,
+      max: 600,
+      unit: "Ω",
+      between: ["1", "2"],
+      atC: 20,
+      source: "demo data",
+      conditions: "Ignition off, plug apart, meter on the 2 kΩ range",
+      kind: "resistance",
+      material: "copper",
+    },
+    {
+      name: "Insulation to earth",
+      min: 1,
+      max: null,
+      unit: "MΩ",
+      between: ["1", "3"],
+      atC: 20,
+      source: "demo data",
+      conditions: "Ignition off, plug apart, cavity 1 to the engine",
+      kind: "insulation",
+      material: null,
+    },
   ],
   notes: "Old notes.",
   photos: [
@@ -45,7 +72,9 @@ const notesHtml = { before: "<p>Old notes.</p>", after: "<p>New <strong>notes</s
 
 // jis-letters is the demo's Japanese-style house (REFERENCE-FACTS 1.3): there "Bl" is not understood.
 function render(before: CardProposal | null, after: CardProposal, notes = notesHtml) {
-  const html = renderToStaticMarkup(createElement(CardDiffView, { diff: diffCards(before, after), colourSystem: "jis", houseStyle: "jis-letters", photoUrl: url, notesHtml: notes }));
+  const html = renderToStaticMarkup(
+    createElement(CardDiffView, { diff: diffCards(before, after), colourSystem: "jis", houseStyle: "jis-letters", photoUrl: url, notesHtml: notes }),
+  );
   const nodes = parseDocument(html).children;
   const all = (pred: (e: El) => boolean) => DomUtils.findAll(pred, nodes);
   const text = (e: El) => DomUtils.textContent(e).replace(/\s+/g, " ").trim();
@@ -103,7 +132,13 @@ describe("CardDiffView", () => {
     expect(v.text(v.cell(r5, "colour"))).toContain("white");
 
     // Each row carries exactly one marking, and only its own.
-    for (const [cavity, mark] of [["2", "changed"], ["3", "changed"], ["4", "removed"], ["5", "added"], ["1", "same"]] as const) {
+    for (const [cavity, mark] of [
+      ["2", "changed"],
+      ["3", "changed"],
+      ["4", "removed"],
+      ["5", "added"],
+      ["1", "same"],
+    ] as const) {
       const marks = DomUtils.findAll((e) => e.attribs["data-mark"] !== undefined, [v.row(cavity)]).map((e) => e.attribs["data-mark"]);
       expect(marks).toEqual([mark]);
     }
@@ -111,8 +146,15 @@ describe("CardDiffView", () => {
       "Against the published card it changes: the housing layout; 4 pin-map rows (1 new row, 1 row taken out, 2 changed).",
     );
     // Rings on each face where the cavity exists: 5 is not in the published 2×2 housing; 4 stays, empty, in the proposed one.
-    const ringed = v.faces().map((f) => DomUtils.findAll((e) => e.attribs["data-face-mark"] !== undefined, [f]).map((m) => `${m.attribs["data-cavity"]}:${m.attribs["data-face-mark"]}`));
-    expect(ringed).toEqual([["2:changed", "3:changed", "4:removed"], ["2:changed", "3:changed", "4:removed", "5:added"]]);
+    const ringed = v
+      .faces()
+      .map((f) =>
+        DomUtils.findAll((e) => e.attribs["data-face-mark"] !== undefined, [f]).map((m) => `${m.attribs["data-cavity"]}:${m.attribs["data-face-mark"]}`),
+      );
+    expect(ringed).toEqual([
+      ["2:changed", "3:changed", "4:removed"],
+      ["2:changed", "3:changed", "4:removed", "5:added"],
+    ]);
   });
 
   it("keeps unchanged rows in a collapsed <details> that works without JavaScript", () => {
@@ -207,7 +249,18 @@ describe("CardDiffView", () => {
     const after = clone(published);
     after.specs = [
       { ...published.specs[0], max: 650 },
-      { name: "Pickup air gap check", min: 0.3, max: 0.5, unit: "mm", between: ["1", "2"], atC: 20, source: "demo data", conditions: "Engine stopped, feeler gauge at the rotor tip", kind: "gap", material: null },
+      {
+        name: "Pickup air gap check",
+        min: 0.3,
+        max: 0.5,
+        unit: "mm",
+        between: ["1", "2"],
+        atC: 20,
+        source: "demo data",
+        conditions: "Engine stopped, feeler gauge at the rotor tip",
+        kind: "gap",
+        material: null,
+      },
     ];
     const v = render(published, after);
     const spec = (name: string) => v.all((e) => e.name === "tr" && e.attribs["data-spec"] === name)[0];
@@ -236,17 +289,19 @@ describe("CardDiffView", () => {
     before.pins[0] = { ...before.pins[0], circuit: img };
     const after = clone(published);
     after.layout = { ...gridLayout(2, 2), cavities: [{ cavity: script, row: 1, col: 1 }, ...gridLayout(2, 2).cavities.slice(1)], pin1: script };
-    after.pins = [
-      pin(script, img, script, img, { connector: img, cavity: script }),
-      ...published.pins.slice(1).map((p) => ({ ...p })),
-    ];
+    after.pins = [pin(script, img, script, img, { connector: img, cavity: script }), ...published.pins.slice(1).map((p) => ({ ...p }))];
     after.pins[1].code = script;
     after.name = img;
     after.photos = [{ id: "ph-x", caption: img, credit: script }];
     const v = render(before, after, { before: "<p>safe</p>", after: "<p>also safe</p>" });
     expect(v.all((e) => e.name === "script")).toHaveLength(0);
     // Only our own thumbnails (the new one and the two taken out), none from the typed strings.
-    expect(v.all((e) => e.name === "img").map((e) => e.attribs.src).sort()).toEqual(["/photos/ph-gone?size=thumb", "/photos/ph-kept?size=thumb", "/photos/ph-x?size=thumb"]);
+    expect(
+      v
+        .all((e) => e.name === "img")
+        .map((e) => e.attribs.src)
+        .sort(),
+    ).toEqual(["/photos/ph-gone?size=thumb", "/photos/ph-kept?size=thumb", "/photos/ph-x?size=thumb"]);
     expect(v.all((e) => e.attribs.onerror !== undefined)).toHaveLength(0);
     expect(v.html).not.toContain("<script");
     expect(v.html).not.toContain("<img src=x");
@@ -270,7 +325,12 @@ describe("CardDiffView", () => {
     for (const r of v.pinRows()) expect(v.text(r)).toContain("+ new row");
     expect(v.all((e) => e.name === "th" && e.attribs.scope === "col" && DomUtils.textContent(e).startsWith("Published"))).toHaveLength(0);
     expect(v.html).toContain("<p>Fresh notes.</p>");
-    expect(DomUtils.findOne((e) => e.name === "img", v.all(() => true))!.attribs.alt).toBe("Photo 1");
+    expect(
+      DomUtils.findOne(
+        (e) => e.name === "img",
+        v.all(() => true),
+      )!.attribs.alt,
+    ).toBe("Photo 1");
   });
 
   it("says when the proposal changes nothing", () => {
@@ -324,7 +384,18 @@ describe("spec conditions, kinds and open maximums", () => {
 
   it("shows an open maximum as no upper limit and an unstated condition as such", () => {
     const after = clone(published);
-    after.specs.push({ name: "Coil primary", min: 2.5, max: 3.5, unit: "Ω", between: ["3", "4"], atC: 20, source: "demo data", conditions: "", kind: "resistance", material: null });
+    after.specs.push({
+      name: "Coil primary",
+      min: 2.5,
+      max: 3.5,
+      unit: "Ω",
+      between: ["3", "4"],
+      atC: 20,
+      source: "demo data",
+      conditions: "",
+      kind: "resistance",
+      material: null,
+    });
     const v = render(published, after);
     const insul = v.all((e) => e.name === "tr" && e.attribs["data-spec"] === "Insulation to earth")[0];
     expect(v.text(v.cell(insul, "range"))).toBe("≥ 1 MΩ (open: no upper limit)");
@@ -342,9 +413,26 @@ describe("spec conditions, kinds and open maximums", () => {
 });
 
 describe("proposalProblems: a spec must state its conditions before review", () => {
-  const clean = (p: CardProposal) => proposalProblems(p, "jis", new Map([["demo-igniter", ["3", "4"]], ["demo-earth-block", ["1"]]]), { specsBefore: published.specs });
+  const clean = (p: CardProposal) =>
+    proposalProblems(
+      p,
+      "jis",
+      new Map([
+        ["demo-igniter", ["3", "4"]],
+        ["demo-earth-block", ["1"]],
+      ]),
+      { specsBefore: published.specs },
+    );
   const conditionProblems = (p: CardProposal, before = published.specs) =>
-    proposalProblems(p, "jis", new Map([["demo-igniter", ["3", "4"]], ["demo-earth-block", ["1"]]]), { specsBefore: before }).filter((x) => /^specs\./.test(x.field));
+    proposalProblems(
+      p,
+      "jis",
+      new Map([
+        ["demo-igniter", ["3", "4"]],
+        ["demo-earth-block", ["1"]],
+      ]),
+      { specsBefore: before },
+    ).filter((x) => /^specs\./.test(x.field));
 
   it("accepts the published card as it is (an open maximum is not “least above greatest”)", () => {
     expect(clean(clone(published))).toEqual([]);
@@ -352,7 +440,18 @@ describe("proposalProblems: a spec must state its conditions before review", () 
 
   it("a new spec without conditions gets a field error naming it", () => {
     const p = clone(published);
-    p.specs.push({ name: "Coil primary", min: 2.5, max: 3.5, unit: "Ω", between: ["3", "4"], atC: 20, source: "demo data", conditions: "  ", kind: "resistance", material: null });
+    p.specs.push({
+      name: "Coil primary",
+      min: 2.5,
+      max: 3.5,
+      unit: "Ω",
+      between: ["3", "4"],
+      atC: 20,
+      source: "demo data",
+      conditions: "  ",
+      kind: "resistance",
+      material: null,
+    });
     const problems = conditionProblems(p);
     expect(problems).toHaveLength(1);
     expect(problems[0].field).toBe("specs.2.conditions");
@@ -373,7 +472,16 @@ describe("proposalProblems: a spec must state its conditions before review", () 
   it("is not checked when the proposal is not about to go in for review", () => {
     const p = clone(published);
     p.specs[0] = { ...p.specs[0], conditions: "" };
-    expect(proposalProblems(p, "jis", new Map([["demo-igniter", ["3", "4"]], ["demo-earth-block", ["1"]]])).filter((x) => x.field.startsWith("specs."))).toEqual([]);
+    expect(
+      proposalProblems(
+        p,
+        "jis",
+        new Map([
+          ["demo-igniter", ["3", "4"]],
+          ["demo-earth-block", ["1"]],
+        ]),
+      ).filter((x) => x.field.startsWith("specs.")),
+    ).toEqual([]);
   });
 
   it("a spec may be measured to earth, an HT tower or a plug cap; any other name must be a cavity of the layout", () => {
@@ -381,8 +489,30 @@ describe("proposalProblems: a spec must state its conditions before review", () 
     // (common practice), points that are not cavities of the card's housing.
     const p = clone(published);
     p.specs[1] = { ...p.specs[1], between: ["1", "earth"] };
-    p.specs.push({ name: "Secondary winding", min: 10, max: 16, unit: "kΩ", between: ["HT A", "HT B"], atC: 20, source: "demo data", conditions: "Ignition off, leads out", kind: "resistance", material: "copper" });
-    p.specs.push({ name: "Plug cap", min: 4, max: 6, unit: "kΩ", between: ["cap", "HT"], atC: 20, source: "demo data", conditions: "Cap off the plug", kind: "resistance", material: "carbon" });
+    p.specs.push({
+      name: "Secondary winding",
+      min: 10,
+      max: 16,
+      unit: "kΩ",
+      between: ["HT A", "HT B"],
+      atC: 20,
+      source: "demo data",
+      conditions: "Ignition off, leads out",
+      kind: "resistance",
+      material: "copper",
+    });
+    p.specs.push({
+      name: "Plug cap",
+      min: 4,
+      max: 6,
+      unit: "kΩ",
+      between: ["cap", "HT"],
+      atC: 20,
+      source: "demo data",
+      conditions: "Cap off the plug",
+      kind: "resistance",
+      material: "carbon",
+    });
     expect(conditionProblems(p)).toEqual([]);
     p.specs[0] = { ...p.specs[0], between: ["1", "frame"] };
     const problems = conditionProblems(p);

@@ -39,8 +39,7 @@ function statesFor(f: (typeof demoFamilies)[number], d: ReturnType<typeof demoNe
 const familySlugs = demoFamilies.map((f) => f.slug);
 
 /** Whether a fault changes any probe point's reading by more than the meter's last digits. */
-const visible = (a: { step: number; value: number }[], b: { step: number; value: number }[]) =>
-  a.some((r, i) => Math.abs(r.value - b[i].value) > 0.15);
+const visible = (a: { step: number; value: number }[], b: { step: number; value: number }[]) => a.some((r, i) => Math.abs(r.value - b[i].value) > 0.15);
 
 describe.each(familySlugs)("circuit walk on %s, every circuit in every state (demo data)", (slug) => {
   const { f, d, walk } = setup(slug);
@@ -64,7 +63,9 @@ describe.each(familySlugs)("circuit walk on %s, every circuit in every state (de
         const sol = solve(d.net, w.switches);
         const dg = diagnose(w, readingsFrom(w, sol));
         // "Every point reads as it should … the load itself" is the one verdict a healthy loom may give, and only if the load does not work.
-        expect(dg.fault === null || dg.fault.reason.startsWith("Every point reads as it should"), `${c.slug} ${JSON.stringify(st)}: ${dg.fault?.reason}`).toBe(true);
+        expect(dg.fault === null || dg.fault.reason.startsWith("Every point reads as it should"), `${c.slug} ${JSON.stringify(st)}: ${dg.fault?.reason}`).toBe(
+          true,
+        );
         expect(dg.battery?.verdict, `${c.slug} ${JSON.stringify(st)}`).toBe("ok");
         for (const p of w.probePoints) {
           if (p.expect.steady === false) continue;
@@ -102,10 +103,12 @@ describe.each(familySlugs)("circuit walk on %s, every circuit in every state (de
           if (p.expect.steady === false) continue;
           const v = Math.abs(sol.reading(p.node));
           // A supply point past a switch that is open in this state reads 0 V by design: not a loss.
-          if (p.side === "supply" && v > battery / 2 && battery - v > 0.8 + 1e-9) over.push(`${c.slug} ${JSON.stringify(st)} step ${p.step} ${p.label}: ${(battery - v).toFixed(2)} V lost`);
+          if (p.side === "supply" && v > battery / 2 && battery - v > 0.8 + 1e-9)
+            over.push(`${c.slug} ${JSON.stringify(st)} step ${p.step} ${p.label}: ${(battery - v).toFixed(2)} V lost`);
           // An earth-side point before an element that is open in this state (a coil negative with the unit off) floats up
           // to the supply: that is the walk's reading by design, not a loss.
-          if (p.side === "return" && onEarthSide(p) && v < battery / 2 && v > 0.5 + 1e-9) over.push(`${c.slug} ${JSON.stringify(st)} step ${p.step} ${p.label}: ${v.toFixed(2)} V on the earth side`);
+          if (p.side === "return" && onEarthSide(p) && v < battery / 2 && v > 0.5 + 1e-9)
+            over.push(`${c.slug} ${JSON.stringify(st)} step ${p.step} ${p.label}: ${v.toFixed(2)} V on the earth side`);
         }
       }
     }
@@ -151,7 +154,10 @@ describe.each(familySlugs)("circuit walk on %s, every circuit in every state (de
             if (i < 0.2) continue; // a few tenths of an amp cannot show 0.8 V without the meter's own noise
             const sol = solve(d.net, w.switches, { faults: new Map<string, Fault>([[id, { t: "resistance", ohms: 0.8 / i }]]) });
             const readings = readingsFrom(w, sol);
-            if (!visible(readingsFrom(w, healthy), readings)) { hidden++; continue; }
+            if (!visible(readingsFrom(w, healthy), readings)) {
+              hidden++;
+              continue;
+            }
             const dg = diagnose(w, readings);
             expect(dg.fault, `${c.slug} ${JSON.stringify(st)}: +R at ${id}`).not.toBeNull();
             expect(dg.fault!.kind, `${c.slug} ${JSON.stringify(st)}: +R at ${id} → ${dg.fault!.reason}`).toBe("high_resistance");
@@ -218,7 +224,7 @@ describe("states: what each pin reads with the engine stopped, cranking and runn
       const { walk, f } = setup(slug);
       const sign = f.earth === "positive" ? -1 : 1;
       const neg = (w: Walk) => w.probePoints.filter((p) => /coil.*cavity 2/i.test(p.label));
-      for (const p of neg(walk("ignition", { points: "open" }))) expect(sign * p.expect.min! , `${slug} open`).toBeGreaterThan(0.9 * f.systemVoltage);
+      for (const p of neg(walk("ignition", { points: "open" }))) expect(sign * p.expect.min!, `${slug} open`).toBeGreaterThan(0.9 * f.systemVoltage);
       for (const p of neg(walk("ignition", { points: "closed" }))) expect(Math.abs(p.expect.nominal!), `${slug} closed`).toBeLessThan(0.5);
       expect(walk("ignition", { points: "open" }).notes.some((n) => /Points assumed open/.test(n))).toBe(true);
     }
@@ -260,7 +266,10 @@ describe("voltage-drop faults (≈ 0.2 V per contact, ≤ 0.5 V over a circuit: 
   it("a high-resistance earth is high_resistance, a broken earth is open", () => {
     const { d, walk } = setup("b800-boxer");
     const w = walk("headlamp-dip");
-    const earthWire = w.segments.filter((s) => w.probePoints[s.from - 1].side === "return" && !s.hasLoad).flatMap((s) => s.edges).find((id) => id.startsWith("w"))!;
+    const earthWire = w.segments
+      .filter((s) => w.probePoints[s.from - 1].side === "return" && !s.hasLoad)
+      .flatMap((s) => s.edges)
+      .find((id) => id.startsWith("w"))!;
     const i = Math.abs(solve(d.net, w.switches).current(earthWire));
     const bad = diagnose(w, readingsFrom(w, solve(d.net, w.switches, { faults: new Map<string, Fault>([[earthWire, { t: "resistance", ohms: 1.5 / i }]]) })));
     expect(bad.fault).toMatchObject({ kind: "high_resistance" });
@@ -308,7 +317,10 @@ describe("passive loops (ohmmeter, ignition off)", () => {
     expect(walk.probePoints[0].expect.quantity).toBe("continuity");
     expect(walk.probePoints.at(-1)!.expect).toMatchObject({ quantity: "resistance", min: 420 });
     const returnWire = walk.probePoints.at(-1)!.elementsBefore.find((e) => e.startsWith("w"))!;
-    const readings = walk.probePoints.map((p, i) => ({ step: p.step, value: i === walk.probePoints.length - 1 ? Number.POSITIVE_INFINITY : i === 0 ? 0 : p.expect.quantity === "resistance" ? 500 : 0.2 }));
+    const readings = walk.probePoints.map((p, i) => ({
+      step: p.step,
+      value: i === walk.probePoints.length - 1 ? Number.POSITIVE_INFINITY : i === 0 ? 0 : p.expect.quantity === "resistance" ? 500 : 0.2,
+    }));
     const dg = diagnose(walk, readings);
     expect(dg.fault).toMatchObject({ kind: "open" });
     expect(dg.fault!.likely).toContain(returnWire);

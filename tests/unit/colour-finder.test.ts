@@ -1,11 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { mulberry32, pick } from "../fixtures/random";
-import {
-  COLOUR_NAMES,
-  encodeColour,
-  type ColourName,
-  type ColourSystemId,
-} from "~/domain/colours";
+import { COLOUR_NAMES, encodeColour, type ColourName, type ColourSystemId } from "~/domain/colours";
 import {
   DEFAULT_LIMIT,
   FADING_PAIRS,
@@ -26,18 +21,31 @@ import {
 
 // All connectors, families and slugs here are invented test data.
 
-
 // Colours an old loom is made of; the tracer is never the base colour.
 const PALETTE: ColourName[] = [
-  "black", "brown", "red", "orange", "yellow", "green", "blue", "violet", "grey", "white", "pink",
-  "light green", "light blue", "sky blue", "dark green", "chocolate", "tan",
+  "black",
+  "brown",
+  "red",
+  "orange",
+  "yellow",
+  "green",
+  "blue",
+  "violet",
+  "grey",
+  "white",
+  "pink",
+  "light green",
+  "light blue",
+  "sky blue",
+  "dark green",
+  "chocolate",
+  "tan",
 ];
 const FAMILIES = ["fam-north", "fam-south", "fam-east", "fam-west"];
 const SYSTEMS = ["ignition", "lighting", "charging", "signals"];
 
 /** A code as a card would print it: Japanese-style letters, or English where those have no letter (tan). */
-const cardCode = (colours: ColourName[]) =>
-  encodeColour(colours[0], colours.slice(1), "jis") ?? encodeColour(colours[0], colours.slice(1), "en");
+const cardCode = (colours: ColourName[]) => encodeColour(colours[0], colours.slice(1), "jis") ?? encodeColour(colours[0], colours.slice(1), "en");
 
 function pin(cavity: string | number, colours: ColourName[]): FinderPin {
   return { cavity: String(cavity), code: colours.length ? cardCode(colours) : null, colours };
@@ -85,11 +93,10 @@ function syntheticLibrary(count: number, seed: number): FinderConnector[] {
 // families with the same colours, and a 2-way earth lead in the protective-earth colour.
 const HAND_MADE: FinderConnector[] = [
   connector("hand-headlamp-3", [["yellow", "white"], ["white", "black"], ["green"]], { family: "fam-north", system: "lighting" }),
-  connector(
-    "hand-switch-8",
-    [["yellow", "white"], ["white", "black"], ["green"], ["blue", "white"], ["red"], ["brown", "white"], ["orange"], ["grey"]],
-    { family: "fam-north", system: "lighting" },
-  ),
+  connector("hand-switch-8", [["yellow", "white"], ["white", "black"], ["green"], ["blue", "white"], ["red"], ["brown", "white"], ["orange"], ["grey"]], {
+    family: "fam-north",
+    system: "lighting",
+  }),
   connector("hand-coil-2-a", [["black", "white"], ["orange"]], { family: "fam-south", system: "ignition", gender: "socket" }),
   connector("hand-coil-2-b", [["black", "white"], ["orange"]], { family: "fam-west", system: "ignition", gender: "plug" }),
   connector("hand-earth-2", [["green-yellow"], ["black"]], { family: "fam-east", system: "charging" }),
@@ -154,8 +161,16 @@ describe("wireCost: the cost ladder (FINDER_COSTS)", () => {
 describe("fading table (common practice)", () => {
   it("holds the pairs the trade reports: white↔grey, light green↔green, chocolate↔brown, sky/light blue↔blue, yellow↔white, orange↔red, pink↔red, dark green↔green, tan↔brown", () => {
     const pairs: [ColourName, ColourName][] = [
-      ["white", "grey"], ["light green", "green"], ["chocolate", "brown"], ["sky blue", "blue"], ["light blue", "blue"],
-      ["yellow", "white"], ["orange", "red"], ["pink", "red"], ["dark green", "green"], ["tan", "brown"],
+      ["white", "grey"],
+      ["light green", "green"],
+      ["chocolate", "brown"],
+      ["sky blue", "blue"],
+      ["light blue", "blue"],
+      ["yellow", "white"],
+      ["orange", "red"],
+      ["pink", "red"],
+      ["dark green", "green"],
+      ["tan", "brown"],
     ];
     for (const [a, b] of pairs) expect(areConfusable(a, b), `${a} ↔ ${b}`).toBe(true);
     expect(areConfusable("black", "white")).toBe(false);
@@ -270,9 +285,7 @@ describe("assignment optimality: brute force over all permutations", () => {
       });
       const read = readWires(wires);
       if (!read.ok) throw new Error(read.error.message);
-      const cost = read.readings.map((readings) =>
-        pins.map((p) => Math.min(...readings.map((r) => wireCost(r, p).cost))),
-      );
+      const cost = read.readings.map((readings) => pins.map((p) => Math.min(...readings.map((r) => wireCost(r, p).cost))));
       const [best] = find({ wires, limit: 1 }, buildFinderIndex([con]));
       const total = best.matches.reduce((s, m) => s + m.cost, 0);
       const optimum = bruteForce(cost, P);
@@ -296,9 +309,7 @@ describe("assignment optimality: brute force over all permutations", () => {
       const wires = Array.from({ length: 2 + Math.floor(rnd() * 4) }, () => cardCode(randomColours(rnd))!);
       const r = findConnectors(INDEX, { wires });
       if (!r.ok) throw new Error(r.error.message);
-      const alone = LIBRARY.map((c) => find({ wires, limit: 1 }, buildFinderIndex([c]))[0]).sort(
-        (a, b) => b.score - a.score || 0,
-      );
+      const alone = LIBRARY.map((c) => find({ wires, limit: 1 }, buildFinderIndex([c]))[0]).sort((a, b) => b.score - a.score || 0);
       expect(r.candidates.map((c) => c.score)).toEqual(alone.slice(0, DEFAULT_LIMIT).map((c) => c.score));
       expect(r.stats.assigned).toBeLessThanOrEqual(r.stats.considered);
     }
@@ -512,15 +523,42 @@ describe("errors", () => {
 describe("reading the typed codes per connector (notation and house style)", () => {
   // Invented cards. Two Japanese-style houses that both write "Bl/W": black with white in one, blue with white in the
   // other (REFERENCE-FACTS 5 [from memory]); a DIN card (REFERENCE-FACTS 1.2); a British card (REFERENCE-FACTS 1.5).
-  const housed = (slug: string, family: string, notation: ColourSystemId, houseStyle: FinderConnector["houseStyle"], pins: [string, ColourName[]][]): FinderConnector => ({
-    slug, name: `Connector ${slug}`, family, system: "lighting", gender: "plug", notation, houseStyle,
+  const housed = (
+    slug: string,
+    family: string,
+    notation: ColourSystemId,
+    houseStyle: FinderConnector["houseStyle"],
+    pins: [string, ColourName[]][],
+  ): FinderConnector => ({
+    slug,
+    name: `Connector ${slug}`,
+    family,
+    system: "lighting",
+    gender: "plug",
+    notation,
+    houseStyle,
     pins: pins.map(([code, colours], i) => ({ cavity: String(i + 1), code, colours })),
   });
-  const BLACK_HOUSE = housed("bl-black-2", "fam-bl-black", "jis", "jis-bl-black", [["Bl/W", ["black", "white"]], ["R", ["red"]]]);
-  const BLUE_HOUSE = housed("bl-blue-2", "fam-bl-blue", "jis", "jis-bl-blue", [["Bl/W", ["blue", "white"]], ["R", ["red"]]]);
-  const LETTERS = housed("letters-2", "fam-letters", "jis", "jis-letters", [["B/W", ["black", "white"]], ["Gr", ["grey"]]]);
-  const GERMAN = housed("din-2", "fam-din", "din", "din", [["bl/ws", ["blue", "white"]], ["gr", ["grey"]]]);
-  const BRITISH = housed("bs-2", "fam-bs", "bs", "bs", [["N", ["brown"]], ["UW", ["blue", "white"]]]);
+  const BLACK_HOUSE = housed("bl-black-2", "fam-bl-black", "jis", "jis-bl-black", [
+    ["Bl/W", ["black", "white"]],
+    ["R", ["red"]],
+  ]);
+  const BLUE_HOUSE = housed("bl-blue-2", "fam-bl-blue", "jis", "jis-bl-blue", [
+    ["Bl/W", ["blue", "white"]],
+    ["R", ["red"]],
+  ]);
+  const LETTERS = housed("letters-2", "fam-letters", "jis", "jis-letters", [
+    ["B/W", ["black", "white"]],
+    ["Gr", ["grey"]],
+  ]);
+  const GERMAN = housed("din-2", "fam-din", "din", "din", [
+    ["bl/ws", ["blue", "white"]],
+    ["gr", ["grey"]],
+  ]);
+  const BRITISH = housed("bs-2", "fam-bs", "bs", "bs", [
+    ["N", ["brown"]],
+    ["UW", ["blue", "white"]],
+  ]);
   const HOUSED = buildFinderIndex([BLACK_HOUSE, BLUE_HOUSE, LETTERS, GERMAN, BRITISH]);
   const bySlug = (cs: FinderCandidate[], slug: string) => cs.find((c) => c.connector.slug === slug)!;
 
@@ -543,7 +581,10 @@ describe("reading the typed codes per connector (notation and house style)", () 
     }
     const [best] = find({ wires: ["brown", "blue/white"] }, HOUSED);
     expect(best.connector.slug).toBe("bs-2");
-    expect(best.matches.map((m) => [m.cavity, m.quality, m.readAs?.system])).toEqual([["1", "exact", "en"], ["2", "exact", "en"]]);
+    expect(best.matches.map((m) => [m.cavity, m.quality, m.readAs?.system])).toEqual([
+      ["1", "exact", "en"],
+      ["2", "exact", "en"],
+    ]);
   });
 
   it("with no family, each connector is compared in its own house, and each match says which reading it used", () => {
@@ -563,7 +604,10 @@ describe("reading the typed codes per connector (notation and house style)", () 
     // REFERENCE-FACTS 1.2: DIN 47002 bl = blau, gr = grau [published]; jis-letters Gr grey (REFERENCE-FACTS 1.3).
     const [din] = find({ wires: ["Bl", "Gr"], family: "fam-din" }, HOUSED);
     expect(din.connector.slug).toBe("din-2");
-    expect(din.matches.map((m) => [m.wire, m.cavity, m.quality, m.readAs?.houseStyle])).toEqual([["Bl", "1", "tracer-missing", "din"], ["Gr", "2", "exact", "din"]]);
+    expect(din.matches.map((m) => [m.wire, m.cavity, m.quality, m.readAs?.houseStyle])).toEqual([
+      ["Bl", "1", "tracer-missing", "din"],
+      ["Gr", "2", "exact", "din"],
+    ]);
     const [blue] = find({ wires: ["Bl/W", "R"], family: "fam-bl-blue" }, HOUSED);
     expect(blue.matches.every((m) => m.quality === "exact" && m.readAs?.houseStyle === "jis-bl-blue")).toBe(true);
     // Boosted, the other families still read in their own houses.
@@ -575,7 +619,10 @@ describe("reading the typed codes per connector (notation and house style)", () 
     // Common practice: blk/wht is English shorthand, not a jis-letters code.
     const [best] = find({ wires: ["blk/wht", "gry"], family: "fam-letters" }, HOUSED);
     expect(best.connector.slug).toBe("letters-2");
-    expect(best.matches.map((m) => [m.quality, m.readAs?.system])).toEqual([["exact", "en"], ["exact", "en"]]);
+    expect(best.matches.map((m) => [m.quality, m.readAs?.system])).toEqual([
+      ["exact", "en"],
+      ["exact", "en"],
+    ]);
   });
 
   it("a notation named in the query reads for every connector", () => {
@@ -592,7 +639,15 @@ describe("reading the typed codes per connector (notation and house style)", () 
 
   it("pruning does not change the ranking when connectors read in different houses", () => {
     // Same check as above (every connector scored on its own index), over a library whose families have notations.
-    const HOUSES = [["jis", "jis-letters"], ["jis", "jis-bl-black"], ["jis", "jis-bl-blue"], ["jis", "jis-caps"], ["din", "din"], ["bs", "bs"], ["jis", null]] as const;
+    const HOUSES = [
+      ["jis", "jis-letters"],
+      ["jis", "jis-bl-black"],
+      ["jis", "jis-bl-blue"],
+      ["jis", "jis-caps"],
+      ["din", "din"],
+      ["bs", "bs"],
+      ["jis", null],
+    ] as const;
     const lib = LIBRARY.map((c, i) => ({ ...c, notation: HOUSES[i % HOUSES.length][0], houseStyle: HOUSES[i % HOUSES.length][1] }));
     const index = buildFinderIndex(lib);
     const rnd = mulberry32(60445);
@@ -605,7 +660,10 @@ describe("reading the typed codes per connector (notation and house style)", () 
       const r = findConnectors(index, { wires });
       if (!r.ok) throw new Error(r.error.message);
       const alone = lib.map((c) => find({ wires, limit: 1 }, buildFinderIndex([c]))[0]).sort((a, b) => b.score - a.score);
-      expect(r.candidates.map((c) => c.score), JSON.stringify(wires)).toEqual(alone.slice(0, DEFAULT_LIMIT).map((c) => c.score));
+      expect(
+        r.candidates.map((c) => c.score),
+        JSON.stringify(wires),
+      ).toEqual(alone.slice(0, DEFAULT_LIMIT).map((c) => c.score));
     }
   });
 });

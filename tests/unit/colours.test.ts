@@ -37,8 +37,7 @@ function bad(input: string, system: ColourSystemId | "auto", options?: DecodeOpt
 }
 
 const wire = (d: DecodedColour) => [d.base?.name ?? null, ...d.tracers.map((t) => t.name)];
-const readingIn = (d: DecodedColour, system: ColourSystemId) =>
-  d.ambiguities.filter((a) => a.system === system).map((a) => a.reading);
+const readingIn = (d: DecodedColour, system: ColourSystemId) => d.ambiguities.filter((a) => a.system === system).map((a) => a.reading);
 
 describe("IEC 60757 code table", () => {
   // IEC 60757:2021 Table 1 (codes [published] H; order M, from the GOST 28763-90 copy) — REFERENCE-FACTS 1.1.
@@ -306,7 +305,14 @@ describe("older British letter code (bs)", () => {
     expect(ok("LG", "bs").colours).toEqual(["light green"]);
     expect(ok("P", "bs").colours).toEqual(["violet"]);
     expect(ok("P", "bs").iec).toBe("VT");
-    for (const [code, colour] of [["B", "black"], ["G", "green"], ["R", "red"], ["W", "white"], ["Y", "yellow"], ["O", "orange"]]) {
+    for (const [code, colour] of [
+      ["B", "black"],
+      ["G", "green"],
+      ["R", "red"],
+      ["W", "white"],
+      ["Y", "yellow"],
+      ["O", "orange"],
+    ]) {
       expect(ok(code, "bs").colours).toEqual([colour]);
     }
   });
@@ -551,7 +557,13 @@ describe("auto-detection and ambiguities", () => {
       expect(ok(s, d.system, { houseStyle: d.houseStyle }).ambiguities, s).toEqual([]);
     }
     // Explicit non-jis systems have one reading, so no ambiguities either (module contract).
-    for (const [s, system] of [["Bl", "din"], ["GR", "din"], ["LG", "bs"], ["RDBN", "din"], ["BU", "iec"]] as const) {
+    for (const [s, system] of [
+      ["Bl", "din"],
+      ["GR", "din"],
+      ["LG", "bs"],
+      ["RDBN", "din"],
+      ["BU", "iec"],
+    ] as const) {
       expect(ok(s, system).ambiguities).toEqual([]);
     }
   });
@@ -710,7 +722,13 @@ describe("house styles", () => {
   it("defines exactly the seven house styles, each naming its notation", () => {
     // Our ids: the demo makes' houses (jis-letters, din, bs), the other Japanese-style houses of REFERENCE-FACTS 5 [from memory], and en.
     expect(HOUSE_STYLES.map((h) => [h.id, h.notation])).toEqual([
-      ["jis-letters", "jis"], ["jis-bl-black", "jis"], ["jis-bl-blue", "jis"], ["jis-caps", "jis"], ["din", "din"], ["bs", "bs"], ["en", "en"],
+      ["jis-letters", "jis"],
+      ["jis-bl-black", "jis"],
+      ["jis-bl-blue", "jis"],
+      ["jis-caps", "jis"],
+      ["din", "din"],
+      ["bs", "bs"],
+      ["en", "en"],
     ]);
     expect(JIS_HOUSE_ORDER).toEqual(["jis-letters", "jis-bl-black", "jis-bl-blue", "jis-caps"]);
     for (const h of HOUSE_STYLES) expect(h.source.length, h.id).toBeGreaterThan(5);
@@ -721,7 +739,13 @@ describe("house styles", () => {
     // REFERENCE-FACTS 1.3 [from memory]: B black, L blue, Lb light blue, Lg light green, Gr/Gy grey, Sb sky blue.
     const t = table("jis-letters");
     expect([t.get("B"), t.get("L"), t.get("Lb"), t.get("Lg"), t.get("Gr"), t.get("Gy"), t.get("Sb")]).toEqual([
-      "black", "blue", "light blue", "light green", "grey", "grey", "sky blue",
+      "black",
+      "blue",
+      "light blue",
+      "light green",
+      "grey",
+      "grey",
+      "sky blue",
     ]);
     expect(colourSystems().find((s) => s.id === "jis")!.codes).toEqual(houseStyles("jis")[0].codes);
   });
@@ -757,10 +781,25 @@ describe("house styles", () => {
   it("jis-caps: upper-case pairs BK, BL, LB, PU, GY, OR and the rest as pairs", () => {
     // REFERENCE-FACTS 5 [from memory] for BK BL LB PU GY OR; PU is purple, our word violet (names.ts, IEC 60757 VT).
     const h = { houseStyle: "jis-caps" };
-    const six: [string, ColourName][] = [["BK", "black"], ["BL", "blue"], ["LB", "light blue"], ["PU", "violet"], ["GY", "grey"], ["OR", "orange"]];
+    const six: [string, ColourName][] = [
+      ["BK", "black"],
+      ["BL", "blue"],
+      ["LB", "light blue"],
+      ["PU", "violet"],
+      ["GY", "grey"],
+      ["OR", "orange"],
+    ];
     for (const [code, colour] of six) expect(ok(code, "jis", h).colours, code).toEqual([colour]);
     // The other pairs are our judgement [from memory]: BR brown, RD red, YE yellow, GN green, WH white, PK pink, LG light green.
-    const rest: [string, ColourName][] = [["BR", "brown"], ["RD", "red"], ["YE", "yellow"], ["GN", "green"], ["WH", "white"], ["PK", "pink"], ["LG", "light green"]];
+    const rest: [string, ColourName][] = [
+      ["BR", "brown"],
+      ["RD", "red"],
+      ["YE", "yellow"],
+      ["GN", "green"],
+      ["WH", "white"],
+      ["PK", "pink"],
+      ["LG", "light green"],
+    ];
     for (const [code, colour] of rest) expect(ok(code, "jis", h).colours, code).toEqual([colour]);
     // Runs split into pairs: BKWH is black with white; GY is grey, never green with yellow.
     expect(wire(ok("BKWH", "jis", h))).toEqual(["black", "white"]);
@@ -846,11 +885,35 @@ describe("English words are English", () => {
 
   it("EN_COLOUR_WORDS are exactly the whole words of EN_CODES; the rest are abbreviations", () => {
     // Our partition of the common-practice English table.
-    for (const w of EN_COLOUR_WORDS) expect(EN_CODES.some((c) => c.code === w), w).toBe(true);
+    for (const w of EN_COLOUR_WORDS)
+      expect(
+        EN_CODES.some((c) => c.code === w),
+        w,
+      ).toBe(true);
     const abbreviations = EN_CODES.map((c) => c.code).filter((c) => !EN_COLOUR_WORDS.includes(c));
     expect(abbreviations).toEqual([
-      "blk", "bk", "bl", "brn", "rd", "org", "yel", "ylw", "grn", "gr", "blu", "vio", "pur", "gry", "wht", "wh", "pnk", "turq",
-      "lt grn", "dk grn", "lt blu", "choc",
+      "blk",
+      "bk",
+      "bl",
+      "brn",
+      "rd",
+      "org",
+      "yel",
+      "ylw",
+      "grn",
+      "gr",
+      "blu",
+      "vio",
+      "pur",
+      "gry",
+      "wht",
+      "wh",
+      "pnk",
+      "turq",
+      "lt grn",
+      "dk grn",
+      "lt blu",
+      "choc",
     ]);
   });
 
@@ -870,8 +933,13 @@ describe("English words are English", () => {
   it("reads whole-word combinations as en only", () => {
     // API.md example "Red w/ White stripe"; common practice.
     for (const [typed, colours] of [
-      ["brown", ["brown"]], ["BROWN", ["brown"]], ["blue", ["blue"]], ["Red w/ White stripe", ["red", "white"]], ["black/white", ["black", "white"]],
-      ["BROWN/WHITE", ["brown", "white"]], ["light blue/red", ["light blue", "red"]],
+      ["brown", ["brown"]],
+      ["BROWN", ["brown"]],
+      ["blue", ["blue"]],
+      ["Red w/ White stripe", ["red", "white"]],
+      ["black/white", ["black", "white"]],
+      ["BROWN/WHITE", ["brown", "white"]],
+      ["light blue/red", ["light blue", "red"]],
     ] as const) {
       const d = ok(typed, "auto");
       expect([d.system, wire(d)], typed).toEqual(["en", colours]);
@@ -903,8 +971,17 @@ describe("green and yellow (IEC 60445)", () => {
   it("flags every reading that is green with yellow, either way round, or green-yellow", () => {
     // IEC 60445 keeps green-and-yellow for the protective conductor (REFERENCE-FACTS 5 [published]); IEC 60757 clause 5.1.
     for (const [code, system] of [
-      ["G/Y", "jis"], ["Y/G", "jis"], ["GY", "bs"], ["YG", "bs"], ["gn/ge", "din"], ["ge/gn", "din"], ["gnge", "din"], ["GNYE", "iec"],
-      ["green and yellow", "en"], ["grn/yel", "en"], ["G/Y/R", "jis"],
+      ["G/Y", "jis"],
+      ["Y/G", "jis"],
+      ["GY", "bs"],
+      ["YG", "bs"],
+      ["gn/ge", "din"],
+      ["ge/gn", "din"],
+      ["gnge", "din"],
+      ["GNYE", "iec"],
+      ["green and yellow", "en"],
+      ["grn/yel", "en"],
+      ["G/Y/R", "jis"],
     ] as const) {
       const d = ok(code, system);
       expect(flagged(d), `${code} (${system})`).toEqual(["green_yellow_reserved"]);
@@ -917,7 +994,14 @@ describe("green and yellow (IEC 60445)", () => {
 
   it("does not flag other wires", () => {
     // IEC 60757 clause 5.1 speaks of green and yellow combined; a red wire with both as tracers is not that colour (our reading).
-    for (const [code, system] of [["G/W", "jis"], ["Y/R", "jis"], ["R/G/Y", "jis"], ["Lg/Y", "jis"], ["GN", "iec"], ["ws/rt", "din"]] as const) {
+    for (const [code, system] of [
+      ["G/W", "jis"],
+      ["Y/R", "jis"],
+      ["R/G/Y", "jis"],
+      ["Lg/Y", "jis"],
+      ["GN", "iec"],
+      ["ws/rt", "din"],
+    ] as const) {
       expect(flagged(ok(code, system)), code).toEqual([]);
     }
   });

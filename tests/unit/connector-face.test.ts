@@ -1,19 +1,22 @@
 import { describe, expect, it } from "vitest";
-import {
-  faceGeometry,
-  gridLayout,
-  layoutProblems,
-  mirrorGeometry,
-  type FaceGeometry,
-  type HousingLayout,
-} from "~/domain/connector-face";
+import { faceGeometry, gridLayout, layoutProblems, mirrorGeometry, type FaceGeometry, type HousingLayout } from "~/domain/connector-face";
 
 // Invented housings (demo data only): a 2-way, a 6-way in two rows, a 12-cell grid with two
 // cells unused and pin 1 moved, and a single-row 6-way with the latch on the side.
 const layouts: [string, HousingLayout][] = [
   ["1×2", gridLayout(1, 2)],
   ["2×3", gridLayout(2, 3, { latch: "bottom" })],
-  ["3×4 with gaps", gridLayout(3, 4, { missing: [[1, 4], [3, 1]], pin1: "2", latch: "left" })],
+  [
+    "3×4 with gaps",
+    gridLayout(3, 4, {
+      missing: [
+        [1, 4],
+        [3, 1],
+      ],
+      pin1: "2",
+      latch: "left",
+    }),
+  ],
   ["1×6", gridLayout(1, 6, { latch: "right" })],
 ];
 
@@ -33,7 +36,13 @@ describe("faceGeometry: mating face of this connector", () => {
   });
 
   it("puts the mean of every full grid at (0, 0)", () => {
-    for (const [rows, cols] of [[1, 2], [2, 3], [3, 4], [1, 6], [5, 5]] as const) {
+    for (const [rows, cols] of [
+      [1, 2],
+      [2, 3],
+      [3, 4],
+      [1, 6],
+      [5, 5],
+    ] as const) {
       const g = faceGeometry(gridLayout(rows, cols));
       const n = g.cavities.length;
       expect(n).toBe(rows * cols);
@@ -78,7 +87,10 @@ describe("mirrorGeometry", () => {
   it("negates x, keeps y, swaps a left/right latch and keeps top/bottom", () => {
     const g = faceGeometry(gridLayout(1, 2, { latch: "left" }));
     const m = mirrorGeometry(g);
-    expect(m.cavities).toEqual([{ cavity: "1", x: 5, y: 0 }, { cavity: "2", x: -5, y: 0 }]);
+    expect(m.cavities).toEqual([
+      { cavity: "1", x: 5, y: 0 },
+      { cavity: "2", x: -5, y: 0 },
+    ]);
     expect(m.latch).toBe("right");
     expect(mirrorGeometry({ ...g, latch: "right" }).latch).toBe("left");
     expect(mirrorGeometry({ ...g, latch: "top" }).latch).toBe("top");
@@ -162,8 +174,14 @@ describe("layoutProblems", () => {
 
   it("catches two cavities with one label", () => {
     const layout: HousingLayout = {
-      rows: 1, cols: 2, pin1: "1", latch: "top",
-      cavities: [{ cavity: "1", row: 1, col: 1 }, { cavity: "1", row: 1, col: 2 }],
+      rows: 1,
+      cols: 2,
+      pin1: "1",
+      latch: "top",
+      cavities: [
+        { cavity: "1", row: 1, col: 1 },
+        { cavity: "1", row: 1, col: 2 },
+      ],
     };
     const problems = layoutProblems(layout);
     expect(problems).toHaveLength(1);
@@ -172,17 +190,35 @@ describe("layoutProblems", () => {
 
   it("catches two cavities in one cell", () => {
     const layout: HousingLayout = {
-      rows: 1, cols: 2, pin1: "1", latch: "top",
-      cavities: [{ cavity: "1", row: 1, col: 1 }, { cavity: "2", row: 1, col: 1 }],
+      rows: 1,
+      cols: 2,
+      pin1: "1",
+      latch: "top",
+      cavities: [
+        { cavity: "1", row: 1, col: 1 },
+        { cavity: "2", row: 1, col: 1 },
+      ],
     };
     expect(layoutProblems(layout)).toEqual([`Cavities "1" and "2" are both at row 1, column 1.`]);
   });
 
   it("catches cavities outside the grid", () => {
-    for (const [row, col] of [[0, 1], [1, 0], [3, 1], [1, 4], [1.5, 1]]) {
+    for (const [row, col] of [
+      [0, 1],
+      [1, 0],
+      [3, 1],
+      [1, 4],
+      [1.5, 1],
+    ]) {
       const layout: HousingLayout = {
-        rows: 2, cols: 3, pin1: "1", latch: "top",
-        cavities: [{ cavity: "1", row: 1, col: 1 }, { cavity: "X", row, col }],
+        rows: 2,
+        cols: 3,
+        pin1: "1",
+        latch: "top",
+        cavities: [
+          { cavity: "1", row: 1, col: 1 },
+          { cavity: "X", row, col },
+        ],
       };
       const problems = layoutProblems(layout);
       expect(problems, `${row},${col}`).toHaveLength(1);
@@ -212,16 +248,30 @@ describe("gridLayout", () => {
   it("numbers cavities row by row, left to right, with pin 1 and the latch defaulted", () => {
     const l = gridLayout(2, 3);
     expect(l).toEqual({
-      rows: 2, cols: 3, pin1: "1", latch: "top",
+      rows: 2,
+      cols: 3,
+      pin1: "1",
+      latch: "top",
       cavities: [
-        { cavity: "1", row: 1, col: 1 }, { cavity: "2", row: 1, col: 2 }, { cavity: "3", row: 1, col: 3 },
-        { cavity: "4", row: 2, col: 1 }, { cavity: "5", row: 2, col: 2 }, { cavity: "6", row: 2, col: 3 },
+        { cavity: "1", row: 1, col: 1 },
+        { cavity: "2", row: 1, col: 2 },
+        { cavity: "3", row: 1, col: 3 },
+        { cavity: "4", row: 2, col: 1 },
+        { cavity: "5", row: 2, col: 2 },
+        { cavity: "6", row: 2, col: 3 },
       ],
     });
   });
 
   it("skips missing cells and keeps the numbering continuous", () => {
-    const l = gridLayout(3, 4, { missing: [[1, 4], [3, 1]], pin1: "2", latch: "left" });
+    const l = gridLayout(3, 4, {
+      missing: [
+        [1, 4],
+        [3, 1],
+      ],
+      pin1: "2",
+      latch: "left",
+    });
     expect(l.cavities).toHaveLength(10);
     expect(l.cavities.map((c) => c.cavity)).toEqual(["1", "2", "3", "4", "5", "6", "7", "8", "9", "10"]);
     expect(l.cavities.find((c) => c.row === 1 && c.col === 4)).toBeUndefined();

@@ -15,8 +15,7 @@ const paint: FaceCavityPaint[] = [
   // cavity 6 has no wire
 ];
 
-const render = (props: Partial<Parameters<typeof FaceView>[0]> = {}) =>
-  renderToStaticMarkup(createElement(FaceView, { geometry, paint, ...props }));
+const render = (props: Partial<Parameters<typeof FaceView>[0]> = {}) => renderToStaticMarkup(createElement(FaceView, { geometry, paint, ...props }));
 
 const count = (html: string, re: RegExp) => (html.match(re) ?? []).length;
 
@@ -49,9 +48,7 @@ describe("FaceView", () => {
   });
 
   it("gives each instance its own clip-path id", () => {
-    const two = renderToStaticMarkup(
-      createElement("div", null, createElement(FaceView, { geometry, paint }), createElement(FaceView, { geometry, paint })),
-    );
+    const two = renderToStaticMarkup(createElement("div", null, createElement(FaceView, { geometry, paint }), createElement(FaceView, { geometry, paint })));
     const ids = [...two.matchAll(/<clipPath id="([^"]+)"/g)].map((m) => m[1]);
     expect(ids).toHaveLength(2);
     expect(ids[0]).not.toBe(ids[1]);

@@ -25,7 +25,9 @@ function keepSets(slug: string): string[][] {
 
 describe.each(demoFamilies.map((f) => f.slug))("loom planner on %s (demo data)", (slug) => {
   const f = family(slug);
-  const plans = keepSets(slug).flatMap((keep) => (["factory", "simple"] as const).map((scheme) => ({ keep, scheme, p: plan(demoPlannerInput(f, keep, scheme)) })));
+  const plans = keepSets(slug).flatMap((keep) =>
+    (["factory", "simple"] as const).map((scheme) => ({ keep, scheme, p: plan(demoPlannerInput(f, keep, scheme)) })),
+  );
 
   it("no wire that carries power in any state is a signal wire; only pickup and sensor wires are signal", () => {
     for (const { p } of plans) {
@@ -74,7 +76,8 @@ describe.each(demoFamilies.map((f) => f.slug))("loom planner on %s (demo data)",
   });
 
   it("every wire a fuse protects stands the fuse short-term (10 A/mm², rule of thumb)", () => {
-    for (const { p } of plans) for (const fz of p.fuses) for (const w of fz.protects) expect(10 * p.rows.find((r) => r.wire === w)!.sizeMm2).toBeGreaterThanOrEqual(fz.ratingA - 1e-9);
+    for (const { p } of plans)
+      for (const fz of p.fuses) for (const w of fz.protects) expect(10 * p.rows.find((r) => r.wire === w)!.sizeMm2).toBeGreaterThanOrEqual(fz.ratingA - 1e-9);
   });
 
   it("a wire whose current the dropped circuits did not reduce is never cut thinner than the factory's", () => {
@@ -88,7 +91,10 @@ describe.each(demoFamilies.map((f) => f.slug))("loom planner on %s (demo data)",
 
 describe("what each wire carries", () => {
   it("stator leads carry the alternator's whole output (12–15 A on the demo fours; common practice), never the 0.5 mm² signal minimum", () => {
-    for (const [slug, amps] of [["rx750-four", 14], ["rx400-four", 12]] as const) {
+    for (const [slug, amps] of [
+      ["rx750-four", 14],
+      ["rx400-four", 12],
+    ] as const) {
       const p = plan(demoPlannerInput(family(slug)));
       const stator = p.rows.filter((r) => /Alternator stator/.test(r.from) || /Alternator stator/.test(r.to));
       expect(stator.length).toBe(3);
@@ -166,7 +172,7 @@ describe("sizing", () => {
     expect(circuitDropPct({ system: "lighting", slug: "tail-lamp", loads: [] }).pct).toBe(10);
     expect(circuitDropPct({ system: "starting", slug: "starter-motor", loads: [] }).pct).toBe(5);
     // Light ∝ V^3.4: 0.9^3.4 ≈ 0.70 (REFERENCE-FACTS 5.1, from memory).
-    expect(0.9 ** 3.4).toBeCloseTo(0.70, 2);
+    expect(0.9 ** 3.4).toBeCloseTo(0.7, 2);
   });
 
   it("builder lengths override the family's, and a longer run needs at least as much copper", () => {
@@ -218,7 +224,9 @@ describe("parts and CSV", () => {
     p.rows[0].from = '=HYPERLINK("x")';
     const csv = cutListCsv(p);
     const lines = csv.split("\r\n");
-    expect(lines[0]).toBe("wire,from,to,colour,colours,length_m,length_source,current_a,continuous_a,peak_a,role,circuits,size_mm2,awg,drop_v,drop_pct,decided_by,notes");
+    expect(lines[0]).toBe(
+      "wire,from,to,colour,colours,length_m,length_source,current_a,continuous_a,peak_a,role,circuits,size_mm2,awg,drop_v,drop_pct,decided_by,notes",
+    );
     expect(lines.at(-1)).toBe("");
     expect(lines[1]).toContain(`"'=HYPERLINK(""x"")"`);
     expect(lines.length).toBe(p.rows.length + 2);

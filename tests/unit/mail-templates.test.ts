@@ -1,12 +1,5 @@
 import { describe, expect, it } from "vitest";
-import {
-  accountExistsMessage,
-  escapeHtml,
-  resetPasswordMessage,
-  reviewOutcomeMessage,
-  verifyEmailMessage,
-  type MailContent,
-} from "~/domain/mail-templates";
+import { accountExistsMessage, escapeHtml, resetPasswordMessage, reviewOutcomeMessage, verifyEmailMessage, type MailContent } from "~/domain/mail-templates";
 
 const link = "https://loomlore.example/verify?token=abc&x=1";
 const hostile = `<script>alert("x")</script> & 'quotes'`;
@@ -163,7 +156,9 @@ describe("redactTokens", () => {
       expect(r).not.toContain("Q2x0d0VmTkF2bFpRZ2lHa0x3_-9");
       expect(r).toContain(`token=${REDACTED}`);
     }
-    expect(redactTokens("see https://x.example/verify?a=1&amp;token=abc#top and /search?q=token")).toBe(`see https://x.example/verify?a=1&amp;token=${REDACTED}#top and /search?q=token`);
+    expect(redactTokens("see https://x.example/verify?a=1&amp;token=abc#top and /search?q=token")).toBe(
+      `see https://x.example/verify?a=1&amp;token=${REDACTED}#top and /search?q=token`,
+    );
     expect(redactTokens("no links here")).toBe("no links here");
   });
 });

@@ -18,10 +18,16 @@ function demo(): CardProposal {
     system: "ignition",
     matesWith: "demo-loom-socket",
     layout: {
-      rows: 2, cols: 3, pin1: "2", latch: "left",
+      rows: 2,
+      cols: 3,
+      pin1: "2",
+      latch: "left",
       cavities: [
-        { cavity: "1", row: 1, col: 1 }, { cavity: "2", row: 1, col: 2 }, { cavity: "3", row: 1, col: 3 },
-        { cavity: "4", row: 2, col: 1 }, { cavity: "5", row: 2, col: 2 },
+        { cavity: "1", row: 1, col: 1 },
+        { cavity: "2", row: 1, col: 2 },
+        { cavity: "3", row: 1, col: 3 },
+        { cavity: "4", row: 2, col: 1 },
+        { cavity: "5", row: 2, col: 2 },
       ],
     },
     pins: [
@@ -32,8 +38,30 @@ function demo(): CardProposal {
       { cavity: "5", code: null, circuit: "", terminal: null, goesTo: null },
     ],
     specs: [
-      { name: "Pickup coil resistance", min: 400, max: 500, unit: "Ω", between: ["1", "4"], atC: 20, source: "Demo manual p. 7", conditions: "Ignition off, plug apart, meter on the 2 kΩ range", kind: "resistance", material: "copper" },
-      { name: "Supply voltage", min: 12.2, max: 12.8, unit: "V", between: ["2", "4"], atC: 25, source: "", conditions: "", kind: "regulated-voltage", material: null },
+      {
+        name: "Pickup coil resistance",
+        min: 400,
+        max: 500,
+        unit: "Ω",
+        between: ["1", "4"],
+        atC: 20,
+        source: "Demo manual p. 7",
+        conditions: "Ignition off, plug apart, meter on the 2 kΩ range",
+        kind: "resistance",
+        material: "copper",
+      },
+      {
+        name: "Supply voltage",
+        min: 12.2,
+        max: 12.8,
+        unit: "V",
+        between: ["2", "4"],
+        atC: 25,
+        source: "",
+        conditions: "",
+        kind: "regulated-voltage",
+        material: null,
+      },
     ],
     notes: "Check the **pin 1** mark.\n\n- first\n- second",
     photos: [],
@@ -48,7 +76,9 @@ const familyCards: ProposalEditorProps["familyCards"] = [
 // The demo's Japanese-style maker writes jis-letters (REFERENCE-FACTS 1.3): in that house "Bl" is no code. Without a
 // house every Japanese-style house is tried and Bl reads as black (REFERENCE-FACTS 5 [from memory]).
 const render = (props: Partial<ProposalEditorProps> = {}) =>
-  renderToStaticMarkup(createElement(ProposalEditor, { proposal: demo(), colourSystem: "jis", houseStyle: "jis-letters", familyCards, problems: [], ...props }));
+  renderToStaticMarkup(
+    createElement(ProposalEditor, { proposal: demo(), colourSystem: "jis", houseStyle: "jis-letters", familyCards, problems: [], ...props }),
+  );
 
 type El = ReturnType<typeof DomUtils.findAll>[number];
 const dom = (html: string) => parseDocument(html).children;
@@ -94,9 +124,14 @@ describe("ProposalEditor: field names", () => {
     for (let r = 1; r <= 2; r++) for (let c = 1; c <= 3; c++) expected.push(`layout.cell.${r}.${c}`);
     for (let i = 0; i < 5; i++) for (const f of ["cavity", "code", "circuit", "terminal", "goesToConnector", "goesToCavity"]) expected.push(`pins.${i}.${f}`);
     for (let i = 0; i < 2; i++) {
-      for (const f of ["name", "min", "max", "open", "unit", "betweenA", "betweenB", "atC", "source", "conditions", "kind", "material"]) expected.push(`specs.${i}.${f}`);
+      for (const f of ["name", "min", "max", "open", "unit", "betweenA", "betweenB", "atC", "source", "conditions", "kind", "material"])
+        expected.push(`specs.${i}.${f}`);
     }
-    for (const n of expected) expect(names.filter((x) => x === n), n).toHaveLength(1);
+    for (const n of expected)
+      expect(
+        names.filter((x) => x === n),
+        n,
+      ).toHaveLength(1);
     // Two radios for gender; the paste box's own fields; nothing else.
     expect(names.filter((x) => x === "gender")).toHaveLength(2);
     expect(new Set(names)).toEqual(new Set([...expected, "gender", "paste", "pasteMode"]));
@@ -106,7 +141,9 @@ describe("ProposalEditor: field names", () => {
 
   it("gives every element a unique id and renders without React warnings", () => {
     const errors: unknown[] = [];
-    const spy = vi.spyOn(console, "error").mockImplementation((...a: unknown[]) => { errors.push(a); });
+    const spy = vi.spyOn(console, "error").mockImplementation((...a: unknown[]) => {
+      errors.push(a);
+    });
     try {
       const html = render({ problems: [{ field: "pins.0.goesTo", message: "x" }] });
       const ids = all(html, (e) => !!e.attribs.id).map((e) => e.attribs.id);
@@ -166,7 +203,18 @@ describe("ProposalEditor: spec conditions, kind, material and an open maximum", 
   // Invented demo spec: an insulation test of a pickup winding to the engine, which must read open.
   const withInsulation = (): CardProposal => {
     const p = demo();
-    p.specs.push({ name: "Pickup to earth", min: 1, max: null, unit: "MΩ", between: ["1", "4"], atC: 20, source: "", conditions: "Ignition off, plug apart, cavity 1 to the engine", kind: "insulation", material: null });
+    p.specs.push({
+      name: "Pickup to earth",
+      min: 1,
+      max: null,
+      unit: "MΩ",
+      between: ["1", "4"],
+      atC: 20,
+      source: "",
+      conditions: "Ignition off, plug apart, cavity 1 to the engine",
+      kind: "insulation",
+      material: null,
+    });
     return p;
   };
 
@@ -198,7 +246,8 @@ describe("ProposalEditor: spec conditions, kind, material and an open maximum", 
   });
 
   it("shows a server problem about a spec's conditions beside its conditions box", () => {
-    const message = "Spec 1: say when and how it can be measured (ignition off or on, engine stopped or at what rpm, what is unplugged), so a rider can repeat it.";
+    const message =
+      "Spec 1: say when and how it can be measured (ignition off or on, engine stopped or at what rpm, what is unplugged), so a rider can repeat it.";
     const p = demo();
     p.specs[0] = { ...p.specs[0], conditions: "" };
     const html = render({ proposal: p, problems: [{ field: "specs.0.conditions", message }] });
@@ -311,7 +360,7 @@ describe("ProposalEditor: problems", () => {
     { field: "name", message: "Give the card a name, e.g. “Pickup coil plug”." },
     { field: "pins.2.code", message: "Row 3: “Bl” is not a colour in this family's notation." },
     { field: "pins.0.goesTo", message: "Row 1: that connector has no cavity “3”." },
-    { field: "layout", message: "Cavity label \"9\" is used more than once." },
+    { field: "layout", message: 'Cavity label "9" is used more than once.' },
     { field: "specs.1.between", message: "Spec 2: cavity “2” is not in the layout." },
     { field: "sourceKind", message: "Say how you know: traced on the bike, factory manual or measured." },
   ];

@@ -1,6 +1,14 @@
 import { describe, expect, it } from "vitest";
 import {
-  addPinRow, addSpecRow, applyEditorIntent, movePinRow, pastePins, removePinRow, removeSpecRow, resizeLayout, syncPinsToLayout,
+  addPinRow,
+  addSpecRow,
+  applyEditorIntent,
+  movePinRow,
+  pastePins,
+  removePinRow,
+  removeSpecRow,
+  resizeLayout,
+  syncPinsToLayout,
 } from "~/domain/proposal-edits";
 import { blankProposal, type CardProposal, type ProposedPin } from "~/domain/submissions";
 import { LIMITS } from "~/validation/submissions";
@@ -12,10 +20,16 @@ function demo(): CardProposal {
     name: "Demo pickup plug",
     location: "Under the tank, left side",
     layout: {
-      rows: 2, cols: 3, pin1: "1", latch: "top",
+      rows: 2,
+      cols: 3,
+      pin1: "1",
+      latch: "top",
       cavities: [
-        { cavity: "1", row: 1, col: 1 }, { cavity: "2", row: 1, col: 2 }, { cavity: "3", row: 1, col: 3 },
-        { cavity: "4", row: 2, col: 1 }, { cavity: "5", row: 2, col: 2 },
+        { cavity: "1", row: 1, col: 1 },
+        { cavity: "2", row: 1, col: 2 },
+        { cavity: "3", row: 1, col: 3 },
+        { cavity: "4", row: 2, col: 1 },
+        { cavity: "5", row: 2, col: 2 },
       ],
     },
     pins: [
@@ -23,7 +37,20 @@ function demo(): CardProposal {
       { cavity: "2", code: "R/Y", circuit: "Switched supply", terminal: "15", goesTo: { connector: "demo-loom-socket", cavity: "2" } },
       { cavity: "3", code: "G/R", circuit: "Earth", terminal: "31", goesTo: null },
     ],
-    specs: [{ name: "Pickup coil resistance", min: 400, max: 500, unit: "Ω", between: ["1", "3"], atC: 20, source: "demo", conditions: "Ignition off, plug apart", kind: "resistance", material: "copper" }],
+    specs: [
+      {
+        name: "Pickup coil resistance",
+        min: 400,
+        max: 500,
+        unit: "Ω",
+        between: ["1", "3"],
+        atC: 20,
+        source: "demo",
+        conditions: "Ignition off, plug apart",
+        kind: "resistance",
+        material: "copper",
+      },
+    ],
   };
 }
 
@@ -86,9 +113,24 @@ describe("spec rows", () => {
 
   it("keeps the conditions, kind, material and an open maximum of the other rows when one is removed", () => {
     const p = demo();
-    p.specs.push({ name: "Pickup to earth", min: 1, max: null, unit: "MΩ", between: ["1", "3"], atC: 20, source: "demo", conditions: "Plug apart, cavity 1 to the engine", kind: "insulation", material: null });
+    p.specs.push({
+      name: "Pickup to earth",
+      min: 1,
+      max: null,
+      unit: "MΩ",
+      between: ["1", "3"],
+      atC: 20,
+      source: "demo",
+      conditions: "Plug apart, cavity 1 to the engine",
+      kind: "insulation",
+      material: null,
+    });
     expect(removeSpecRow(p, 0).specs).toEqual([p.specs[1]]);
-    expect(applyEditorIntent(p, "remove-spec:0", {})!.proposal.specs[0]).toMatchObject({ max: null, kind: "insulation", conditions: "Plug apart, cavity 1 to the engine" });
+    expect(applyEditorIntent(p, "remove-spec:0", {})!.proposal.specs[0]).toMatchObject({
+      max: null,
+      kind: "insulation",
+      conditions: "Plug apart, cavity 1 to the engine",
+    });
   });
 
   it("stops at the spec limit", () => {
@@ -101,7 +143,10 @@ describe("resizeLayout", () => {
   it("keeps the cavities that still fit, where they are", () => {
     const next = resizeLayout(demo(), 1, 2);
     expect(next.layout).toMatchObject({ rows: 1, cols: 2, pin1: "1" });
-    expect(next.layout.cavities).toEqual([{ cavity: "1", row: 1, col: 1 }, { cavity: "2", row: 1, col: 2 }]);
+    expect(next.layout.cavities).toEqual([
+      { cavity: "1", row: 1, col: 1 },
+      { cavity: "2", row: 1, col: 2 },
+    ]);
     // The pin map is not touched: rows for dropped cavities stay (and are reported by the checks).
     expect(cavitiesOf(next)).toEqual(["1", "2", "3"]);
   });
@@ -134,7 +179,17 @@ describe("syncPinsToLayout", () => {
   });
 
   it("gives a label drawn twice one row only", () => {
-    const p = { ...demo(), pins: [], layout: { ...demo().layout, cavities: [{ cavity: "A", row: 1, col: 1 }, { cavity: "A", row: 1, col: 2 }] } };
+    const p = {
+      ...demo(),
+      pins: [],
+      layout: {
+        ...demo().layout,
+        cavities: [
+          { cavity: "A", row: 1, col: 1 },
+          { cavity: "A", row: 1, col: 2 },
+        ],
+      },
+    };
     expect(cavitiesOf(syncPinsToLayout(p))).toEqual(["A"]);
   });
 });

@@ -9,17 +9,32 @@ import type { ProposedPin } from "~/domain/submissions";
  * Wires: socket 1 → unit plug 5 (RD); socket 2 → splice 90 → unit plug 6 (BK). Socket 3 has no wire yet.
  * Codes are IEC 60757 letter codes (RD red, BK black, GN green, BU blue, WH white, BN brown).
  */
-const pin = (id: number, connectorId: number | null, cavity: string, colourCode: string | null, position = 0, circuit = ""): PlanPin =>
-  ({ id, connectorId, cavity, colourCode, circuit, terminal: null, position });
+const pin = (id: number, connectorId: number | null, cavity: string, colourCode: string | null, position = 0, circuit = ""): PlanPin => ({
+  id,
+  connectorId,
+  cavity,
+  colourCode,
+  circuit,
+  terminal: null,
+  position,
+});
 
 function world(): Omit<PublishInput, "rows"> {
   return {
     card: { id: 1, componentId: null },
     pins: [
-      pin(11, 1, "1", "RD", 0, "Pickup 1"), pin(12, 1, "2", "BK", 1, "Earth"), pin(13, 1, "3", "GN", 2, "Pickup 2"),
-      pin(21, 2, "1", "RD"), pin(22, 2, "2", "BK"), pin(23, 2, "3", "GN"),
-      pin(31, 3, "5", "RD"), pin(32, 3, "6", "BK"), pin(33, 3, "7", "BU"),
-      pin(41, 4, "5", "RD"), pin(42, 4, "6", "BK"), pin(43, 4, "7", "BU"),
+      pin(11, 1, "1", "RD", 0, "Pickup 1"),
+      pin(12, 1, "2", "BK", 1, "Earth"),
+      pin(13, 1, "3", "GN", 2, "Pickup 2"),
+      pin(21, 2, "1", "RD"),
+      pin(22, 2, "2", "BK"),
+      pin(23, 2, "3", "GN"),
+      pin(31, 3, "5", "RD"),
+      pin(32, 3, "6", "BK"),
+      pin(33, 3, "7", "BU"),
+      pin(41, 4, "5", "RD"),
+      pin(42, 4, "6", "BK"),
+      pin(43, 4, "7", "BU"),
       pin(90, null, "a", null), // a splice's terminal: no card, no colour of its own
     ],
     wires: [
@@ -28,13 +43,19 @@ function world(): Omit<PublishInput, "rows"> {
       { id: 103, fromPinId: 90, toPinId: 32, colourCode: "BK" },
     ],
     connectors: [
-      { id: 1, slug: "demo-pickups-socket", matesWithId: 2 }, { id: 2, slug: "demo-pickups-plug", matesWithId: 1 },
-      { id: 3, slug: "demo-unit-plug", matesWithId: 4 }, { id: 4, slug: "demo-unit-socket", matesWithId: 3 },
+      { id: 1, slug: "demo-pickups-socket", matesWithId: 2 },
+      { id: 2, slug: "demo-pickups-plug", matesWithId: 1 },
+      { id: 3, slug: "demo-unit-plug", matesWithId: 4 },
+      { id: 4, slug: "demo-unit-socket", matesWithId: 3 },
     ],
     circuits: [],
     componentLinks: [],
     // As the published card's snapshot says (it looks through one splice for socket 2).
-    goesToBefore: new Map([["1", { connector: "demo-unit-plug", cavity: "5" }], ["2", { connector: "demo-unit-plug", cavity: "6" }], ["3", null]]),
+    goesToBefore: new Map([
+      ["1", { connector: "demo-unit-plug", cavity: "5" }],
+      ["2", { connector: "demo-unit-plug", cavity: "6" }],
+      ["3", null],
+    ]),
   };
 }
 
@@ -86,15 +107,25 @@ describe("publish plan: pins matched by cavity", () => {
     expect(p.deletePins).toEqual([11]);
     expect(p.deleteWires).toEqual([101]);
     // The far end stays: it belongs to another card.
-    expect(p.updatePins).toEqual([{ id: 12, changes: { position: 0 } }, { id: 13, changes: { position: 1 } }]);
+    expect(p.updatePins).toEqual([
+      { id: 12, changes: { position: 0 } },
+      { id: 13, changes: { position: 1 } },
+    ]);
   });
 
   it("a cavity that ends a circuit or leads into a component cannot be dropped", () => {
     // A circuit names its two end pins and a component link its two terminals: dropping one would leave them pointing at nothing.
     const dropOne = rows().filter((x) => x.cavity !== "1");
-    expect(() => plan(dropOne, (w) => { w.circuits = [{ name: "Pickup 1 signal loop", fromPinId: 11, toPinId: 41 }]; }))
-      .toThrow(new PublishConflict("Cavity 1 starts or ends the circuit “Pickup 1 signal loop”, so its row cannot be taken out."));
-    expect(() => plan(dropOne, (w) => { w.componentLinks = [{ fromPinId: 41, toPinId: 11 }]; })).toThrow(/leads into its component/);
+    expect(() =>
+      plan(dropOne, (w) => {
+        w.circuits = [{ name: "Pickup 1 signal loop", fromPinId: 11, toPinId: 41 }];
+      }),
+    ).toThrow(new PublishConflict("Cavity 1 starts or ends the circuit “Pickup 1 signal loop”, so its row cannot be taken out."));
+    expect(() =>
+      plan(dropOne, (w) => {
+        w.componentLinks = [{ fromPinId: 41, toPinId: 11 }];
+      }),
+    ).toThrow(/leads into its component/);
   });
 
   it("leaves the rows it was given as they were", () => {
@@ -133,14 +164,19 @@ describe("publish plan: a corrected colour", () => {
     row(r, "2").code = "BN";
     const p = plan(r);
     expect(p.wireColours).toEqual([{ id: 102, colourCode: "BN" }]); // the wire on the cavity itself
-    expect(p.updatePins).toEqual([{ id: 12, changes: { colourCode: "BN" } }, { id: 22, changes: { colourCode: "BN" } }]);
+    expect(p.updatePins).toEqual([
+      { id: 12, changes: { colourCode: "BN" } },
+      { id: 22, changes: { colourCode: "BN" } },
+    ]);
     expect(p.touched).toEqual([2]);
   });
 
   it("only moves what still carries the old colour", () => {
     const r = rows();
     row(r, "1").code = "WH";
-    const p = plan(r, (w) => { w.pins.find((x) => x.id === 41)!.colourCode = "GN"; }); // already different across the far mate
+    const p = plan(r, (w) => {
+      w.pins.find((x) => x.id === 41)!.colourCode = "GN";
+    }); // already different across the far mate
     expect(p.updatePins.map((x) => x.id)).toEqual([11, 21, 31]);
   });
 
@@ -152,7 +188,11 @@ describe("publish plan: a corrected colour", () => {
     const p = plan(r, (w) => {
       w.wires = [{ id: 101, fromPinId: 11, toPinId: 22, colourCode: "RD" }];
       for (const id of [12, 22]) w.pins.find((x) => x.id === id)!.colourCode = "RD";
-      w.goesToBefore = new Map([["1", { connector: "demo-pickups-plug", cavity: "2" }], ["2", null], ["3", null]]);
+      w.goesToBefore = new Map([
+        ["1", { connector: "demo-pickups-plug", cavity: "2" }],
+        ["2", null],
+        ["3", null],
+      ]);
       row(r, "1").goesTo = { connector: "demo-pickups-plug", cavity: "2" };
       row(r, "2").goesTo = null;
     });
@@ -197,7 +237,9 @@ describe("publish plan: where a loom-side cavity goes", () => {
     expect(plan(rows()).createWires).toEqual([]);
     const r = rows();
     row(r, "1").goesTo = { connector: "demo-unit-plug", cavity: "7" };
-    const p = plan(r, (w) => { w.card = { id: 1, componentId: 70 }; });
+    const p = plan(r, (w) => {
+      w.card = { id: 1, componentId: 70 };
+    });
     expect(p.deleteWires).toEqual([]);
     expect(p.createWires).toEqual([]);
   });

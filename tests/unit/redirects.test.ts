@@ -17,7 +17,15 @@ describe("nextTarget: a next parameter never leaves our origin", () => {
   });
 
   it("sends anything that is not a path on this site to the garage", () => {
-    for (const bad of ["//evil.example", "/\\evil.example", "https://evil.example/", "evil.example", "javascript:alert(1)", "\u3002evil.example", "/..//evil.example"]) {
+    for (const bad of [
+      "//evil.example",
+      "/\\evil.example",
+      "https://evil.example/",
+      "evil.example",
+      "javascript:alert(1)",
+      "\u3002evil.example",
+      "/..//evil.example",
+    ]) {
       const r = nextTarget(bad, ORIGIN);
       expect(r.ok, bad).toBe(true);
       if (r.ok) expect(landsOn(r.to).origin, bad).toBe(ORIGIN);
@@ -29,7 +37,21 @@ describe("nextTarget: a next parameter never leaves our origin", () => {
   it("refuses control and space characters (a browser drops the tab in /\\t/evil.example and lands on //evil.example)", () => {
     // The browser's view: Node's WHATWG parser strips the tab, proving the attack is real.
     expect(new URL("/\t/evil.example", ORIGIN).origin).toBe("https://evil.example");
-    for (const bad of ["/\t/evil.example", "/\n/evil.example", "/\r\n/x", "/\u000b/x", "/\u000c/x", "/\u0000", "/\u007f", "/\u0085", "/ x", "/\u00a0x", "/\u3000x", "/\u2028x", "/\ufeffx"]) {
+    for (const bad of [
+      "/\t/evil.example",
+      "/\n/evil.example",
+      "/\r\n/x",
+      "/\u000b/x",
+      "/\u000c/x",
+      "/\u0000",
+      "/\u007f",
+      "/\u0085",
+      "/ x",
+      "/\u00a0x",
+      "/\u3000x",
+      "/\u2028x",
+      "/\ufeffx",
+    ]) {
       expect(nextTarget(bad, ORIGIN).ok, JSON.stringify(bad)).toBe(false);
     }
   });

@@ -15,8 +15,14 @@ function fakeTimers() {
   const due = new Map<number, { at: number; fn: () => void }>();
   const timers: Timers = {
     now: () => now,
-    set: (fn, ms) => { const id = ++seq; due.set(id, { at: now + ms, fn }); return id; },
-    clear: (h) => { due.delete(h as number); },
+    set: (fn, ms) => {
+      const id = ++seq;
+      due.set(id, { at: now + ms, fn });
+      return id;
+    },
+    clear: (h) => {
+      due.delete(h as number);
+    },
   };
   const advance = (ms: number) => {
     const until = now + ms;
@@ -88,7 +94,12 @@ describe("only the latest answer is shown", () => {
     const shown: string[] = [];
     const answer = (q: string, ms: number) => {
       const t = seq.begin();
-      return new Promise<void>((r) => setTimeout(() => { if (seq.isLatest(t)) shown.push(q); r(); }, ms));
+      return new Promise<void>((r) =>
+        setTimeout(() => {
+          if (seq.isLatest(t)) shown.push(q);
+          r();
+        }, ms),
+      );
     };
     await Promise.all([answer("pi", 40), answer("pick", 5), answer("pickup", 15)]);
     expect(shown).toEqual(["pickup"]);
@@ -123,8 +134,17 @@ describe("listbox keys", () => {
 
 describe("grouping and filter links", () => {
   it("groups hits as families, connector cards, pins (that order), keeping the ranking inside a group", () => {
-    const hits = [{ type: "pin", id: 1 }, { type: "connector", id: 2 }, { type: "pin", id: 3 }, { type: "family", id: 4 }];
-    expect(groupHits(hits).map((g) => [g.label, g.hits.map((h) => h.id)])).toEqual([["Families", [4]], ["Connector cards", [2]], ["Pins", [1, 3]]]);
+    const hits = [
+      { type: "pin", id: 1 },
+      { type: "connector", id: 2 },
+      { type: "pin", id: 3 },
+      { type: "family", id: 4 },
+    ];
+    expect(groupHits(hits).map((g) => [g.label, g.hits.map((h) => h.id)])).toEqual([
+      ["Families", [4]],
+      ["Connector cards", [2]],
+      ["Pins", [1, 3]],
+    ]);
     expect(groupHits([{ type: "pin" }]).map((g) => g.type)).toEqual(["pin"]);
     expect(countOf("pin", 1)).toBe("1 pin");
     expect(countOf("connector", 12)).toBe("12 connector cards");
@@ -142,8 +162,19 @@ describe("grouping and filter links", () => {
   });
 
   it("lists the active filters in one order, and facet values by count (cavities by number)", () => {
-    expect(activeFilters({ q: "x", pins: 4, make: "asagiri", family: "" })).toEqual([{ key: "make", value: "asagiri" }, { key: "pins", value: "4" }]);
-    expect(facetEntries({ b: 2, a: 2, c: 5, z: 0 })).toEqual([["c", 5], ["a", 2], ["b", 2]]);
-    expect(facetEntries({ "10": 1, "2": 9, "4": 3 }, true)).toEqual([["2", 9], ["4", 3], ["10", 1]]);
+    expect(activeFilters({ q: "x", pins: 4, make: "asagiri", family: "" })).toEqual([
+      { key: "make", value: "asagiri" },
+      { key: "pins", value: "4" },
+    ]);
+    expect(facetEntries({ b: 2, a: 2, c: 5, z: 0 })).toEqual([
+      ["c", 5],
+      ["a", 2],
+      ["b", 2],
+    ]);
+    expect(facetEntries({ "10": 1, "2": 9, "4": 3 }, true)).toEqual([
+      ["2", 9],
+      ["4", 3],
+      ["10", 1],
+    ]);
   });
 });

@@ -16,12 +16,15 @@ describe("codeVariants: one wire, every notation", () => {
   //   en  "wht/red" (workshop English abbreviations).
   const WHITE_RED: Record<ColourSystemId, string> = { jis: "W/R", iec: "RDWH", din: "ws/rt", bs: "WR", en: "wht/red" };
 
-  it.each(Object.entries(WHITE_RED).filter(([s]) => s !== "iec") as [ColourSystemId, string][])("%s %s → the same wire in all five notations", (system, code) => {
-    const v = codeVariants(code, system);
-    expect(v[0], "the code as written comes first").toBe(code);
-    expect(new Set(v)).toEqual(new Set(Object.values(WHITE_RED)));
-    expect(v.length, "no duplicates").toBe(new Set(v).size);
-  });
+  it.each(Object.entries(WHITE_RED).filter(([s]) => s !== "iec") as [ColourSystemId, string][])(
+    "%s %s → the same wire in all five notations",
+    (system, code) => {
+      const v = codeVariants(code, system);
+      expect(v[0], "the code as written comes first").toBe(code);
+      expect(new Set(v)).toEqual(new Set(Object.values(WHITE_RED)));
+      expect(v.length, "no duplicates").toBe(new Set(v).size);
+    },
+  );
 
   it("IEC 60757 joins codes in table order whatever the base: white+red is RDWH, not WHRD", () => {
     expect(codeVariants("W/R", "jis")).toContain("RDWH");
@@ -39,7 +42,14 @@ describe("codeVariants: one wire, every notation", () => {
   });
 
   it("every variant decodes back to the same colours in its own notation", () => {
-    for (const [code, system] of [["W/R", "jis"], ["ws/rt", "din"], ["NG", "bs"], ["Lg/R", "jis"], ["gr/sw", "din"], ["P/W", "bs"]] as const) {
+    for (const [code, system] of [
+      ["W/R", "jis"],
+      ["ws/rt", "din"],
+      ["NG", "bs"],
+      ["Lg/R", "jis"],
+      ["gr/sw", "din"],
+      ["P/W", "bs"],
+    ] as const) {
       const want = decodeColour(code, system);
       if (!want.ok) throw new Error(`${code} should decode`);
       const colours = [want.value.base?.name, ...want.value.tracers.map((t) => t.name)];
@@ -94,12 +104,22 @@ describe("colourWords", () => {
 
 // Invented demo data (db/seeders/demo/makes.ts).
 const FAMILY: FamilyInput = {
-  slug: "rx750-four", name: "RX750 Four", modelRange: "RX750, RX750 S", yearFrom: 1977, yearTo: 1982, engine: "inline four, air-cooled, DOHC",
-  ignition: "transistor, battery-powered", make: { slug: "asagiri", name: "Asagiri Motor Works" },
+  slug: "rx750-four",
+  name: "RX750 Four",
+  modelRange: "RX750, RX750 S",
+  yearFrom: 1977,
+  yearTo: 1982,
+  engine: "inline four, air-cooled, DOHC",
+  ignition: "transistor, battery-powered",
+  make: { slug: "asagiri", name: "Asagiri Motor Works" },
 };
 const CARD: ConnectorInput = {
-  slug: "rx750-four-right-switch-plug", name: "Right handlebar switch, plug on the switch lead", location: "inside the headlamp shell",
-  housing: "6-way bullet block", system: "ignition", revision: 3,
+  slug: "rx750-four-right-switch-plug",
+  name: "Right handlebar switch, plug on the switch lead",
+  location: "inside the headlamp shell",
+  housing: "6-way bullet block",
+  system: "ignition",
+  revision: 3,
   pins: [
     { cavity: "1", code: "Br/W", circuit: "fused ignition feed", terminal: null, goesTo: null },
     { cavity: "2", code: "O/W", circuit: "ignition feed after the kill switch", terminal: "15", goesTo: "ignition unit" },
@@ -113,9 +133,23 @@ describe("familyDoc", () => {
   const d = familyDoc(FAMILY);
   it("is the family's page with every year of production", () => {
     expect(d).toMatchObject({
-      id: "family-rx750-four", type: "family", slug: "rx750-four", cavity: null, title: "Asagiri Motor Works RX750 Four", url: "/families/rx750-four",
-      make: "Asagiri Motor Works", makeSlug: "asagiri", family: "RX750 Four", familySlug: "rx750-four", system: null, pinCount: null, version: 1,
-      codes: [], colours: [], circuits: [], terminals: [],
+      id: "family-rx750-four",
+      type: "family",
+      slug: "rx750-four",
+      cavity: null,
+      title: "Asagiri Motor Works RX750 Four",
+      url: "/families/rx750-four",
+      make: "Asagiri Motor Works",
+      makeSlug: "asagiri",
+      family: "RX750 Four",
+      familySlug: "rx750-four",
+      system: null,
+      pinCount: null,
+      version: 1,
+      codes: [],
+      colours: [],
+      circuits: [],
+      terminals: [],
     });
     expect(d.years).toEqual([1977, 1978, 1979, 1980, 1981, 1982]);
     expect(d.subtitle).toContain("1977–1982");
@@ -141,8 +175,18 @@ describe("connectorDocs", () => {
 
   it("the card: ids, url, counts, family fields, years, revision as version", () => {
     expect(card).toMatchObject({
-      id: "connector-rx750-four-right-switch-plug", slug: CARD.slug, cavity: null, title: CARD.name, url: "/connectors/rx750-four-right-switch-plug",
-      make: "Asagiri Motor Works", makeSlug: "asagiri", family: "RX750 Four", familySlug: "rx750-four", system: "ignition", pinCount: 5, version: 3,
+      id: "connector-rx750-four-right-switch-plug",
+      slug: CARD.slug,
+      cavity: null,
+      title: CARD.name,
+      url: "/connectors/rx750-four-right-switch-plug",
+      make: "Asagiri Motor Works",
+      makeSlug: "asagiri",
+      family: "RX750 Four",
+      familySlug: "rx750-four",
+      system: "ignition",
+      pinCount: 5,
+      version: 3,
     });
     expect(card.years).toEqual([1977, 1978, 1979, 1980, 1981, 1982]);
     expect(card.subtitle).toBe("Asagiri Motor Works RX750 Four · ignition · inside the headlamp shell");
@@ -160,9 +204,18 @@ describe("connectorDocs", () => {
   it("each pin: its own id, link to the cavity, the card's pin count, its code variants, circuit, terminal and destination", () => {
     const p3 = pins[2];
     expect(p3).toMatchObject({
-      id: "pin-rx750-four-right-switch-plug-3", slug: CARD.slug, cavity: "3", title: `${CARD.name}, cavity 3`, pinCount: 5, version: 3,
-      url: "/connectors/rx750-four-right-switch-plug?cavity=3#pin-3", circuits: ["headlamp"], terminals: ["56"], colours: ["white with red tracer"],
-      familySlug: "rx750-four", system: "ignition",
+      id: "pin-rx750-four-right-switch-plug-3",
+      slug: CARD.slug,
+      cavity: "3",
+      title: `${CARD.name}, cavity 3`,
+      pinCount: 5,
+      version: 3,
+      url: "/connectors/rx750-four-right-switch-plug?cavity=3#pin-3",
+      circuits: ["headlamp"],
+      terminals: ["56"],
+      colours: ["white with red tracer"],
+      familySlug: "rx750-four",
+      system: "ignition",
     });
     expect(new Set(p3.codes)).toEqual(new Set(["W/R", "RDWH", "ws/rt", "WR", "wht/red"]));
     expect(p3.subtitle).toBe("W/R · white with red tracer · headlamp · terminal 56");
@@ -182,7 +235,11 @@ describe("connectorDocs", () => {
   });
 
   it("codes are read in the family's notation: the same letters mean other colours in the British code", () => {
-    const bs = connectorDocs({ ...FAMILY, slug: "sovereign-650" }, { ...CARD, pins: [{ cavity: "1", code: "P", circuit: "brake lamp", terminal: "54", goesTo: null }] }, "bs");
+    const bs = connectorDocs(
+      { ...FAMILY, slug: "sovereign-650" },
+      { ...CARD, pins: [{ cavity: "1", code: "P", circuit: "brake lamp", terminal: "54", goesTo: null }] },
+      "bs",
+    );
     expect(bs[1].colours).toEqual(["violet"]);
     expect(bs[1].codes).toEqual(expect.arrayContaining(["P", "VT", "vi", "V"]));
   });

@@ -6,22 +6,24 @@
  * attribute included; an array attribute matches when one element does). Documents are invented.
  */
 import { describe, expect, it } from "vitest";
-import {
-  attributeAllowed,
-  facetValues,
-  filterAttributes,
-  FilterSyntaxError,
-  matchesFilter,
-  parseFilter,
-  parseFilterExpression,
-} from "../../search/filter.ts";
+import { attributeAllowed, facetValues, filterAttributes, FilterSyntaxError, matchesFilter, parseFilter, parseFilterExpression } from "../../search/filter.ts";
 
 type Doc = Record<string, unknown>;
 
 const CARDS: Doc[] = [
   { id: 1, family: "RX750 Four", make: "asagiri", cavities: 2, year: 1979, codes: ["W/R", "B/Y"], circuit: "pickup coil", note: null, tags: [] },
   { id: 2, family: "B 800 Boxer", make: "brennwald", cavities: 4, year: 1976, codes: ["ws/rt", "BLGN"], circuit: "kill switch", note: "", tags: ["din"] },
-  { id: 3, family: "Sovereign 650", make: "Ashcombe", cavities: 6, year: 1968, codes: ["W", "R"], circuit: "starting", note: "from a loom", tags: ["bs", "lucar"] },
+  {
+    id: 3,
+    family: "Sovereign 650",
+    make: "Ashcombe",
+    cavities: 6,
+    year: 1968,
+    codes: ["W", "R"],
+    circuit: "starting",
+    note: "from a loom",
+    tags: ["bs", "lucar"],
+  },
   { id: 4, family: "RX400 Four", make: "asagiri", cavities: 9, year: 1982, codes: ["Y/G"], circuit: "charging", rating: { bench: 4, road: 5 } },
   { id: 5, family: "Marquis 500", make: "ashcombe", year: "1971", circuit: "lighting", parts: [{ term: "31b" }, { term: "87a" }] },
 ];
@@ -41,7 +43,7 @@ describe("conditions (attribute OPERATOR value)", () => {
   it("values with white space are quoted with single or double quotes; quotes can be escaped", () => {
     expect(select("family = 'RX750 Four'")).toEqual([1]);
     expect(select('family = "Sovereign 650"')).toEqual([3]);
-    const docs = [{ id: "q", label: "it's \"wired\"" }];
+    const docs = [{ id: "q", label: 'it\'s "wired"' }];
     expect(select("label = 'it\\'s \"wired\"'", docs)).toEqual(["q"]);
     expect(select('label = "it\'s \\"wired\\""', docs)).toEqual(["q"]);
   });
@@ -137,7 +139,10 @@ describe("arrays and nested attributes", () => {
   });
 
   it("booleans compare as true/false", () => {
-    const docs = [{ id: "a", sealed: true }, { id: "b", sealed: false }];
+    const docs = [
+      { id: "a", sealed: true },
+      { id: "b", sealed: false },
+    ];
     expect(select("sealed = true", docs)).toEqual(["a"]);
     expect(select("sealed = false", docs)).toEqual(["b"]);
   });

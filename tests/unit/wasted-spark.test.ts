@@ -9,8 +9,14 @@ describe("companion-cylinder method (Halderman, §4.1)", () => {
     // §4.1: "1 2 / 4 3" → columns 1&4, 2&3
     const r = wastedSparkPairs("1-2-4-3", { cylinders: 4, layout: "inline", crankDeg: 180 });
     expect(r.suitable).toBe(true);
-    expect(r.pairs).toEqual([[1, 4], [2, 3]]);
-    expect(r.columns).toEqual([[1, 4], [2, 3]]);
+    expect(r.pairs).toEqual([
+      [1, 4],
+      [2, 3],
+    ]);
+    expect(r.columns).toEqual([
+      [1, 4],
+      [2, 3],
+    ]);
     expect(r.method).toMatch(/companion-cylinder/i);
     expect(r.method).toContain("1 2 / 4 3");
     expect(r.intervalsDeg).toEqual([180, 180, 180, 180]);
@@ -19,8 +25,14 @@ describe("companion-cylinder method (Halderman, §4.1)", () => {
   it("gives 1-3-4-2 the same pairs, normalised to sorted pairs", () => {
     // §4.1: 1-3-4-2 gives 1 & 4, 3 & 2; we normalise each pair ascending and order pairs by first cylinder
     const r = wastedSparkPairs("1-3-4-2", { cylinders: 4, layout: "inline" });
-    expect(r.columns).toEqual([[1, 4], [3, 2]]);
-    expect(r.pairs).toEqual([[1, 4], [2, 3]]);
+    expect(r.columns).toEqual([
+      [1, 4],
+      [3, 2],
+    ]);
+    expect(r.pairs).toEqual([
+      [1, 4],
+      [2, 3],
+    ]);
     expect(r.reason).toMatch(/even-firing crank assumed/);
   });
 
@@ -35,7 +47,10 @@ describe("companion-cylinder method (Halderman, §4.1)", () => {
     // §4.1 "pairs cylinders that are 360 degrees out of phase": 90–270–90–270 still pairs 360° apart
     const ok = wastedSparkPairs("1-2-3-4", { cylinders: 4, layout: "v", intervalsDeg: [90, 270, 90, 270] });
     expect(ok.suitable).toBe(true);
-    expect(ok.pairs).toEqual([[1, 3], [2, 4]]);
+    expect(ok.pairs).toEqual([
+      [1, 3],
+      [2, 4],
+    ]);
     // Cross-plane inline four, 1-3-2-4 firing 180–270–180–90: no column is 360° apart
     const bad = wastedSparkPairs("1-3-2-4", { cylinders: 4, layout: "inline", intervalsDeg: [180, 270, 180, 90] });
     expect(bad.suitable).toBe(false);
@@ -44,8 +59,18 @@ describe("companion-cylinder method (Halderman, §4.1)", () => {
   it("pairs an even-firing V8 the textbook way", () => {
     // Companion-cylinder method applied to 1-8-4-3-6-5-7-2: 1&6, 8&5, 4&7, 3&2
     const r = wastedSparkPairs("1-8-4-3-6-5-7-2", { cylinders: 8, layout: "v" });
-    expect(r.columns).toEqual([[1, 6], [8, 5], [4, 7], [3, 2]]);
-    expect(r.pairs).toEqual([[1, 6], [2, 3], [4, 7], [5, 8]]);
+    expect(r.columns).toEqual([
+      [1, 6],
+      [8, 5],
+      [4, 7],
+      [3, 2],
+    ]);
+    expect(r.pairs).toEqual([
+      [1, 6],
+      [2, 3],
+      [4, 7],
+      [5, 8],
+    ]);
   });
 });
 

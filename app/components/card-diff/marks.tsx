@@ -47,8 +47,13 @@ export function plural(n: number, one: string, many: string): string {
 export function Mark({ change, className = "" }: { change: RowChange; className?: string }) {
   const m = MARKS[change];
   return (
-    <span data-mark={change} className={cx("inline-flex items-baseline gap-1 whitespace-nowrap", change === "same" ? "font-normal text-muted" : "font-semibold", className)}>
-      <span aria-hidden="true" className="inline-block w-[1.1em] text-center font-bold">{m.symbol}</span>{" "}
+    <span
+      data-mark={change}
+      className={cx("inline-flex items-baseline gap-1 whitespace-nowrap", change === "same" ? "font-normal text-muted" : "font-semibold", className)}
+    >
+      <span aria-hidden="true" className="inline-block w-[1.1em] text-center font-bold">
+        {m.symbol}
+      </span>{" "}
       {m.word}
     </span>
   );
@@ -58,7 +63,9 @@ export function Mark({ change, className = "" }: { change: RowChange; className?
 export function WasProposed({ proposed, was }: { proposed: ReactNode; was: ReactNode }) {
   return (
     <span className="block">
-      <ins className="font-bold no-underline" data-proposed="true">{proposed}</ins>{" "}
+      <ins className="font-bold no-underline" data-proposed="true">
+        {proposed}
+      </ins>{" "}
       <span className="mt-0.5 block text-sm font-normal" data-was="true">
         was <del className="decoration-2">{was}</del>
       </span>

@@ -71,19 +71,34 @@ export function PinTable({ rows, notation, caption, idFor }: { rows: PinDiffRow[
         <caption className="sr-only">{caption}</caption>
         <thead className="border-b-2 border-ink">
           <tr>
-            <th scope="col" className={CELL}>Cavity</th>
-            <th scope="col" className={CELL}>What happens</th>
-            {cols.map((c) => <th key={c.field} scope="col" className={CELL} title={c.title}>{c.label}</th>)}
+            <th scope="col" className={CELL}>
+              Cavity
+            </th>
+            <th scope="col" className={CELL}>
+              What happens
+            </th>
+            {cols.map((c) => (
+              <th key={c.field} scope="col" className={CELL} title={c.title}>
+                {c.label}
+              </th>
+            ))}
           </tr>
         </thead>
         <tbody>
           {rows.map((row, i) => (
-            <tr key={`${i}:${row.change}:${row.cavity}`} id={idFor(row.cavity)} data-cavity={row.cavity} data-change={row.change}
-              className={cx("border-b border-rule align-top", ROW_TINT[row.change])}>
+            <tr
+              key={`${i}:${row.change}:${row.cavity}`}
+              id={idFor(row.cavity)}
+              data-cavity={row.cavity}
+              data-change={row.change}
+              className={cx("border-b border-rule align-top", ROW_TINT[row.change])}
+            >
               <th scope="row" className={cx(CELL, ROW_BAR[row.change], "font-bold")}>
                 {row.change === "removed" ? <del className="decoration-2">{row.cavity}</del> : row.cavity}
               </th>
-              <td className={CELL}><Mark change={row.change} /></td>
+              <td className={CELL}>
+                <Mark change={row.change} />
+              </td>
               {cols.map((c) => {
                 const cell = pinCell(row, c.field, notation);
                 return (

@@ -32,8 +32,14 @@ export function SpecTable({ rows, caption }: { rows: CardDiff["specs"]; caption:
         <caption className="sr-only">{caption}</caption>
         <thead className="border-b-2 border-ink">
           <tr>
-            <th scope="col" className={CELL}>What happens</th>
-            {cols.map((c) => <th key={c.key} scope="col" className={CELL}>{c.label}</th>)}
+            <th scope="col" className={CELL}>
+              What happens
+            </th>
+            {cols.map((c) => (
+              <th key={c.key} scope="col" className={CELL}>
+                {c.label}
+              </th>
+            ))}
           </tr>
         </thead>
         <tbody>
@@ -41,10 +47,22 @@ export function SpecTable({ rows, caption }: { rows: CardDiff["specs"]; caption:
             const a = row.after ? specCells(row.after) : null;
             const b = row.before ? specCells(row.before) : null;
             return (
-              <tr key={i} data-spec={(row.after ?? row.before)?.name} data-change={row.change} className={cx("border-b border-rule align-top", ROW_TINT[row.change])}>
-                <td className={cx(CELL, ROW_BAR[row.change])}><Mark change={row.change} /></td>
+              <tr
+                key={i}
+                data-spec={(row.after ?? row.before)?.name}
+                data-change={row.change}
+                className={cx("border-b border-rule align-top", ROW_TINT[row.change])}
+              >
+                <td className={cx(CELL, ROW_BAR[row.change])}>
+                  <Mark change={row.change} />
+                </td>
                 {cols.map((c) => {
-                  if (!a) return <td key={c.key} className={CELL} data-field={c.key}><del className="decoration-2">{b![c.key]}</del></td>;
+                  if (!a)
+                    return (
+                      <td key={c.key} className={CELL} data-field={c.key}>
+                        <del className="decoration-2">{b![c.key]}</del>
+                      </td>
+                    );
                   const changed = row.change === "changed" && b !== null && b[c.key] !== a[c.key];
                   return (
                     <td key={c.key} className={cx(CELL, changed && CHANGED_CELL)} data-field={c.key} data-changed={changed ? "true" : undefined}>

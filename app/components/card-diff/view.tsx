@@ -26,7 +26,11 @@ function NotesBox({ label, html }: { label: string; html: string }) {
   return (
     <div className="min-w-0 rounded-md border border-rule bg-white p-3" data-notes={label.toLowerCase()}>
       <h4 className="font-semibold">{label}</h4>
-      {html ? <div className="prose prose-sm mt-1 max-w-none print:text-[8.5pt] print:leading-snug" dangerouslySetInnerHTML={{ __html: html }} /> : <p className="mt-1 text-muted">No notes.</p>}
+      {html ? (
+        <div className="prose prose-sm mt-1 max-w-none print:text-[8.5pt] print:leading-snug" dangerouslySetInnerHTML={{ __html: html }} />
+      ) : (
+        <p className="mt-1 text-muted">No notes.</p>
+      )}
     </div>
   );
 }
@@ -49,7 +53,9 @@ export function CardDiffView(props: {
   if (!diff.any) {
     return (
       <section aria-labelledby={`${uid}-h`} className="rounded-md border border-rule bg-white p-4" data-diff="none">
-        <h2 id={`${uid}-h`} className="text-xl font-bold">What this proposal changes</h2>
+        <h2 id={`${uid}-h`} className="text-xl font-bold">
+          What this proposal changes
+        </h2>
         <p className="mt-1 font-semibold" data-nothing-changed="true">
           <span aria-hidden="true">= </span>This proposal changes nothing: it matches the published card as it stands.
         </p>
@@ -91,41 +97,59 @@ export function CardDiffView(props: {
   }
   if (specsMoved.length) summary.push(plural(specsMoved.length, "spec", "specs"));
   if (diff.notes.changed && !isNew) summary.push("the notes");
-  if (diff.photos.added.length) summary.push(isNew ? plural(diff.photos.added.length, "photo", "photos") : plural(diff.photos.added.length, "new photo", "new photos"));
+  if (diff.photos.added.length)
+    summary.push(isNew ? plural(diff.photos.added.length, "photo", "photos") : plural(diff.photos.added.length, "new photo", "new photos"));
   if (diff.photos.removed.length) summary.push(`${plural(diff.photos.removed.length, "photo", "photos")} taken out`);
 
   return (
     <section aria-labelledby={`${uid}-h`} className="space-y-5 print:space-y-3" data-diff={isNew ? "new-card" : "changes"}>
       <header>
-        <h2 id={`${uid}-h`} className="text-xl font-bold print:text-base">What this proposal changes</h2>
+        <h2 id={`${uid}-h`} className="text-xl font-bold print:text-base">
+          What this proposal changes
+        </h2>
         <p className="mt-1" data-summary="true">
           {isNew
             ? `A new card: there is no published version to compare with, so everything below is proposed${summary.length ? ` (${summary.join("; ")})` : ""}.`
             : `Against the published card it changes: ${summary.join("; ")}.`}
         </p>
         <p className="mt-1 text-sm text-muted print:text-[8pt]">
-          Markings: <Mark change="added" />, <Mark change="removed" />, <Mark change="changed" /> (the proposed value in bold, the published one after “was”), <Mark change="same" />.
+          Markings: <Mark change="added" />, <Mark change="removed" />, <Mark change="changed" /> (the proposed value in bold, the published one after “was”),{" "}
+          <Mark change="same" />.
         </p>
       </header>
 
       {diff.fields.length > 0 ? (
         <section aria-labelledby={`${uid}-fields`}>
-          <h3 id={`${uid}-fields`} className="text-lg font-bold print:text-sm">Card details</h3>
+          <h3 id={`${uid}-fields`} className="text-lg font-bold print:text-sm">
+            Card details
+          </h3>
           <div className="overflow-x-auto">
             <table className={`${TABLE} max-w-3xl`}>
               <caption className="sr-only">{isNew ? "Card details proposed for the new card" : "Card details: published and proposed"}</caption>
               <thead className="border-b-2 border-ink">
                 <tr>
-                  <th scope="col" className={CELL}>Detail</th>
-                  {isNew ? null : <th scope="col" className={CELL}>Published (was)</th>}
-                  <th scope="col" className={CELL}>Proposed</th>
+                  <th scope="col" className={CELL}>
+                    Detail
+                  </th>
+                  {isNew ? null : (
+                    <th scope="col" className={CELL}>
+                      Published (was)
+                    </th>
+                  )}
+                  <th scope="col" className={CELL}>
+                    Proposed
+                  </th>
                 </tr>
               </thead>
               <tbody>
                 {diff.fields.map((f) => (
                   <tr key={f.field} data-field={f.field} className="border-b border-rule align-top">
-                    <th scope="row" className={`${CELL} font-semibold`}>{FIELD_LABELS[f.field]}</th>
-                    {isNew ? null : <td className={`${CELL} text-muted`}>{f.before === null ? "none" : <del className="decoration-2">{orDash(f.before)}</del>}</td>}
+                    <th scope="row" className={`${CELL} font-semibold`}>
+                      {FIELD_LABELS[f.field]}
+                    </th>
+                    {isNew ? null : (
+                      <td className={`${CELL} text-muted`}>{f.before === null ? "none" : <del className="decoration-2">{orDash(f.before)}</del>}</td>
+                    )}
                     <td className={`${CELL} font-bold`}>{f.after === null ? "none" : <ins className="no-underline">{orDash(f.after)}</ins>}</td>
                   </tr>
                 ))}
@@ -136,26 +160,44 @@ export function CardDiffView(props: {
       ) : null}
 
       <section aria-labelledby={`${uid}-faces`}>
-        <h3 id={`${uid}-faces`} className="text-lg font-bold print:text-sm">Face view</h3>
+        <h3 id={`${uid}-faces`} className="text-lg font-bold print:text-sm">
+          Face view
+        </h3>
         <p className="text-sm print:text-[8pt]">
           Mating face, as the pin map colours it. Pin 1 is marked ▼. Cavities whose rows change are ringed, with the row&apos;s symbol beside them.
           {!isNew ? (diff.layout.changed ? " The housing layout changes." : " The housing layout stays the same.") : null}
         </p>
         <div className={cx("mt-2 grid gap-4", isNew ? "max-w-md" : "sm:grid-cols-2 print:grid-cols-2")}>
           {!isNew && diff.layout.before ? (
-            <FacePanel label="Published" cardName={(nameBefore ?? cardName) || ""} layout={diff.layout.before} pins={beforePins} notation={notation} marks={beforeMarks} idFor={idFor} />
+            <FacePanel
+              label="Published"
+              cardName={(nameBefore ?? cardName) || ""}
+              layout={diff.layout.before}
+              pins={beforePins}
+              notation={notation}
+              marks={beforeMarks}
+              idFor={idFor}
+            />
           ) : null}
           <FacePanel label="Proposed" cardName={cardName} layout={diff.layout.after} pins={afterPins} notation={notation} marks={afterMarks} idFor={idFor} />
         </div>
       </section>
 
       <section aria-labelledby={`${uid}-pins`} className="min-w-0">
-        <h3 id={`${uid}-pins`} className="text-lg font-bold print:text-sm">Pin map</h3>
+        <h3 id={`${uid}-pins`} className="text-lg font-bold print:text-sm">
+          Pin map
+        </h3>
         {moved.length > 0 ? (
-          <PinTable rows={moved} notation={notation} idFor={idFor}
-            caption={isNew ? "Pin map rows of the new card" : "Pin map rows this proposal changes, with the published value after “was”"} />
+          <PinTable
+            rows={moved}
+            notation={notation}
+            idFor={idFor}
+            caption={isNew ? "Pin map rows of the new card" : "Pin map rows this proposal changes, with the published value after “was”"}
+          />
         ) : (
-          <p className="mt-1" data-pins-unchanged="true">No pin-map row changes.</p>
+          <p className="mt-1" data-pins-unchanged="true">
+            No pin-map row changes.
+          </p>
         )}
         {same.length > 0 ? (
           <details className="mt-2" data-unchanged-rows={same.length}>
@@ -168,7 +210,9 @@ export function CardDiffView(props: {
 
       {diff.specs.length > 0 ? (
         <section aria-labelledby={`${uid}-specs`}>
-          <h3 id={`${uid}-specs`} className="text-lg font-bold print:text-sm">What it should read</h3>
+          <h3 id={`${uid}-specs`} className="text-lg font-bold print:text-sm">
+            What it should read
+          </h3>
           {specsMoved.length > 0 ? <SpecTable rows={specsMoved} caption="Spec values this proposal changes" /> : <p className="mt-1">No spec value changes.</p>}
           {specsSame.length > 0 ? (
             <details className="mt-2" data-unchanged-specs={specsSame.length}>
@@ -180,27 +224,43 @@ export function CardDiffView(props: {
       ) : null}
 
       <section aria-labelledby={`${uid}-notes`}>
-        <h3 id={`${uid}-notes`} className="text-lg font-bold print:text-sm">Notes</h3>
+        <h3 id={`${uid}-notes`} className="text-lg font-bold print:text-sm">
+          Notes
+        </h3>
         {isNew ? (
-          <div className="mt-2 max-w-3xl"><NotesBox label="Proposed" html={notesHtml.after} /></div>
+          <div className="mt-2 max-w-3xl">
+            <NotesBox label="Proposed" html={notesHtml.after} />
+          </div>
         ) : diff.notes.changed ? (
           <div className="mt-2 grid gap-4 sm:grid-cols-2 print:grid-cols-2" data-notes-changed="true">
             <NotesBox label="Published" html={notesHtml.before} />
             <NotesBox label="Proposed" html={notesHtml.after} />
           </div>
         ) : (
-          <p className="mt-1" data-notes-changed="false">The notes do not change.</p>
+          <p className="mt-1" data-notes-changed="false">
+            The notes do not change.
+          </p>
         )}
       </section>
 
       <section aria-labelledby={`${uid}-photos`}>
-        <h3 id={`${uid}-photos`} className="text-lg font-bold print:text-sm">Photos</h3>
-        {diff.photos.added.length + diff.photos.removed.length + diff.photos.kept.length === 0 ? <p className="mt-1">No photos, before or after.</p> : (
+        <h3 id={`${uid}-photos`} className="text-lg font-bold print:text-sm">
+          Photos
+        </h3>
+        {diff.photos.added.length + diff.photos.removed.length + diff.photos.kept.length === 0 ? (
+          <p className="mt-1">No photos, before or after.</p>
+        ) : (
           <>
             {diff.photos.added.length === 0 && diff.photos.removed.length === 0 ? <p className="mt-1">The photos do not change.</p> : null}
             <PhotoGroup title="New photos" change="added" photos={diff.photos.added} startAt={1} photoUrl={photoUrl} />
             <PhotoGroup title="Photos taken out" change="removed" photos={diff.photos.removed} startAt={1 + diff.photos.added.length} photoUrl={photoUrl} />
-            <PhotoGroup title="Photos kept" change="kept" photos={diff.photos.kept} startAt={1 + diff.photos.added.length + diff.photos.removed.length} photoUrl={photoUrl} />
+            <PhotoGroup
+              title="Photos kept"
+              change="kept"
+              photos={diff.photos.kept}
+              startAt={1 + diff.photos.added.length + diff.photos.removed.length}
+              photoUrl={photoUrl}
+            />
           </>
         )}
       </section>

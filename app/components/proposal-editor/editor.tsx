@@ -12,7 +12,12 @@ import { editorProblems } from "./problems";
 import { SpecsTable } from "./specs-table";
 
 const SYSTEM_WORDS: Record<string, string> = {
-  ignition: "Ignition", charging: "Charging", starting: "Starting", lighting: "Lighting", signals: "Signals", instruments: "Instruments",
+  ignition: "Ignition",
+  charging: "Charging",
+  starting: "Starting",
+  lighting: "Lighting",
+  signals: "Signals",
+  instruments: "Instruments",
 };
 
 /**
@@ -78,8 +83,7 @@ export function ProposalEditor(props: {
   const update = (f: (d: CardProposal) => CardProposal) => setDraft((d) => f(d));
   const setField = <K extends "name" | "location" | "housing" | "gender" | "system" | "matesWith" | "notes">(k: K, v: CardProposal[K]) =>
     update((d) => ({ ...d, [k]: v }));
-  const setPin = (i: number, patch: Partial<ProposedPin>) =>
-    update((d) => ({ ...d, pins: d.pins.map((p, j) => (j === i ? { ...p, ...patch } : p)) }));
+  const setPin = (i: number, patch: Partial<ProposedPin>) => update((d) => ({ ...d, pins: d.pins.map((p, j) => (j === i ? { ...p, ...patch } : p)) }));
   const setGoesTo = (i: number, part: "connector" | "cavity", value: string) =>
     update((d) => ({
       ...d,
@@ -91,11 +95,14 @@ export function ProposalEditor(props: {
         return { ...p, goesTo: next.connector || next.cavity ? next : null };
       }),
     }));
-  const setSpec = (i: number, patch: Partial<ProposedSpec>) =>
-    update((d) => ({ ...d, specs: d.specs.map((s, j) => (j === i ? { ...s, ...patch } : s)) }));
+  const setSpec = (i: number, patch: Partial<ProposedSpec>) => update((d) => ({ ...d, specs: d.specs.map((s, j) => (j === i ? { ...s, ...patch } : s)) }));
   // Ticking "no upper limit" clears what was typed as the greatest value; unticking leaves the box empty to fill in.
   const setOpen = (i: number, open: boolean) => {
-    setSpecText((t) => { const next = [...t]; next[i] = { ...next[i], max: undefined }; return next; });
+    setSpecText((t) => {
+      const next = [...t];
+      next[i] = { ...next[i], max: undefined };
+      return next;
+    });
     setSpec(i, { max: open ? null : Number.NaN });
   };
   // An insulation test must read open, so choosing it ticks "no upper limit" as well.
@@ -105,7 +112,11 @@ export function ProposalEditor(props: {
     if (kind === "insulation") setOpen(i, true);
   };
   const setSpecNumber = (i: number, f: NumField, text: string) => {
-    setSpecText((t) => { const next = [...t]; next[i] = { ...next[i], [f]: text }; return next; });
+    setSpecText((t) => {
+      const next = [...t];
+      next[i] = { ...next[i], [f]: text };
+      return next;
+    });
     setSpec(i, { [f]: text.trim() === "" ? Number.NaN : Number(text) });
   };
   const setCell = (row: number, col: number, text: string) =>
@@ -168,17 +179,31 @@ export function ProposalEditor(props: {
     if (list.length === 0) return null;
     return (
       <div id={problemIdOf(field)} className="mt-1 space-y-0.5 text-sm font-semibold text-signal-dark" data-problem-for={field}>
-        {list.map((m, k) => <p key={k}>{m}</p>)}
+        {list.map((m, k) => (
+          <p key={k}>{m}</p>
+        ))}
       </div>
     );
   };
   const text = (name: "name" | "location" | "housing", label: string, hint: string, maxLength: number) => (
     <div>
-      <label htmlFor={editorFieldId(name)} className={LABEL}>{label}</label>
-      <input id={editorFieldId(name)} name={name} value={draft[name]} maxLength={maxLength} onChange={(e) => setField(name, e.target.value)}
-        aria-invalid={problemsOf(name).length ? true : undefined} aria-describedby={describedBy(name, `${editorFieldId(name)}-hint`)}
-        className={inputClass(problemsOf(name).length > 0)} autoComplete="off" />
-      <p id={`${editorFieldId(name)}-hint`} className="mt-1 text-sm text-muted">{hint}</p>
+      <label htmlFor={editorFieldId(name)} className={LABEL}>
+        {label}
+      </label>
+      <input
+        id={editorFieldId(name)}
+        name={name}
+        value={draft[name]}
+        maxLength={maxLength}
+        onChange={(e) => setField(name, e.target.value)}
+        aria-invalid={problemsOf(name).length ? true : undefined}
+        aria-describedby={describedBy(name, `${editorFieldId(name)}-hint`)}
+        className={inputClass(problemsOf(name).length > 0)}
+        autoComplete="off"
+      />
+      <p id={`${editorFieldId(name)}-hint`} className="mt-1 text-sm text-muted">
+        {hint}
+      </p>
       {problemText(name)}
     </div>
   );
@@ -205,17 +230,31 @@ export function ProposalEditor(props: {
         ) : null}
 
         <section aria-labelledby="ed-about-heading" className="space-y-4">
-          <h2 id="ed-about-heading" className="text-xl font-bold">The connector</h2>
+          <h2 id="ed-about-heading" className="text-xl font-bold">
+            The connector
+          </h2>
           <div className="grid gap-4 sm:grid-cols-2">
             {text("name", "Name", "What riders call it, e.g. “Pickup coil plug”.", 120)}
             {text("location", "Where it sits", "Where to find it on the bike, e.g. “under the tank, left of the frame spine”.", LIMITS.text)}
             {text("housing", "Housing", "Shape and size of the housing, e.g. “4-way, 2 × 2, white nylon”.", LIMITS.text)}
             <div>
-              <label htmlFor={editorFieldId("system")} className={LABEL}>System</label>
-              <select id={editorFieldId("system")} name="system" value={draft.system} onChange={(e) => setField("system", e.target.value)}
-                aria-describedby={describedBy("system")} className={inputClass(problemsOf("system").length > 0)}>
+              <label htmlFor={editorFieldId("system")} className={LABEL}>
+                System
+              </label>
+              <select
+                id={editorFieldId("system")}
+                name="system"
+                value={draft.system}
+                onChange={(e) => setField("system", e.target.value)}
+                aria-describedby={describedBy("system")}
+                className={inputClass(problemsOf("system").length > 0)}
+              >
                 {(SYSTEM_KINDS as readonly string[]).includes(draft.system) ? null : <option value={draft.system}>{draft.system || "Choose a system"}</option>}
-                {SYSTEM_KINDS.map((k) => <option key={k} value={k}>{SYSTEM_WORDS[k] ?? k}</option>)}
+                {SYSTEM_KINDS.map((k) => (
+                  <option key={k} value={k}>
+                    {SYSTEM_WORDS[k] ?? k}
+                  </option>
+                ))}
               </select>
               {problemText("system")}
             </div>
@@ -224,7 +263,14 @@ export function ProposalEditor(props: {
               <div className="mt-1 flex flex-wrap gap-4">
                 {(["plug", "socket"] as const).map((g) => (
                   <label key={g} className="inline-flex items-center gap-2 py-1">
-                    <input type="radio" name="gender" value={g} checked={draft.gender === g} onChange={() => setField("gender", g)} className="size-4 accent-ink" />
+                    <input
+                      type="radio"
+                      name="gender"
+                      value={g}
+                      checked={draft.gender === g}
+                      onChange={() => setField("gender", g)}
+                      className="size-4 accent-ink"
+                    />
                     {g === "plug" ? "Plug" : "Socket"}
                   </label>
                 ))}
@@ -232,36 +278,95 @@ export function ProposalEditor(props: {
               {problemText("gender")}
             </fieldset>
             <div>
-              <label htmlFor={editorFieldId("matesWith")} className={LABEL}>Mates with</label>
-              <select id={editorFieldId("matesWith")} name="matesWith" value={draft.matesWith ?? ""} onChange={(e) => setField("matesWith", e.target.value || null)}
-                aria-describedby={describedBy("matesWith")} className={inputClass(problemsOf("matesWith").length > 0)}>
+              <label htmlFor={editorFieldId("matesWith")} className={LABEL}>
+                Mates with
+              </label>
+              <select
+                id={editorFieldId("matesWith")}
+                name="matesWith"
+                value={draft.matesWith ?? ""}
+                onChange={(e) => setField("matesWith", e.target.value || null)}
+                aria-describedby={describedBy("matesWith")}
+                className={inputClass(problemsOf("matesWith").length > 0)}
+              >
                 <option value="">None, or not in the library yet</option>
                 {draft.matesWith && !cards.has(draft.matesWith) ? <option value={draft.matesWith}>{draft.matesWith} (not in this family)</option> : null}
-                {familyCards.map((c) => <option key={c.slug} value={c.slug}>{c.name}</option>)}
+                {familyCards.map((c) => (
+                  <option key={c.slug} value={c.slug}>
+                    {c.name}
+                  </option>
+                ))}
               </select>
               {problemText("matesWith")}
             </div>
           </div>
         </section>
-        <LayoutGrid kit={kit} draft={draft} grid={grid} setGrid={setGrid} setCell={setCell} update={update} layoutLabels={layoutLabels} decoded={decoded}
-          activeRow={activeRow} hydrated={hydrated} notice={notice} />
+        <LayoutGrid
+          kit={kit}
+          draft={draft}
+          grid={grid}
+          setGrid={setGrid}
+          setCell={setCell}
+          update={update}
+          layoutLabels={layoutLabels}
+          decoded={decoded}
+          activeRow={activeRow}
+          hydrated={hydrated}
+          notice={notice}
+        />
 
-        <PinsTable kit={kit} draft={draft} colourSystem={colourSystem} decoded={decoded} cards={cards} familyCards={familyCards} layoutLabels={layoutLabels}
-          hydrated={hydrated} activeRow={activeRow} setActiveRow={setActiveRow} setPin={setPin} setGoesTo={setGoesTo} afterMove={afterMove} afterRemove={afterRemove}
-          serverCodeProblem={serverCodeProblem} notice={notice}>
+        <PinsTable
+          kit={kit}
+          draft={draft}
+          colourSystem={colourSystem}
+          decoded={decoded}
+          cards={cards}
+          familyCards={familyCards}
+          layoutLabels={layoutLabels}
+          hydrated={hydrated}
+          activeRow={activeRow}
+          setActiveRow={setActiveRow}
+          setPin={setPin}
+          setGoesTo={setGoesTo}
+          afterMove={afterMove}
+          afterRemove={afterRemove}
+          serverCodeProblem={serverCodeProblem}
+          notice={notice}
+        >
           <PasteBox run={run} paste={paste} setPaste={setPaste} pasteMode={pasteMode} setPasteMode={setPasteMode} notice={notice} />
         </PinsTable>
 
-        <SpecsTable kit={kit} draft={draft} specText={specText} hydrated={hydrated} setSpec={setSpec} setSpecNumber={setSpecNumber} setOpen={setOpen} setKind={setKind}
-          afterRemove={afterRemove} notice={notice} />
+        <SpecsTable
+          kit={kit}
+          draft={draft}
+          specText={specText}
+          hydrated={hydrated}
+          setSpec={setSpec}
+          setSpecNumber={setSpecNumber}
+          setOpen={setOpen}
+          setKind={setKind}
+          afterRemove={afterRemove}
+          notice={notice}
+        />
 
         <section aria-labelledby="ed-notes-heading" className="space-y-2">
-          <h2 id="ed-notes-heading" className="text-xl font-bold"><label htmlFor={editorFieldId("notes")}>Notes</label></h2>
+          <h2 id="ed-notes-heading" className="text-xl font-bold">
+            <label htmlFor={editorFieldId("notes")}>Notes</label>
+          </h2>
           <p id="ed-notes-hint" className="text-sm text-muted">
-            Anything a rider should know: variants by year, what to look out for. Markdown is allowed (**bold**, lists, links); it is shown formatted once saved.
+            Anything a rider should know: variants by year, what to look out for. Markdown is allowed (**bold**, lists, links); it is shown formatted once
+            saved.
           </p>
-          <textarea id={editorFieldId("notes")} name="notes" rows={6} maxLength={LIMITS.notes} value={draft.notes} onChange={(e) => setField("notes", e.target.value)}
-            aria-describedby={describedBy("notes", "ed-notes-hint")} className={inputClass(problemsOf("notes").length > 0)} />
+          <textarea
+            id={editorFieldId("notes")}
+            name="notes"
+            rows={6}
+            maxLength={LIMITS.notes}
+            value={draft.notes}
+            onChange={(e) => setField("notes", e.target.value)}
+            aria-describedby={describedBy("notes", "ed-notes-hint")}
+            className={inputClass(problemsOf("notes").length > 0)}
+          />
           {problemText("notes")}
         </section>
       </fieldset>

@@ -11,15 +11,19 @@ export interface FamilyCardOption {
 }
 
 // The names of the editor's own inputs (as proposalFromForm reads them), which keep their own ids.
-const INPUT_NAME = /^(?:name|location|housing|gender|system|matesWith|notes|paste|pasteMode|layout\.(?:rows|cols|pin1|latch|cell\.\d+\.\d+)|pins\.\d+\.(?:cavity|code|circuit|terminal|goesToConnector|goesToCavity)|specs\.\d+\.(?:name|min|max|open|unit|betweenA|betweenB|atC|source|conditions|kind|material))$/;
+const INPUT_NAME =
+  /^(?:name|location|housing|gender|system|matesWith|notes|paste|pasteMode|layout\.(?:rows|cols|pin1|latch|cell\.\d+\.\d+)|pins\.\d+\.(?:cavity|code|circuit|terminal|goesToConnector|goesToCavity)|specs\.\d+\.(?:name|min|max|open|unit|betweenA|betweenB|atC|source|conditions|kind|material))$/;
 
 /**
  * The element id the editor gives a form field (its `name`, or a Problem.field such as "pins.2.goesTo" or "layout"), so a
  * page can link to it and give its own fields (sourceKind, sourceDetail …) ids that the problem summary's links reach.
  */
 export function editorFieldId(field: string): string {
-  const target = INPUT_NAME.test(field) ? field
-    : displayKey(field).replace(/^pins\.(\d+)\.goesTo$/, "pins.$1.goesToConnector").replace(/^specs\.(\d+)\.between$/, "specs.$1.betweenA");
+  const target = INPUT_NAME.test(field)
+    ? field
+    : displayKey(field)
+        .replace(/^pins\.(\d+)\.goesTo$/, "pins.$1.goesToConnector")
+        .replace(/^specs\.(\d+)\.between$/, "specs.$1.betweenA");
   return "ed-" + target.replace(/[^A-Za-z0-9_-]+/g, "-");
 }
 
@@ -48,13 +52,21 @@ export function decodeFor(code: string | null, system: ColourSystemId, houseStyl
   const d = decodeColour(code, system, { houseStyle });
   if (!d.ok) return { ok: false, message: d.error.message };
   const [base, ...rest] = d.value.colours;
-  return { ok: true, words: describeColour(d.value), baseHex: swatch(base).hex, ink: swatch(base).ink, tracerHexes: rest.map((c) => swatch(c).hex), iec: d.value.iec };
+  return {
+    ok: true,
+    words: describeColour(d.value),
+    baseHex: swatch(base).hex,
+    ink: swatch(base).ink,
+    tracerHexes: rest.map((c) => swatch(c).hex),
+    iec: d.value.iec,
+  };
 }
 
 export const numText = (n: unknown) => (typeof n === "number" && Number.isFinite(n) ? String(n) : "");
 
 // An open maximum (null) counts as blank here, as the form reader drops a row with no name, numbers or conditions.
-export const isBlankSpec = (s: ProposedSpec) => !s.name.trim() && !Number.isFinite(s.min) && !Number.isFinite(s.max ?? Number.NaN) && !(s.conditions ?? "").trim();
+export const isBlankSpec = (s: ProposedSpec) =>
+  !s.name.trim() && !Number.isFinite(s.min) && !Number.isFinite(s.max ?? Number.NaN) && !(s.conditions ?? "").trim();
 
 export function readingOrder(cavities: HousingLayout["cavities"]) {
   return [...cavities].sort((a, b) => a.row - b.row || a.col - b.col);
@@ -67,7 +79,8 @@ export type Notice = { where: "layout" | "pins" | "paste" | "specs"; text: strin
 export const INPUT = "mt-1 block w-full rounded border-2 bg-white px-2 py-1.5 text-base disabled:bg-paper";
 export const inputClass = (bad: boolean) => `${INPUT} ${bad ? "border-signal" : "border-ink"}`;
 export const LABEL = "block text-sm font-semibold";
-export const SMALL_BUTTON = "rounded border-2 border-ink bg-white px-2.5 py-1 text-sm font-semibold hover:bg-paper disabled:cursor-not-allowed disabled:opacity-40";
+export const SMALL_BUTTON =
+  "rounded border-2 border-ink bg-white px-2.5 py-1 text-sm font-semibold hover:bg-paper disabled:cursor-not-allowed disabled:opacity-40";
 export const BUTTON = "rounded border-2 border-ink bg-white px-3 py-1.5 font-semibold hover:bg-paper disabled:cursor-not-allowed disabled:opacity-40";
 
 // The two lists the inputs point at: the layout's cavity labels (pins) and those plus the off-card points (specs).

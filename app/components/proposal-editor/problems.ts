@@ -39,7 +39,10 @@ export function editorProblems(args: {
       if (isBlankSpec(s)) return false;
       return m[4] === "between" ? s.between.every((c) => c.trim() !== "") : Number.isFinite(s.min) && (s.max === null || Number.isFinite(s.max));
     }
-    if (m[2] === "goesTo") { const g = draft.pins[Number(m[1])].goesTo; return Boolean(g?.connector && g.cavity); }
+    if (m[2] === "goesTo") {
+      const g = draft.pins[Number(m[1])].goesTo;
+      return Boolean(g?.connector && g.cavity);
+    }
     return true;
   });
   draft.pins.forEach((pin, i) => {
@@ -57,7 +60,8 @@ export function editorProblems(args: {
       }
     }
     if (isBlankSpec(s)) return;
-    if (!typo && !(Number.isFinite(s.min) && (s.max === null || Number.isFinite(s.max)))) live.push({ field: `specs.${i}.min`, message: `Spec ${i + 1}: give the least and the greatest value.` });
+    if (!typo && !(Number.isFinite(s.min) && (s.max === null || Number.isFinite(s.max))))
+      live.push({ field: `specs.${i}.min`, message: `Spec ${i + 1}: give the least and the greatest value.` });
     if (s.between.some((c) => c.trim() === "")) live.push({ field: `specs.${i}.between`, message: `Spec ${i + 1}: give both cavities to measure between.` });
   });
   const byField = new Map<string, string[]>();

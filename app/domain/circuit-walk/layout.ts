@@ -34,9 +34,19 @@ export function layout(graph: LoomGraph, nodes: Map<string, WalkNode>, circuit: 
         step = points.length + 1;
         stepOf.set(node, step);
         points.push({
-          step, node, connector: info!.connector, connectorName: info!.connectorName, cavity: info!.cavity, colour: info!.code,
+          step,
+          node,
+          connector: info!.connector,
+          connectorName: info!.connectorName,
+          cavity: info!.cavity,
+          colour: info!.code,
           label: info!.connector ? `${info!.connectorName}, cavity ${info!.cavity}` : `${info!.componentName}, terminal ${info!.cavity}`,
-          side, after: prev, before: null, elementsBefore: between.map(describe), expect: { quantity: "voltage", min: null, max: null, unit: "V" }, how: "",
+          side,
+          after: prev,
+          before: null,
+          elementsBefore: between.map(describe),
+          expect: { quantity: "voltage", min: null, max: null, unit: "V" },
+          how: "",
         });
       }
       if (prev !== null && prev !== step) {
@@ -57,9 +67,17 @@ export function layout(graph: LoomGraph, nodes: Map<string, WalkNode>, circuit: 
 function workingPositions(graph: LoomGraph, circuit: WalkCircuit, load: GraphEdge, given: SwitchState): SwitchState {
   if (graph.loop(circuit.from, load, circuit.to, given)) return given;
   const options: Record<string, string[]> = {
-    main: ["on", "park"], kill: ["run"], start: ["pressed", "released"], lights: ["on", "off"], brake: ["pressed", "released"],
-    beam: ["low", "high"], indicators: ["left", "right", "off"], horn: ["pressed", "released"], gear: ["neutral", "in-gear"],
-    engine: ["stopped", "cranking", "running"], points: ["closed", "open"],
+    main: ["on", "park"],
+    kill: ["run"],
+    start: ["pressed", "released"],
+    lights: ["on", "off"],
+    brake: ["pressed", "released"],
+    beam: ["low", "high"],
+    indicators: ["left", "right", "off"],
+    horn: ["pressed", "released"],
+    gear: ["neutral", "in-gear"],
+    engine: ["stopped", "cranking", "running"],
+    points: ["closed", "open"],
   };
   let combos: SwitchState[] = [{ ...given }];
   for (const id of Object.keys(given) as (keyof SwitchState)[]) {

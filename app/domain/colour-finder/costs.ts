@@ -133,10 +133,12 @@ const COMBINED_COST = Int32Array.from(
     .flat()
     .map(milli),
 );
-const COMBINED_QUALITY = Uint8Array.from([
-  [Q_EXACT, Q_FADED, Q_TRACER, Q_TRACER, Q_NONE],
-  [Q_FADED, Q_FADED, Q_FADED, Q_FADED, Q_NONE],
-].flat());
+const COMBINED_QUALITY = Uint8Array.from(
+  [
+    [Q_EXACT, Q_FADED, Q_TRACER, Q_TRACER, Q_NONE],
+    [Q_FADED, Q_FADED, Q_FADED, Q_FADED, Q_NONE],
+  ].flat(),
+);
 
 /**
  * Colour indices of a wire, base first. The protective-earth colour green-yellow is compared as

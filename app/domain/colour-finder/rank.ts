@@ -169,8 +169,7 @@ export function findConnectors(index: FinderIndex, query: FinderQuery): FinderRe
   // Pass 3: exact optimal assignment while a bound can still reach the top `limit`.
   const top: Ranked[] = [];
   const slugOf = (c: number) => index.connectors[c].slug;
-  const better = (a: Ranked, b: Ranked) =>
-    a.key !== b.key ? a.key > b.key : a.unused !== b.unused ? a.unused < b.unused : slugOf(a.c) < slugOf(b.c);
+  const better = (a: Ranked, b: Ranked) => (a.key !== b.key ? a.key > b.key : a.unused !== b.unused ? a.unused < b.unused : slugOf(a.c) < slugOf(b.c));
   const matrices = new Map<number, number[][]>();
   let assigned = 0;
   for (let b = 0; b < BINS; b++) {

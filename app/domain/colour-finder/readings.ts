@@ -79,7 +79,10 @@ export function readWires(
     const wire = wires[w];
     const label = `Wire ${w + 1} (${JSON.stringify(typeof wire === "string" ? wire : String(wire))})`;
     if (typeof wire !== "string") {
-      return { ok: false, error: { code: "unknown_colour", message: `${label} is not a colour code; send each wire as text such as "W/R"`, field: `wires.${w}` } };
+      return {
+        ok: false,
+        error: { code: "unknown_colour", message: `${label} is not a colour code; send each wire as text such as "W/R"`, field: `wires.${w}` },
+      };
     }
     const mine: ColourName[][] = [];
     const from: ReadingOrigin[] = [];

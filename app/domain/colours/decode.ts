@@ -149,8 +149,7 @@ function candidates(input: string, mode: Mode, systems: readonly ColourSystemId[
   return out;
 }
 
-const labelOf = (c: { system: ColourSystemId; house: HouseStyleId | null }) =>
-  c.system === "jis" ? `${c.system} (${c.house})` : c.system;
+const labelOf = (c: { system: ColourSystemId; house: HouseStyleId | null }) => (c.system === "jis" ? `${c.system} (${c.house})` : c.system);
 
 /**
  * The chosen reading with the others as ambiguities. A jis house is listed only when it reads the code differently

@@ -24,9 +24,9 @@ const entries = (pairs: readonly (readonly [string, ColourName])[]): readonly Co
 
 // The shared rows of the mixed-case Japanese-style houses: REFERENCE-FACTS 1.3 without B, L and Lb, the three
 // letters the other houses spend differently.
-const JIS_COMMON: readonly (readonly [string, ColourName])[] = JIS_CODES
-  .filter(({ code }) => code !== "B" && code !== "L" && code !== "Lb")
-  .map(({ code, colour }) => [code, colour] as const);
+const JIS_COMMON: readonly (readonly [string, ColourName])[] = JIS_CODES.filter(({ code }) => code !== "B" && code !== "L" && code !== "Lb").map(
+  ({ code, colour }) => [code, colour] as const,
+);
 
 // REFERENCE-FACTS 5 [from memory]: "one writes Bl black, Bu blue". B and L are dropped, since a house that spends
 // Bl on black writes neither B nor L; Lb stays light blue as in 1.3 (our decision: nothing in the house clashes with it).

@@ -77,9 +77,7 @@ const IEC_TABLE: readonly (readonly [string, ColourName])[] = [
 ];
 
 /** IEC 60757 Table 1 as {code, colour}, in the standard's order (BK first, GNYE last). */
-export const IEC_CODES: readonly { code: string; colour: ColourName }[] = Object.freeze(
-  IEC_TABLE.map(([code, colour]) => Object.freeze({ code, colour })),
-);
+export const IEC_CODES: readonly { code: string; colour: ColourName }[] = Object.freeze(IEC_TABLE.map(([code, colour]) => Object.freeze({ code, colour })));
 
 const IEC_POSITION = new Map(IEC_TABLE.map(([code], i) => [code, i]));
 const IEC_BY_NAME = new Map<ColourName, string>(IEC_TABLE.map(([code, colour]) => [colour, code]));

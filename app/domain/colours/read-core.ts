@@ -37,8 +37,7 @@ export function segmentsOf(s: string): Segment[] {
 export const miss = (part: string, at: number, message?: string): Miss => ({ ok: false, part, at, message });
 export const rule = (part: string, at: number, message: string): Miss => ({ ok: false, part, at, message, rule: true });
 
-export const mapOf = (rows: readonly CodeEntry[], key: (code: string) => string = (c) => c) =>
-  new Map(rows.map(({ code, colour }) => [key(code), colour]));
+export const mapOf = (rows: readonly CodeEntry[], key: (code: string) => string = (c) => c) => new Map(rows.map(({ code, colour }) => [key(code), colour]));
 
 export interface Token {
   code: string;

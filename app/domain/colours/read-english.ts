@@ -88,9 +88,7 @@ export function readEn(s: string): Outcome {
 // ---- English words --------------------------------------------------------------------------
 
 // Single words that name a colour outright (EN_COLOUR_WORDS split into words, less the shade prefixes).
-const WHOLE_WORDS = new Set(
-  EN_COLOUR_WORDS.flatMap((w) => w.split(/[\s-]+/)).filter((w) => !["light", "dark", "sky", "and"].includes(w)),
-);
+const WHOLE_WORDS = new Set(EN_COLOUR_WORDS.flatMap((w) => w.split(/[\s-]+/)).filter((w) => !["light", "dark", "sky", "and"].includes(w)));
 
 /** True when the input is English colour words ("brown", "Red w/ White stripe", "black/white"): read only as en, never letter by letter. */
 export function isEnglishColourWords(input: string): boolean {

@@ -132,8 +132,29 @@ export const EN_CODES = entries([
  * of these words is English whatever else its letters could spell: "brown" is never B+R+O+W+N in the British code.
  */
 export const EN_COLOUR_WORDS: readonly string[] = Object.freeze([
-  "black", "brown", "red", "orange", "yellow", "green", "blue", "violet", "purple", "grey", "gray", "slate", "white",
-  "pink", "turquoise", "gold", "silver", "light green", "dark green", "light blue", "sky blue", "chocolate", "tan",
+  "black",
+  "brown",
+  "red",
+  "orange",
+  "yellow",
+  "green",
+  "blue",
+  "violet",
+  "purple",
+  "grey",
+  "gray",
+  "slate",
+  "white",
+  "pink",
+  "turquoise",
+  "gold",
+  "silver",
+  "light green",
+  "dark green",
+  "light blue",
+  "sky blue",
+  "chocolate",
+  "tan",
   "green-and-yellow",
 ]);
 

@@ -76,12 +76,32 @@ export function batteryWindow(systemV: 6 | 12, engine: EngineState, regulated?: 
   const v = (x: number) => Math.round(x * k * 100) / 100;
   if (engine === "running") {
     if (regulated) {
-      return { nominal: (regulated.min + regulated.max) / 2, min: regulated.min, max: regulated.max, basis: `charging at rpm: the family's regulated-voltage spec, ${regulated.min}–${regulated.max} V at the battery` };
+      return {
+        nominal: (regulated.min + regulated.max) / 2,
+        min: regulated.min,
+        max: regulated.max,
+        basis: `charging at rpm: the family's regulated-voltage spec, ${regulated.min}–${regulated.max} V at the battery`,
+      };
     }
-    return { nominal: v(14), min: v(13.5), max: v(14.5), basis: `charging at rpm: ${v(13.5)}–${v(14.5)} V at the battery (common practice for lead-acid, ${k === 1 ? "12" : "6"} V)` };
+    return {
+      nominal: v(14),
+      min: v(13.5),
+      max: v(14.5),
+      basis: `charging at rpm: ${v(13.5)}–${v(14.5)} V at the battery (common practice for lead-acid, ${k === 1 ? "12" : "6"} V)`,
+    };
   }
   if (engine === "cranking") {
-    return { nominal: v(10.5), min: v(9.6), max: v(12.7), basis: `cranking: at least ${v(9.6)} V at the battery with a healthy battery and starter (common practice)` };
+    return {
+      nominal: v(10.5),
+      min: v(9.6),
+      max: v(12.7),
+      basis: `cranking: at least ${v(9.6)} V at the battery with a healthy battery and starter (common practice)`,
+    };
   }
-  return { nominal: v(12.6), min: v(12.2), max: v(13.2), basis: `engine stopped: ${v(12.6)} V fully charged, ${v(12.2)} V half charged (resting voltage of a flooded lead-acid battery); below that, charge it before testing` };
+  return {
+    nominal: v(12.6),
+    min: v(12.2),
+    max: v(13.2),
+    basis: `engine stopped: ${v(12.6)} V fully charged, ${v(12.2)} V half charged (resting voltage of a flooded lead-acid battery); below that, charge it before testing`,
+  };
 }

@@ -22,17 +22,31 @@ export function solveTopology(elements: readonly { e: Element; b: Behaviour }[],
     for (let y = n, p = parent.get(y); p !== undefined && p !== r; y = p, p = parent.get(y)) parent.set(y, r);
     return r;
   };
-  const touch = (n: string) => { if (!parent.has(n)) parent.set(n, n); };
-  for (const { e } of elements) { touch(e.a); touch(e.b); }
-  touch(net.plus); touch(net.minus);
-  for (const { e, b } of elements) if (b.t === "conductor") { const ra = find(e.a), rb = find(e.b); if (ra !== rb) parent.set(ra, rb); }
+  const touch = (n: string) => {
+    if (!parent.has(n)) parent.set(n, n);
+  };
+  for (const { e } of elements) {
+    touch(e.a);
+    touch(e.b);
+  }
+  touch(net.plus);
+  touch(net.minus);
+  for (const { e, b } of elements)
+    if (b.t === "conductor") {
+      const ra = find(e.a),
+        rb = find(e.b);
+      if (ra !== rb) parent.set(ra, rb);
+    }
 
   const ref = find(net.minus);
   const supers: string[] = [];
   const index = new Map<string, number>();
   for (const n of parent.keys()) {
     const r = find(n);
-    if (r !== ref && !index.has(r)) { index.set(r, supers.length); supers.push(r); }
+    if (r !== ref && !index.has(r)) {
+      index.set(r, supers.length);
+      supers.push(r);
+    }
   }
   const sources = elements.filter(({ b }) => b.t === "voltage");
   const size = supers.length + sources.length;
@@ -42,20 +56,35 @@ export function solveTopology(elements: readonly { e: Element; b: Behaviour }[],
   const stampG = (a: number, b: number, g: number) => {
     if (a >= 0) A[a * size + a] += g;
     if (b >= 0) A[b * size + b] += g;
-    if (a >= 0 && b >= 0) { A[a * size + b] -= g; A[b * size + a] -= g; }
+    if (a >= 0 && b >= 0) {
+      A[a * size + b] -= g;
+      A[b * size + a] -= g;
+    }
   };
   for (let i = 0; i < supers.length; i++) A[i * size + i] += GMIN;
   for (const { e, b } of elements) {
-    const sa = at(find(e.a)), sb = at(find(e.b));
+    const sa = at(find(e.a)),
+      sb = at(find(e.b));
     if (b.t === "resistor" && sa !== sb) stampG(sa, sb, 1 / b.ohms);
-    if (b.t === "current") { if (sa >= 0) z[sa] -= b.amps; if (sb >= 0) z[sb] += b.amps; if (sa !== sb) stampG(sa, sb, 1 / b.ohms); }
+    if (b.t === "current") {
+      if (sa >= 0) z[sa] -= b.amps;
+      if (sb >= 0) z[sb] += b.amps;
+      if (sa !== sb) stampG(sa, sb, 1 / b.ohms);
+    }
   }
   sources.forEach(({ e, b }, k) => {
     const row = supers.length + k;
-    const sa = at(find(e.a)), sb = at(find(e.b));
+    const sa = at(find(e.a)),
+      sb = at(find(e.b));
     // MNA: the source's current j flows from a through the source to b (so it leaves node a's KCL).
-    if (sa >= 0) { A[sa * size + row] += 1; A[row * size + sa] += 1; }
-    if (sb >= 0) { A[sb * size + row] -= 1; A[row * size + sb] -= 1; }
+    if (sa >= 0) {
+      A[sa * size + row] += 1;
+      A[row * size + sa] += 1;
+    }
+    if (sb >= 0) {
+      A[sb * size + row] -= 1;
+      A[row * size + sb] -= 1;
+    }
     z[row] = (b as { volts: number }).volts;
   });
   const x = solveDense(A, z, size);
@@ -69,7 +98,8 @@ export function solveTopology(elements: readonly { e: Element; b: Behaviour }[],
   sources.forEach(({ e }, k) => {
     const j = x[supers.length + k];
     I.set(e.id, j);
-    add(e.a, -j); add(e.b, j);
+    add(e.a, -j);
+    add(e.b, j);
   });
   for (const { e, b } of elements) {
     let i: number;
@@ -77,23 +107,35 @@ export function solveTopology(elements: readonly { e: Element; b: Behaviour }[],
     else if (b.t === "current") i = b.amps - (superV(find(e.b)) - superV(find(e.a))) / b.ohms;
     else continue;
     I.set(e.id, i);
-    add(e.a, -i); add(e.b, i);
+    add(e.a, -i);
+    add(e.b, i);
   }
 
   // 3. Inside each merged node: the conductors' currents (Kirchhoff's current law) and drops, from the wires' resistance.
   const members = new Map<string, string[]>();
-  for (const n of parent.keys()) { const r = find(n); (members.get(r) ?? members.set(r, []).get(r)!).push(n); }
+  for (const n of parent.keys()) {
+    const r = find(n);
+    (members.get(r) ?? members.set(r, []).get(r)!).push(n);
+  }
   const conductorsOf = new Map<string, { e: Element; ohms: number }[]>();
-  for (const { e, b } of elements) if (b.t === "conductor") { const r = find(e.a); (conductorsOf.get(r) ?? conductorsOf.set(r, []).get(r)!).push({ e, ohms: b.ohms }); }
+  for (const { e, b } of elements)
+    if (b.t === "conductor") {
+      const r = find(e.a);
+      (conductorsOf.get(r) ?? conductorsOf.set(r, []).get(r)!).push({ e, ohms: b.ohms });
+    }
   const sourceNodes = new Set(sources.flatMap(({ e }) => [e.a, e.b]));
   const V = new Map<string, number>();
   for (const [r, nodes] of members) {
     const base = superV(r);
     const conds = conductorsOf.get(r) ?? [];
-    if (nodes.length === 1 || conds.length === 0) { for (const n of nodes) V.set(n, base); continue; }
+    if (nodes.length === 1 || conds.length === 0) {
+      for (const n of nodes) V.set(n, base);
+      continue;
+    }
     // The merged node's voltage is the solved one at a source's terminal (the battery post), else where most current enters.
-    const anchor = nodes.includes(net.minus) ? net.minus : nodes.find((n) => sourceNodes.has(n))
-      ?? nodes.reduce((m, n) => (Math.abs(inject.get(n) ?? 0) > Math.abs(inject.get(m) ?? 0) ? n : m), nodes[0]);
+    const anchor = nodes.includes(net.minus)
+      ? net.minus
+      : (nodes.find((n) => sourceNodes.has(n)) ?? nodes.reduce((m, n) => (Math.abs(inject.get(n) ?? 0) > Math.abs(inject.get(m) ?? 0) ? n : m), nodes[0]));
     const phi = conductorPotentials(nodes, conds, inject, anchor);
     for (const n of nodes) V.set(n, base + (phi.get(n) ?? 0));
     for (const { e, ohms } of conds) I.set(e.id, ((phi.get(e.a) ?? 0) - (phi.get(e.b) ?? 0)) / ohms);
@@ -112,7 +154,11 @@ export function solveTopology(elements: readonly { e: Element; b: Behaviour }[],
   const live = find(net.earth === "positive" ? net.minus : net.plus);
   const earthRoot = find(net.earth === "positive" ? net.plus : net.minus);
   const touchesLoad = new Set<string>();
-  for (const { e, b } of elements) if (b.t === "resistor" || b.t === "voltage" || b.t === "current") { touchesLoad.add(find(e.a)); touchesLoad.add(find(e.b)); }
+  for (const { e, b } of elements)
+    if (b.t === "resistor" || b.t === "voltage" || b.t === "current") {
+      touchesLoad.add(find(e.a));
+      touchesLoad.add(find(e.b));
+    }
   const via = new Map<string, "live" | "earth" | "load" | "none">();
   for (const n of parent.keys()) {
     const r = find(n);
@@ -132,13 +178,20 @@ function conductorPotentials(nodes: string[], conds: { e: Element; ohms: number 
   const rhs = new Float64Array(m);
   for (const { e, ohms } of conds) {
     const g = 1 / ohms;
-    const a = idx.get(e.a) ?? -1, b = idx.get(e.b) ?? -1;
+    const a = idx.get(e.a) ?? -1,
+      b = idx.get(e.b) ?? -1;
     if (a >= 0) L[a * m + a] += g;
     if (b >= 0) L[b * m + b] += g;
-    if (a >= 0 && b >= 0) { L[a * m + b] -= g; L[b * m + a] -= g; }
+    if (a >= 0 && b >= 0) {
+      L[a * m + b] -= g;
+      L[b * m + a] -= g;
+    }
   }
   // A conductor-joined node is connected by construction; the injections sum to the anchor's share.
-  for (const [n, i] of idx) { rhs[i] = inject.get(n) ?? 0; L[i * m + i] += 1e-12; }
+  for (const [n, i] of idx) {
+    rhs[i] = inject.get(n) ?? 0;
+    L[i * m + i] += 1e-12;
+  }
   const sol = solveDense(L, rhs, m);
   for (const [n, i] of idx) phi.set(n, sol[i]);
   return phi;
@@ -152,12 +205,21 @@ function solveDense(A: Float64Array, b: Float64Array, n: number): Float64Array {
     let best = Math.abs(A[col * n + col]);
     for (let r = col + 1; r < n; r++) {
       const v = Math.abs(A[r * n + col]);
-      if (v > best) { best = v; piv = r; }
+      if (v > best) {
+        best = v;
+        piv = r;
+      }
     }
     if (best === 0) continue;
     if (piv !== col) {
-      for (let c = col; c < n; c++) { const t = A[col * n + c]; A[col * n + c] = A[piv * n + c]; A[piv * n + c] = t; }
-      const t = x[col]; x[col] = x[piv]; x[piv] = t;
+      for (let c = col; c < n; c++) {
+        const t = A[col * n + c];
+        A[col * n + c] = A[piv * n + c];
+        A[piv * n + c] = t;
+      }
+      const t = x[col];
+      x[col] = x[piv];
+      x[piv] = t;
     }
     const d = A[col * n + col];
     for (let r = col + 1; r < n; r++) {

@@ -39,7 +39,6 @@ export interface Solution {
   behaviourOf(id: string): Behaviour["t"];
 }
 
-
 /** Solve the network in a state. */
 export function solve(net: Network, state: OperatingState, opts: SolveOptions = {}): Solution {
   const window = batteryWindow(net.systemV, state.engine as EngineState, net.regulated);
@@ -68,7 +67,7 @@ export function solve(net: Network, state: OperatingState, opts: SolveOptions = 
     });
   const open = solveTopology(fix(new Set()), net);
   const variants = switchingIdx.map((i) => ({ i, duty: (elements[i]!.b as { duty: number }).duty, sol: solveTopology(fix(new Set([i])), net) }));
-  const allClosed = switchingIdx.length > 1 ? solveTopology(fix(new Set(switchingIdx)), net) : variants[0]?.sol ?? open;
+  const allClosed = switchingIdx.length > 1 ? solveTopology(fix(new Set(switchingIdx)), net) : (variants[0]?.sol ?? open);
 
   const avgV = (n: string) => variants.reduce((v, k) => v + k.duty * ((k.sol.V.get(n) ?? 0) - (open.V.get(n) ?? 0)), open.V.get(n) ?? 0);
   const avgI = (id: string) => variants.reduce((v, k) => v + k.duty * ((k.sol.I.get(id) ?? 0) - (open.I.get(id) ?? 0)), open.I.get(id) ?? 0);
@@ -80,7 +79,9 @@ export function solve(net: Network, state: OperatingState, opts: SolveOptions = 
   const earthV = () => open.V.get(earth) ?? 0;
   const byId = new Map(elements.map((x) => [x.e.id, x.b.t]));
   return {
-    state, batteryV, window,
+    state,
+    batteryV,
+    window,
     volts: avgV,
     reading: (n) => avgV(n) - earthV(),
     current: avgI,

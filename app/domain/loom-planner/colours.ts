@@ -19,8 +19,16 @@ export const SIMPLE_SCHEME: readonly string[] = Object.freeze([
 ]);
 
 const GROUP_BASE: Record<string, ColourName> = {
-  feed: "red", switched: "white", negative: "green", signal: "grey", charging: "yellow", starting: "brown", lighting: "blue",
-  signals: "orange", instruments: "violet", other: "pink",
+  feed: "red",
+  switched: "white",
+  negative: "green",
+  signal: "grey",
+  charging: "yellow",
+  starting: "brown",
+  lighting: "blue",
+  signals: "orange",
+  instruments: "violet",
+  other: "pink",
 };
 const TRACERS: readonly ColourName[] = ["white", "black", "red", "blue", "green", "yellow", "orange", "violet", "grey", "brown", "pink"];
 
@@ -41,16 +49,30 @@ function groupOf(net: string, rows: CutRow[], topo: Topology, input: PlannerInpu
   const circuits = kept.filter((c) => mine.some((r) => r.circuits.includes(c.slug)));
   const systems = new Set(circuits.map((c) => c.system));
   const live = input.network.earth === "positive" ? input.network.minus : input.network.plus;
-  const liveNet = topo.netOf.get(input.wires.find((w) => { const e = input.network.elements.find((x) => x.id === w.id); return e && (e.a === live || e.b === live); })?.id ?? "");
+  const liveNet = topo.netOf.get(
+    input.wires.find((w) => {
+      const e = input.network.elements.find((x) => x.id === w.id);
+      return e && (e.a === live || e.b === live);
+    })?.id ?? "",
+  );
   if (net === liveNet) return "feed";
   if (systems.has("charging")) return "charging";
   // Joined to the live post through fuses only (no switch): still an unswitched feed.
   const fed = circuits.filter((c) => c.from === live);
-  const onlyFuses = fed.length > 0 && fed.every((c) => {
-    const t = topo.circuits.get(c.slug)!;
-    const at = t.supplyOrder.findIndex((id) => mine.some((r) => r.wire === id));
-    return at >= 0 && t.supplyOrder.slice(0, at).every((id) => !t.contacts.includes(id) && !input.network.elements.find((e) => e.id === id && e.kind !== "wire" && e.kind !== "mate" && e.kind !== "fuse"));
-  });
+  const onlyFuses =
+    fed.length > 0 &&
+    fed.every((c) => {
+      const t = topo.circuits.get(c.slug)!;
+      const at = t.supplyOrder.findIndex((id) => mine.some((r) => r.wire === id));
+      return (
+        at >= 0 &&
+        t.supplyOrder
+          .slice(0, at)
+          .every(
+            (id) => !t.contacts.includes(id) && !input.network.elements.find((e) => e.id === id && e.kind !== "wire" && e.kind !== "mate" && e.kind !== "fuse"),
+          )
+      );
+    });
   if (onlyFuses) return "feed";
   const returnSide = circuits.length > 0 && circuits.every((c) => topo.circuits.get(c.slug)!.ret.some((id) => mine.some((r) => r.wire === id)));
   if (systems.size > 1) return "switched";
@@ -94,7 +116,10 @@ export function colourRows(rows: CutRow[], topo: Topology, input: PlannerInput, 
   const groups = new Map<string, string>(nets.map((n) => [n, groupOf(n, rows, topo, input, kept)]));
   for (const n of nets) {
     const g = groups.get(n)!;
-    if (g === "earth") { assign.set(n, earthColours); continue; }
+    if (g === "earth") {
+      assign.set(n, earthColours);
+      continue;
+    }
     const base = GROUP_BASE[g]!; // earth is handled above; every other group is a key of GROUP_BASE
     const options: ColourName[][] = [[base], ...TRACERS.map((t) => [base, t] as ColourName[])];
     // When a group runs out, any free pair that keeps the rules.

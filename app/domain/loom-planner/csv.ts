@@ -6,8 +6,26 @@ import type { PlanResult } from "./types";
 // ---------------------------------------------------------------------------------------------
 // CSV
 
-const CSV_HEADER = ["wire", "from", "to", "colour", "colours", "length_m", "length_source", "current_a", "continuous_a", "peak_a", "role", "circuits",
-  "size_mm2", "awg", "drop_v", "drop_pct", "decided_by", "notes"] as const;
+const CSV_HEADER = [
+  "wire",
+  "from",
+  "to",
+  "colour",
+  "colours",
+  "length_m",
+  "length_source",
+  "current_a",
+  "continuous_a",
+  "peak_a",
+  "role",
+  "circuits",
+  "size_mm2",
+  "awg",
+  "drop_v",
+  "drop_pct",
+  "decided_by",
+  "notes",
+] as const;
 
 function csvCell(v: string | number | null): string {
   const s = v === null ? "" : String(v);
@@ -22,10 +40,30 @@ const num = (x: number, decimals: number) => String(Number(x.toFixed(decimals)))
 export function cutListCsv(plan: PlanResult): string {
   const lines = [CSV_HEADER.join(",")];
   for (const r of plan.rows) {
-    lines.push([
-      r.wire, r.from, r.to, r.colour, r.colours.join("/"), num(r.lengthM, 3), r.lengthSource, num(r.currentA, 2), num(r.continuousA, 2), num(r.peakA, 2), r.role,
-      r.circuits.join("; "), num(r.sizeMm2, 2), r.awg === null ? null : awgLabel(r.awg).replace(" AWG", ""), num(r.dropV, 3), num(r.dropPct, 2), r.decidedBy, r.notes.join(" "),
-    ].map(csvCell).join(","));
+    lines.push(
+      [
+        r.wire,
+        r.from,
+        r.to,
+        r.colour,
+        r.colours.join("/"),
+        num(r.lengthM, 3),
+        r.lengthSource,
+        num(r.currentA, 2),
+        num(r.continuousA, 2),
+        num(r.peakA, 2),
+        r.role,
+        r.circuits.join("; "),
+        num(r.sizeMm2, 2),
+        r.awg === null ? null : awgLabel(r.awg).replace(" AWG", ""),
+        num(r.dropV, 3),
+        num(r.dropPct, 2),
+        r.decidedBy,
+        r.notes.join(" "),
+      ]
+        .map(csvCell)
+        .join(","),
+    );
   }
   return lines.join("\r\n") + "\r\n";
 }

@@ -3,14 +3,31 @@
 import { COLOUR_SYSTEM_IDS } from "../colours";
 import { FITTING_SOURCE, parseFitting } from "../terminals";
 import {
-  AMPACITY_A_PER_MM2, CLASS5_WORST_OHM_MM2_PER_KM, FUSE_MARGIN, SHORT_TERM_A_PER_MM2, WorkshopInputError, copperTempFactor, strandedResistance,
+  AMPACITY_A_PER_MM2,
+  CLASS5_WORST_OHM_MM2_PER_KM,
+  FUSE_MARGIN,
+  SHORT_TERM_A_PER_MM2,
+  WorkshopInputError,
+  copperTempFactor,
+  strandedResistance,
 } from "../wire-size";
 import { SIMPLE_SCHEME, colourRows } from "./colours";
 import { fullLoomCurrents, statesOf, worstCurrents } from "./currents";
 import { planFuses } from "./fuses";
 import { partsList } from "./parts";
 import {
-  ASSUMED_RUN_M, EPS, FUSE_MOMENTARY_FACTOR, MAX_RUN_M, MIN_PRACTICAL_MM2, NO_CURRENT_A, circuitDropPct, fail, fmt, round3, smallestAwg, smallestMetric,
+  ASSUMED_RUN_M,
+  EPS,
+  FUSE_MOMENTARY_FACTOR,
+  MAX_RUN_M,
+  MIN_PRACTICAL_MM2,
+  NO_CURRENT_A,
+  circuitDropPct,
+  fail,
+  fmt,
+  round3,
+  smallestAwg,
+  smallestMetric,
 } from "./rules";
 import { topology } from "./topology";
 import type { CircuitDrop, CutRow, PlanResult, PlannerInput, WireRole } from "./types";
@@ -25,7 +42,8 @@ function checkInput(input: PlannerInput) {
   if (!Array.isArray(input.keep) || input.keep.length === 0) throw fail("keep", "choose at least one circuit to keep");
   const slugs = new Set(input.circuits.map((c) => c.slug));
   for (const slug of input.keep) {
-    if (typeof slug !== "string" || !slugs.has(slug)) throw fail("keep", `"${String(slug)}" is not a circuit of this family; use one of ${[...slugs].join(", ")}`);
+    if (typeof slug !== "string" || !slugs.has(slug))
+      throw fail("keep", `"${String(slug)}" is not a circuit of this family; use one of ${[...slugs].join(", ")}`);
   }
   if (input.scheme !== "factory" && input.scheme !== "simple") throw fail("scheme", 'use "factory" or "simple"');
   if (!COLOUR_SYSTEM_IDS.includes(input.notation)) throw fail("notation", `use one of ${COLOUR_SYSTEM_IDS.join(", ")}`);
@@ -85,7 +103,10 @@ function buildPlan(input: PlannerInput): PlanResult {
   const fuseIds = new Set(kept.flatMap((c) => topo.circuits.get(c.slug)!.fuses));
   const contactIds = new Set(kept.flatMap((c) => topo.circuits.get(c.slug)!.contacts));
   const cur = worstCurrents(input.network, [...wires.map((w) => w.id), ...fuseIds, ...contactIds], without);
-  const full = fullLoomCurrents(input.network, input.wires.map((w) => w.id));
+  const full = fullLoomCurrents(
+    input.network,
+    input.wires.map((w) => w.id),
+  );
 
   // Lengths and roles.
   let assumed = 0;
@@ -98,14 +119,42 @@ function buildPlan(input: PlannerInput): PlanResult {
     let lengthM: number;
     let lengthSource: CutRow["lengthSource"];
     const notes: string[] = [];
-    if (lengths[w.id] !== undefined) { lengthM = lengths[w.id]!; lengthSource = "builder"; }
-    else if (typeof w.defaultLengthM === "number" && Number.isFinite(w.defaultLengthM) && w.defaultLengthM > 0) { lengthM = w.defaultLengthM; lengthSource = "family default"; }
-    else { lengthM = ASSUMED_RUN_M; lengthSource = "assumed"; assumed++; notes.push(`Length assumed ${ASSUMED_RUN_M} m: measure the run and enter it.`); }
-    if (role === "power" && currentA < NO_CURRENT_A) notes.push("Carries no current in any state the planner checks: check what it feeds before you leave it out or cut it thin.");
+    if (lengths[w.id] !== undefined) {
+      lengthM = lengths[w.id]!;
+      lengthSource = "builder";
+    } else if (typeof w.defaultLengthM === "number" && Number.isFinite(w.defaultLengthM) && w.defaultLengthM > 0) {
+      lengthM = w.defaultLengthM;
+      lengthSource = "family default";
+    } else {
+      lengthM = ASSUMED_RUN_M;
+      lengthSource = "assumed";
+      assumed++;
+      notes.push(`Length assumed ${ASSUMED_RUN_M} m: measure the run and enter it.`);
+    }
+    if (role === "power" && currentA < NO_CURRENT_A)
+      notes.push("Carries no current in any state the planner checks: check what it feeds before you leave it out or cut it thin.");
     return {
-      wire: w.id, from: w.from, to: w.to, net, colour: "", colours: [], lengthM, lengthSource, currentA, continuousA: c.continuous, peakA: Math.max(c.peak, currentA),
-      momentary: c.continuous < NO_CURRENT_A && c.momentary >= NO_CURRENT_A, role, circuits: rowCircuits.get(w.id)!, sizeMm2: 0, awg: null, dropV: 0, dropPct: 0,
-      decidedBy: "minimum", fittings: [parseFitting(w.fromFitting).words, parseFitting(w.toFitting).words], notes,
+      wire: w.id,
+      from: w.from,
+      to: w.to,
+      net,
+      colour: "",
+      colours: [],
+      lengthM,
+      lengthSource,
+      currentA,
+      continuousA: c.continuous,
+      peakA: Math.max(c.peak, currentA),
+      momentary: c.continuous < NO_CURRENT_A && c.momentary >= NO_CURRENT_A,
+      role,
+      circuits: rowCircuits.get(w.id)!,
+      sizeMm2: 0,
+      awg: null,
+      dropV: 0,
+      dropPct: 0,
+      decidedBy: "minimum",
+      fittings: [parseFitting(w.fromFitting).words, parseFitting(w.toFitting).words],
+      notes,
     };
   });
   const rowById = new Map(rows.map((r) => [r.wire, r]));
@@ -132,7 +181,9 @@ function buildPlan(input: PlannerInput): PlanResult {
   }
   for (const r of rows) {
     if (r.role === "signal") {
-      r.sizeMm2 = MIN_PRACTICAL_MM2; r.awg = smallestAwg(MIN_PRACTICAL_MM2); r.decidedBy = "minimum";
+      r.sizeMm2 = MIN_PRACTICAL_MM2;
+      r.awg = smallestAwg(MIN_PRACTICAL_MM2);
+      r.decidedBy = "minimum";
       r.notes.push(`Signal wire (no load current in any state): the ${MIN_PRACTICAL_MM2} mm² minimum for mechanical strength (common practice).`);
       continue;
     }
@@ -140,13 +191,17 @@ function buildPlan(input: PlannerInput): PlanResult {
     const amp = r.momentary ? r.currentA / SHORT_TERM_A_PER_MM2 : r.continuousA / AMPACITY_A_PER_MM2;
     const need = Math.max(drop, amp, MIN_PRACTICAL_MM2);
     const size = smallestMetric(need);
-    if (size === undefined) throw fail("keep", `wire ${r.wire} (${r.from} → ${r.to}) needs ${fmt(need)} mm², more than the largest size offered: split the load or shorten the run`);
+    if (size === undefined)
+      throw fail("keep", `wire ${r.wire} (${r.from} → ${r.to}) needs ${fmt(need)} mm², more than the largest size offered: split the load or shorten the run`);
     r.sizeMm2 = size;
     r.awg = smallestAwg(need);
     r.decidedBy = need === MIN_PRACTICAL_MM2 && drop < MIN_PRACTICAL_MM2 && amp < MIN_PRACTICAL_MM2 ? "minimum" : amp >= drop ? "ampacity" : "voltage-drop";
-    if (r.decidedBy === "ampacity") r.notes.push(r.momentary
-      ? `Carries ${fmt(r.currentA)} A only while a button is held: sized by the short-term ${SHORT_TERM_A_PER_MM2} A/mm² rule of thumb.`
-      : `Decided by the ampacity rule of thumb (${AMPACITY_A_PER_MM2} A/mm² continuous, German automotive practice), not a standard.`);
+    if (r.decidedBy === "ampacity")
+      r.notes.push(
+        r.momentary
+          ? `Carries ${fmt(r.currentA)} A only while a button is held: sized by the short-term ${SHORT_TERM_A_PER_MM2} A/mm² rule of thumb.`
+          : `Decided by the ampacity rule of thumb (${AMPACITY_A_PER_MM2} A/mm² continuous, German automotive practice), not a standard.`,
+      );
     if (r.decidedBy === "minimum") r.notes.push(`Raised to the ${MIN_PRACTICAL_MM2} mm² minimum for mechanical strength (common practice).`);
     const w = wireById.get(r.wire)!;
     const fullA = full.get(r.wire)!;
@@ -158,10 +213,13 @@ function buildPlan(input: PlannerInput): PlanResult {
         r.decidedBy = "factory";
         r.notes.push(`Kept at the factory's ${w.factorySizeMm2} mm²: it carries as much as it did in the full loom.`);
       } else {
-        r.notes.push(`Thinner than the factory's ${w.factorySizeMm2} mm²: with the dropped circuits gone it carries ${fmt(r.currentA)} A instead of ${fmt(Math.max(fullA.continuous, fullA.momentary))} A.`);
+        r.notes.push(
+          `Thinner than the factory's ${w.factorySizeMm2} mm²: with the dropped circuits gone it carries ${fmt(r.currentA)} A instead of ${fmt(Math.max(fullA.continuous, fullA.momentary))} A.`,
+        );
       }
     }
-    if (r.role === "power" && /stator|phase|alternator/i.test(`${r.from} ${r.to}`)) r.notes.push(`Stator lead: carries the alternator's output (AC) at rpm, ${fmt(r.currentA)} A (common practice).`);
+    if (r.role === "power" && /stator|phase|alternator/i.test(`${r.from} ${r.to}`))
+      r.notes.push(`Stator lead: carries the alternator's output (AC) at rpm, ${fmt(r.currentA)} A (common practice).`);
   }
   const setDrop = (r: CutRow) => {
     r.dropV = r.currentA > 0 ? r.currentA * strandedResistance(r.sizeMm2, r.lengthM, tempC) : 0;
@@ -176,7 +234,10 @@ function buildPlan(input: PlannerInput): PlanResult {
   const circuitDrops: CircuitDrop[] = kept.map((c) => {
     const t = topo.circuits.get(c.slug)!;
     const amps = circuitAmps.get(c.slug)!;
-    const dropV = [...t.supply, ...t.ret].reduce((s, id) => { const r = rowById.get(id); return s + (r ? amps(id) * strandedResistance(r.sizeMm2, r.lengthM, tempC) : 0); }, 0);
+    const dropV = [...t.supply, ...t.ret].reduce((s, id) => {
+      const r = rowById.get(id);
+      return s + (r ? amps(id) * strandedResistance(r.sizeMm2, r.lengthM, tempC) : 0);
+    }, 0);
     const b = budgets.get(c.slug)!;
     return { circuit: c.slug, name: c.name, dropV: round3(dropV), budgetV: round3((systemV * b.pct) / 100), budgetPct: b.pct, basis: b.basis };
   });
@@ -192,7 +253,10 @@ function buildPlan(input: PlannerInput): PlanResult {
   for (const r of rows) {
     for (const [i, f] of [wireById.get(r.wire)!.fromFitting, wireById.get(r.wire)!.toFitting].entries()) {
       const fit = parseFitting(f);
-      if (fit.ratingA !== null && r.continuousA > fit.ratingA) r.notes.push(`Its ${i === 0 ? "first" : "second"} end's ${fit.words} terminal is rated about ${fit.ratingA} A, less than the ${fmt(r.continuousA)} A it carries: use a larger terminal (${FITTING_SOURCE}).`);
+      if (fit.ratingA !== null && r.continuousA > fit.ratingA)
+        r.notes.push(
+          `Its ${i === 0 ? "first" : "second"} end's ${fit.words} terminal is rated about ${fit.ratingA} A, less than the ${fmt(r.continuousA)} A it carries: use a larger terminal (${FITTING_SOURCE}).`,
+        );
     }
   }
 
@@ -213,6 +277,7 @@ function buildPlan(input: PlannerInput): PlanResult {
     input.scheme === "factory" ? "Colours: the factory's." : `Colours: Loomlore's simple scheme: ${SIMPLE_SCHEME.join("; ")}.`,
   ];
   const ignored = Object.keys(lengths).filter((id) => !rowCircuits.has(id));
-  if (ignored.length > 0) assumptions.push(`Lengths entered for ${ignored.join(", ")} are unused: no kept circuit passes ${ignored.length === 1 ? "that wire" : "those wires"}.`);
+  if (ignored.length > 0)
+    assumptions.push(`Lengths entered for ${ignored.join(", ")} are unused: no kept circuit passes ${ignored.length === 1 ? "that wire" : "those wires"}.`);
   return { rows, fuses, circuitDrops, legend, parts, dropped, totals, assumptions, warnings };
 }

@@ -39,14 +39,30 @@ export function topology(input: PlannerInput): Topology {
   }
   // Nets: pins joined by wires and mated terminals (and so through splices), never through a switch, fuse or load.
   const parent = new Map<string, string>();
-  const find = (n: string): string => { let r = n; while (parent.has(r) && parent.get(r) !== r) r = parent.get(r)!; return r; };
-  const union = (a: string, b: string) => { for (const n of [a, b]) if (!parent.has(n)) parent.set(n, n); const ra = find(a), rb = find(b); if (ra !== rb) parent.set(ra, rb); };
+  const find = (n: string): string => {
+    let r = n;
+    while (parent.has(r) && parent.get(r) !== r) r = parent.get(r)!;
+    return r;
+  };
+  const union = (a: string, b: string) => {
+    for (const n of [a, b]) if (!parent.has(n)) parent.set(n, n);
+    const ra = find(a),
+      rb = find(b);
+    if (ra !== rb) parent.set(ra, rb);
+  };
   for (const e of input.network.elements) if (e.kind === "wire" || e.kind === "mate") union(e.a, e.b);
   const netOf = new Map<string, string>();
-  for (const w of input.wires) { const e = byId.get(w.id); if (e) netOf.set(w.id, find(e.a)); }
+  for (const w of input.wires) {
+    const e = byId.get(w.id);
+    if (e) netOf.set(w.id, find(e.a));
+  }
   const earthPost = input.network.earth === "positive" ? input.network.plus : input.network.minus;
   const earthNets = new Set([find(earthPost), ...(input.frameEarth ? [find(input.frameEarth)] : [])]);
   const senseNodes = new Set<string>();
-  for (const e of input.network.elements) if (e.kind === "sense" || (e.kind === "winding" && /pickup|pulser/i.test(`${e.label ?? ""}`))) { senseNodes.add(find(e.a)); senseNodes.add(find(e.b)); }
+  for (const e of input.network.elements)
+    if (e.kind === "sense" || (e.kind === "winding" && /pickup|pulser/i.test(`${e.label ?? ""}`))) {
+      senseNodes.add(find(e.a));
+      senseNodes.add(find(e.b));
+    }
   return { circuits, netOf, earthNets, senseNodes };
 }

@@ -97,9 +97,27 @@ export interface FuseRow {
   warnings: string[];
 }
 
-export interface CircuitDrop { circuit: string; name: string; dropV: number; budgetV: number; budgetPct: number; basis: string }
-export interface LegendRow { colour: string; colours: ColourName[]; nets: string[]; meaning: string }
-export interface PartRow { kind: "wire" | "fuse" | "terminal" | "splice"; item: string; quantity: number; unit: string; notes: string }
+export interface CircuitDrop {
+  circuit: string;
+  name: string;
+  dropV: number;
+  budgetV: number;
+  budgetPct: number;
+  basis: string;
+}
+export interface LegendRow {
+  colour: string;
+  colours: ColourName[];
+  nets: string[];
+  meaning: string;
+}
+export interface PartRow {
+  kind: "wire" | "fuse" | "terminal" | "splice";
+  item: string;
+  quantity: number;
+  unit: string;
+  notes: string;
+}
 
 /** The planned loom. */
 export interface PlanResult {

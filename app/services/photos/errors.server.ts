@@ -4,7 +4,13 @@ import { apiError, type ApiErrorCode } from "../http.server";
 
 /** An upload refused or failed in a way the client should hear about: status, API error code, message, field. */
 export class PhotoError extends Error {
-  constructor(readonly status: number, readonly code: ApiErrorCode, message: string, readonly field?: string, readonly headers?: Record<string, string>) {
+  constructor(
+    readonly status: number,
+    readonly code: ApiErrorCode,
+    message: string,
+    readonly field?: string,
+    readonly headers?: Record<string, string>,
+  ) {
     super(message);
     this.name = "PhotoError";
   }
@@ -26,5 +32,10 @@ export function diskFull(e: unknown): PhotoError {
   const id = randomBytes(4).toString("hex");
   const err = e as { code?: string; message?: string };
   console.error(`[photos] error ${id}: no space to store an upload (${err.code ?? "SQLITE_FULL"}: ${err.message ?? e})`);
-  return new PhotoError(507, "insufficient_storage", `The server has no room for photos right now, so nothing was saved. Please try again later (error id ${id}).`, "photo");
+  return new PhotoError(
+    507,
+    "insufficient_storage",
+    `The server has no room for photos right now, so nothing was saved. Please try again later (error id ${id}).`,
+    "photo",
+  );
 }

@@ -53,17 +53,32 @@ export async function checkLimits(userId: number, submissionId: number | null, c
     Photo.sum("bytes", { where: mine, transaction }).then((n) => Number(n ?? 0)),
   ]);
   if (have + count > PHOTO_LIMITS.perUserCount) {
-    throw new PhotoError(429, "rate_limited", `You can keep at most ${PHOTO_LIMITS.perUserCount} photos and have ${have}: remove some from your drafts first.`, "photo");
+    throw new PhotoError(
+      429,
+      "rate_limited",
+      `You can keep at most ${PHOTO_LIMITS.perUserCount} photos and have ${have}: remove some from your drafts first.`,
+      "photo",
+    );
   }
   if (used + bytes > PHOTO_LIMITS.perUserBytes) {
-    throw new PhotoError(413, "too_large", `Your photos may take at most ${mb(PHOTO_LIMITS.perUserBytes)} in all and already take ${mb(used)}: remove some from your drafts first.`, "photo");
+    throw new PhotoError(
+      413,
+      "too_large",
+      `Your photos may take at most ${mb(PHOTO_LIMITS.perUserBytes)} in all and already take ${mb(used)}: remove some from your drafts first.`,
+      "photo",
+    );
   }
   if (submissionId === null) return null;
   const submission = await Submission.findByPk(submissionId, { transaction });
   // Someone else's submission answers exactly like a missing one (QUALITY S2: no existence leak).
   if (!submission || submission.authorId !== userId) throw new PhotoError(404, "not_found", "There is no such submission of yours.", "submission");
   if (submission.state !== "draft" && submission.state !== "returned") {
-    throw new PhotoError(409, "conflict", "This submission is with the moderators or decided: photos can only be added to a draft or a returned submission.", "submission");
+    throw new PhotoError(
+      409,
+      "conflict",
+      "This submission is with the moderators or decided: photos can only be added to a draft or a returned submission.",
+      "submission",
+    );
   }
   const onIt = await Photo.count({ where: { submissionId, removedAt: null }, transaction });
   if (onIt + count > PHOTO_LIMITS.perSubmission) {

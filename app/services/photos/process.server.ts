@@ -41,8 +41,19 @@ async function withPipeline<T>(work: () => Promise<T>): Promise<T> {
   }
 }
 
-export interface Received { id: string; tmp: string; kind: AcceptedKind; originalName: string }
-export interface Processed extends Received { width: number; height: number; thumbWidth: number; thumbHeight: number; bytes: number }
+export interface Received {
+  id: string;
+  tmp: string;
+  kind: AcceptedKind;
+  originalName: string;
+}
+export interface Processed extends Received {
+  width: number;
+  height: number;
+  thumbWidth: number;
+  thumbHeight: number;
+  bytes: number;
+}
 
 /** Decode with the limits, re-encode as WebP (display + thumbnail), write both durably, rename them into place. */
 export async function processOne(u: Received, written: Set<string>): Promise<Processed> {
@@ -61,8 +72,11 @@ export async function processOne(u: Received, written: Set<string>): Promise<Pro
     try {
       // No withMetadata/keepExif: sharp's output drops EXIF (GPS, serial numbers), XMP, IPTC and ICC by default;
       // autoOrient first, or portrait photos would come out on their side.
-      display = await sharp(u.tmp, DECODE).autoOrient().resize({ width: PHOTO_LIMITS.displayEdge, height: PHOTO_LIMITS.displayEdge, ...edge })
-        .webp({ quality: 82 }).toBuffer({ resolveWithObject: true });
+      display = await sharp(u.tmp, DECODE)
+        .autoOrient()
+        .resize({ width: PHOTO_LIMITS.displayEdge, height: PHOTO_LIMITS.displayEdge, ...edge })
+        .webp({ quality: 82 })
+        .toBuffer({ resolveWithObject: true });
     } catch (e) {
       throw unreadable(e);
     }
@@ -73,9 +87,13 @@ export async function processOne(u: Received, written: Set<string>): Promise<Pro
     written.add(displayPart);
     await writeDurable(displayPart, display.data);
     crashAt("mid-sharp");
-    const thumb = await sharp(display.data, DECODE).resize({ width: PHOTO_LIMITS.thumbEdge, height: PHOTO_LIMITS.thumbEdge, ...edge })
-      .webp({ quality: 75 }).toBuffer({ resolveWithObject: true })
-      .catch((e: unknown) => { throw unreadable(e); });
+    const thumb = await sharp(display.data, DECODE)
+      .resize({ width: PHOTO_LIMITS.thumbEdge, height: PHOTO_LIMITS.thumbEdge, ...edge })
+      .webp({ quality: 75 })
+      .toBuffer({ resolveWithObject: true })
+      .catch((e: unknown) => {
+        throw unreadable(e);
+      });
     written.add(thumbPart);
     await writeDurable(thumbPart, thumb.data);
     written.add(displayFinal).add(thumbFinal);
@@ -87,12 +105,24 @@ export async function processOne(u: Received, written: Set<string>): Promise<Pro
     crashAt("after-rename");
     await rm(u.tmp, { force: true });
     written.delete(u.tmp);
-    return { ...u, width: display.info.width, height: display.info.height, thumbWidth: thumb.info.width, thumbHeight: thumb.info.height, bytes: display.data.length + thumb.data.length };
+    return {
+      ...u,
+      width: display.info.width,
+      height: display.info.height,
+      thumbWidth: thumb.info.width,
+      thumbHeight: thumb.info.height,
+      bytes: display.data.length + thumb.data.length,
+    };
   });
 }
 
-const pixelFlood = () => new PhotoError(422, "unprocessable",
-  `The image is too large to process: at most ${PHOTO_LIMITS.maxPixels / 1_000_000} megapixels. Resize it and try again.`, "photo");
+const pixelFlood = () =>
+  new PhotoError(
+    422,
+    "unprocessable",
+    `The image is too large to process: at most ${PHOTO_LIMITS.maxPixels / 1_000_000} megapixels. Resize it and try again.`,
+    "photo",
+  );
 
 function unreadable(e: unknown): PhotoError {
   if (e instanceof PhotoError) return e;

@@ -37,41 +37,46 @@ function countedBody(source: ReadableStream<Uint8Array>, counts: { read: number;
   const halfway = declared && declared > 0 ? declared / 2 : 1;
   // Text fields are buffered by the parser: keep what is not a file to one file's worth plus the text allowance.
   const nonFileCap = PHOTO_LIMITS.maxBytes + PHOTO_LIMITS.textBytes + 192 * KiB;
-  const stream = new ReadableStream<Uint8Array>({
-    async pull(controller) {
-      const { done, value } = await reader.read();
-      if (done) {
-        controller.close();
-        return;
-      }
-      counts.read += value.byteLength;
-      if (counts.read > MAX_BODY_BYTES) {
-        controller.error(tooLarge());
-        reader.cancel().catch(() => {});
-        return;
-      }
-      if (declared !== null && counts.read > declared) {
-        controller.error(new PhotoError(400, "bad_request", "The body is longer than its Content-Length."));
-        reader.cancel().catch(() => {});
-        return;
-      }
-      if (counts.read - counts.fileBytes > nonFileCap) {
-        controller.error(new PhotoError(413, "too_large", `The form's text may be at most ${PHOTO_LIMITS.textBytes / KiB} KiB.`));
-        reader.cancel().catch(() => {});
-        return;
-      }
-      if (counts.read >= halfway) crashAt("mid-body");
-      controller.enqueue(value);
+  const stream = new ReadableStream<Uint8Array>(
+    {
+      async pull(controller) {
+        const { done, value } = await reader.read();
+        if (done) {
+          controller.close();
+          return;
+        }
+        counts.read += value.byteLength;
+        if (counts.read > MAX_BODY_BYTES) {
+          controller.error(tooLarge());
+          reader.cancel().catch(() => {});
+          return;
+        }
+        if (declared !== null && counts.read > declared) {
+          controller.error(new PhotoError(400, "bad_request", "The body is longer than its Content-Length."));
+          reader.cancel().catch(() => {});
+          return;
+        }
+        if (counts.read - counts.fileBytes > nonFileCap) {
+          controller.error(new PhotoError(413, "too_large", `The form's text may be at most ${PHOTO_LIMITS.textBytes / KiB} KiB.`));
+          reader.cancel().catch(() => {});
+          return;
+        }
+        if (counts.read >= halfway) crashAt("mid-body");
+        controller.enqueue(value);
+      },
+      cancel(reason) {
+        return reader.cancel(reason);
+      },
     },
-    cancel(reason) {
-      return reader.cancel(reason);
-    },
-  }, { highWaterMark: 0 });
+    { highWaterMark: 0 },
+  );
   return { stream, cancel: () => reader.cancel().catch(() => {}) };
 }
 
-const tooLarge = () => new PhotoError(413, "too_large",
-  `An upload may carry at most ${PHOTO_LIMITS.perRequest} photos of ${mb(PHOTO_LIMITS.maxBytes)} each.`, "photo", { Connection: "close" });
+const tooLarge = () =>
+  new PhotoError(413, "too_large", `An upload may carry at most ${PHOTO_LIMITS.perRequest} photos of ${mb(PHOTO_LIMITS.maxBytes)} each.`, "photo", {
+    Connection: "close",
+  });
 
 /** Remove control and bidi-override characters, cut to `max` characters: safe to keep as text, never used as a path. */
 function cleanName(name: string, max = 200): string {
@@ -82,8 +87,11 @@ function cleanName(name: string, max = 200): string {
 
 // The same normalisation the submission editor applies (app/validation/submissions.ts): one line, no control chars.
 function cleanLine(value: string, max: number, field: string): string {
-  // eslint-disable-next-line no-control-regex -- control characters are what this checks for
-  const s = value.replace(/[\u0000-\u0008\u000b\u000c\u000e-\u001f\u007f]/g, "").replace(/[\t\r\n]+/g, " ").trim();
+  const s = value
+    // eslint-disable-next-line no-control-regex -- control characters are what this checks for
+    .replace(/[\u0000-\u0008\u000b\u000c\u000e-\u001f\u007f]/g, "")
+    .replace(/[\t\r\n]+/g, " ")
+    .trim();
   if (s.length > max) throw new PhotoError(400, "bad_request", `The ${field} may be at most ${max} characters.`, field);
   return s;
 }
@@ -98,8 +106,10 @@ class HandlerFailure extends Error {
 function parseFailure(e: unknown): unknown {
   if (e instanceof PhotoError) return e;
   if (e instanceof HandlerFailure) return isDiskFull(e.original) ? diskFull(e.original) : e.original;
-  if (e instanceof MaxFileSizeExceededError) return new PhotoError(413, "too_large", `Each photo may be at most ${mb(PHOTO_LIMITS.maxBytes)}.`, "photo", { Connection: "close" });
-  if (e instanceof MaxFilesExceededError) return new PhotoError(413, "too_large", `Send at most ${PHOTO_LIMITS.perRequest} photos at a time.`, "photo", { Connection: "close" });
+  if (e instanceof MaxFileSizeExceededError)
+    return new PhotoError(413, "too_large", `Each photo may be at most ${mb(PHOTO_LIMITS.maxBytes)}.`, "photo", { Connection: "close" });
+  if (e instanceof MaxFilesExceededError)
+    return new PhotoError(413, "too_large", `Send at most ${PHOTO_LIMITS.perRequest} photos at a time.`, "photo", { Connection: "close" });
   if (e instanceof MaxHeaderSizeExceededError) return new PhotoError(400, "bad_request", "A part of the form has headers longer than 8 KiB.");
   if (isDiskFull(e)) return diskFull(e);
   // MultipartParseError, FormDataParseError, a TypeError from undecodable UTF-8 in a part, a body the client broke off:
@@ -112,9 +122,13 @@ function parseFailure(e: unknown): unknown {
  * validate, process and store every file, or none. Returns the stored photos and the form's other text fields.
  * Throws PhotoError for everything the client should hear about.
  */
-export async function receivePhotos(request: Request, user: { id: number; role: string }, opts: { submissionId?: number } = {}):
-  Promise<{ photos: StoredPhoto[]; fields: Record<string, string> }> {
-  if (!can(user.role as Role, "submission.create")) throw new PhotoError(403, "forbidden", "Confirm your e-mail address first: contributing needs a verified address.");
+export async function receivePhotos(
+  request: Request,
+  user: { id: number; role: string },
+  opts: { submissionId?: number } = {},
+): Promise<{ photos: StoredPhoto[]; fields: Record<string, string> }> {
+  if (!can(user.role as Role, "submission.create"))
+    throw new PhotoError(403, "forbidden", "Confirm your e-mail address first: contributing needs a verified address.");
   const type = request.headers.get("Content-Type") ?? "";
   const boundary = /^multipart\/form-data\s*;/i.test(type) ? /;\s*boundary=(?:"([^"]+)"|([^;\s]+))/i.exec(type) : null;
   const b = boundary ? (boundary[1] ?? boundary[2]) : null;
@@ -126,8 +140,9 @@ export async function receivePhotos(request: Request, user: { id: number; role: 
   if (!request.body) throw new PhotoError(400, "bad_request", "The upload is empty: choose at least one photo.", "photo");
   const limited = await takeUpload(user.id, PHOTO_LIMITS.perMinute);
   if (!limited.ok) {
-    throw new PhotoError(429, "rate_limited", `At most ${PHOTO_LIMITS.perMinute} uploads a minute: wait ${limited.retryAfterS} s and try again.`, undefined,
-      { "Retry-After": String(limited.retryAfterS) });
+    throw new PhotoError(429, "rate_limited", `At most ${PHOTO_LIMITS.perMinute} uploads a minute: wait ${limited.retryAfterS} s and try again.`, undefined, {
+      "Retry-After": String(limited.retryAfterS),
+    });
   }
   await ensureDirs();
 
@@ -214,9 +229,23 @@ export async function receivePhotos(request: Request, user: { id: number; role: 
       const submission = await checkLimits(user.id, submissionId, processed.length, total, transaction);
       const start = submission ? await Photo.count({ where: { submissionId: submission.id }, transaction }) : 0;
       const created = processed.map((p, i) => ({
-        id: p.id, ownerId: user.id, submissionId: submission?.id ?? null, connectorId: null, position: start + i, caption, credit,
-        licence: PHOTO_LICENCE, consentAt: now, originalName: p.originalName, width: p.width, height: p.height,
-        thumbWidth: p.thumbWidth, thumbHeight: p.thumbHeight, bytes: p.bytes, createdAt: now, removedAt: null,
+        id: p.id,
+        ownerId: user.id,
+        submissionId: submission?.id ?? null,
+        connectorId: null,
+        position: start + i,
+        caption,
+        credit,
+        licence: PHOTO_LICENCE,
+        consentAt: now,
+        originalName: p.originalName,
+        width: p.width,
+        height: p.height,
+        thumbWidth: p.thumbWidth,
+        thumbHeight: p.thumbHeight,
+        bytes: p.bytes,
+        createdAt: now,
+        removedAt: null,
       }));
       await Photo.bulkCreate(created, { transaction });
       crashAt("mid-insert");
@@ -233,8 +262,17 @@ export async function receivePhotos(request: Request, user: { id: number; role: 
     });
     return {
       photos: rows.map((r) => ({
-        id: r.id, ...photoUrls(r.id), width: r.width, height: r.height, thumbWidth: r.thumbWidth, thumbHeight: r.thumbHeight, bytes: r.bytes,
-        caption: r.caption, credit: r.credit, originalName: r.originalName, submissionId: r.submissionId,
+        id: r.id,
+        ...photoUrls(r.id),
+        width: r.width,
+        height: r.height,
+        thumbWidth: r.thumbWidth,
+        thumbHeight: r.thumbHeight,
+        bytes: r.bytes,
+        caption: r.caption,
+        credit: r.credit,
+        originalName: r.originalName,
+        submissionId: r.submissionId,
       })),
       fields,
     };
@@ -243,7 +281,9 @@ export async function receivePhotos(request: Request, user: { id: number; role: 
     if (e instanceof PhotoError) throw e;
     if (isDiskFull(e)) throw diskFull(e);
     if (/SQLITE_BUSY/.test(String((e as Error)?.message))) {
-      throw new PhotoError(503, "unavailable", "The library is busy right now, so nothing was saved: please try again in a moment.", undefined, { "Retry-After": "2" });
+      throw new PhotoError(503, "unavailable", "The library is busy right now, so nothing was saved: please try again in a moment.", undefined, {
+        "Retry-After": "2",
+      });
     }
     throw e;
   } finally {

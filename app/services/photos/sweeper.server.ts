@@ -7,7 +7,13 @@ import { ensureDirs, inFlight, PHOTO_FILE, PHOTOS_DIR, TMP_DIR, TMP_FILE } from 
 
 const HOUR = 3600_000;
 
-export interface SweepResult { tmpRemoved: number; partsRemoved: number; orphansRemoved: number; removedSwept: number; kept: number }
+export interface SweepResult {
+  tmpRemoved: number;
+  partsRemoved: number;
+  orphansRemoved: number;
+  removedSwept: number;
+  kept: number;
+}
 
 async function existingIds(ids: string[]): Promise<Set<string>> {
   const found = new Set<string>();
@@ -22,7 +28,16 @@ async function existingIds(ids: string[]): Promise<Set<string>> {
 async function agesOf(files: string[], now: number): Promise<(number | null)[]> {
   const ages: (number | null)[] = [];
   for (let i = 0; i < files.length; i += 64) {
-    ages.push(...await Promise.all(files.slice(i, i + 64).map((f) => lstat(f).then((st) => now - st.mtimeMs, () => null))));
+    ages.push(
+      ...(await Promise.all(
+        files.slice(i, i + 64).map((f) =>
+          lstat(f).then(
+            (st) => now - st.mtimeMs,
+            () => null,
+          ),
+        ),
+      )),
+    );
   }
   return ages;
 }
@@ -46,7 +61,10 @@ export async function sweepPhotos(opts: { now?: Date; tmpAgeMs?: number; orphanA
     if (id && inFlight.has(id)) result.kept++;
     else tmp.push({ file: path.join(TMP_DIR, name), id });
   }
-  const tmpAges = await agesOf(tmp.map((t) => t.file), now);
+  const tmpAges = await agesOf(
+    tmp.map((t) => t.file),
+    now,
+  );
   for (const [i, t] of tmp.entries()) {
     if (tmpAges[i] === null || tmpAges[i]! < tmpAge || (t.id && inFlight.has(t.id))) {
       result.kept++;
@@ -66,7 +84,10 @@ export async function sweepPhotos(opts: { now?: Date; tmpAgeMs?: number; orphanA
     }
     return [{ file: path.join(PHOTOS_DIR, name), id: m[1], part: !!m[3] }];
   });
-  const photoAges = await agesOf(listed.map((c) => c.file), now);
+  const photoAges = await agesOf(
+    listed.map((c) => c.file),
+    now,
+  );
   const candidates = listed.filter((c, i) => {
     const old = photoAges[i] !== null && photoAges[i]! >= (c.part ? tmpAge : orphanAge);
     if (!old) result.kept++;

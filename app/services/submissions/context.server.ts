@@ -30,7 +30,7 @@ export async function familyContext(familyId: number | null, familyRequest: Fami
 
 export function proposalOf(s: Submission): CardProposal {
   const parsed = proposalSchema.safeParse(s.content);
-  return parsed.success ? parsed.data : { ...blankProposal(), ...(s.content as object) } as CardProposal;
+  return parsed.success ? parsed.data : ({ ...blankProposal(), ...(s.content as object) } as CardProposal);
 }
 
 export function snapshotToProposal(snap: ConnectorSnapshot): CardProposal {
@@ -43,15 +43,20 @@ export function snapshotToProposal(snap: ConnectorSnapshot): CardProposal {
  * the conditions of every spec it adds or changes against the published card (`before`, read here when not given).
  */
 export async function submissionProblems(
-  s: Submission, transaction?: Transaction, known?: Awaited<ReturnType<typeof familyContext>>, before?: CardProposal | null,
+  s: Submission,
+  transaction?: Transaction,
+  known?: Awaited<ReturnType<typeof familyContext>>,
+  before?: CardProposal | null,
 ): Promise<Problem[]> {
-  const ctx = known ?? await familyContext(s.familyId, (s.familyRequest as FamilyRequest | null) ?? null, transaction);
+  const ctx = known ?? (await familyContext(s.familyId, (s.familyRequest as FamilyRequest | null) ?? null, transaction));
   const parsed = proposalSchema.safeParse(s.content);
   if (!parsed.success) return parsed.error.issues.map((i) => ({ field: i.path.map(String).join("."), message: i.message }));
   const cards = new Map(ctx.cards.map((c) => [c.slug, c.cavities]));
-  const published = before !== undefined ? before
-    : s.kind === "edit" && s.connectorId ? snapshotToProposal(await connectorSnapshot(s.connectorId, transaction)) : null;
+  const published =
+    before !== undefined ? before : s.kind === "edit" && s.connectorId ? snapshotToProposal(await connectorSnapshot(s.connectorId, transaction)) : null;
   return proposalProblems(parsed.data, ctx.colourSystem, cards, {
-    requireSource: { kind: s.sourceKind, detail: s.sourceDetail }, specsBefore: published?.specs ?? [], houseStyle: ctx.houseStyle,
+    requireSource: { kind: s.sourceKind, detail: s.sourceDetail },
+    specsBefore: published?.specs ?? [],
+    houseStyle: ctx.houseStyle,
   });
 }

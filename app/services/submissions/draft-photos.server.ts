@@ -11,7 +11,12 @@ import { SubmissionError } from "./errors.server";
  * would be served publicly on approval, under this submission's credit. Checked wherever a proposal's photos are set
  * (start, every edit) and again when it is published, inside the publishing transaction.
  */
-export async function checkPhotos(s: Pick<Submission, "id" | "authorId" | "connectorId">, content: CardProposal, transaction: Transaction, status: 400 | 409 = 400) {
+export async function checkPhotos(
+  s: Pick<Submission, "id" | "authorId" | "connectorId">,
+  content: CardProposal,
+  transaction: Transaction,
+  status: 400 | 409 = 400,
+) {
   if (!content.photos.length) return;
   const rows = await Photo.findAll({ where: { id: content.photos.map((p) => p.id), removedAt: null }, transaction });
   for (const [i, p] of content.photos.entries()) {
@@ -19,7 +24,12 @@ export async function checkPhotos(s: Pick<Submission, "id" | "authorId" | "conne
     const onThisCard = !!row && s.connectorId !== null && row.connectorId === s.connectorId;
     const ownUnpublished = !!row && row.ownerId === s.authorId && row.connectorId === null && (row.submissionId === s.id || row.submissionId === null);
     if (!onThisCard && !ownUnpublished) {
-      throw new SubmissionError(status, status === 400 ? "bad_request" : "conflict", `Photo ${i + 1} is not one of yours (unpublished) or of this card.`, `photos.${i}`);
+      throw new SubmissionError(
+        status,
+        status === 400 ? "bad_request" : "conflict",
+        `Photo ${i + 1} is not one of yours (unpublished) or of this card.`,
+        `photos.${i}`,
+      );
     }
   }
 }

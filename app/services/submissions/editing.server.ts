@@ -4,9 +4,7 @@ import { UniqueConstraintError, type Transaction } from "sequelize";
 import { Connector, Family, Make, Submission, SubmissionMessage } from "~db/models/index.ts";
 import { connectorSnapshot } from "~db/snapshot.ts";
 import { can } from "~/domain/roles";
-import {
-  authorCanEdit, blankProposal, nextState, STATE_LABELS, type CardProposal, type SubmissionEvent, type SubmissionState,
-} from "~/domain/submissions";
+import { authorCanEdit, blankProposal, nextState, STATE_LABELS, type CardProposal, type SubmissionEvent, type SubmissionState } from "~/domain/submissions";
 import { familyRequestSchema, type FamilyRequest } from "~/validation/submissions";
 import { audit, sequelize } from "../auth.server";
 import { snapshotToProposal, submissionProblems } from "./context.server";
@@ -30,7 +28,8 @@ export interface StartInput {
  * with a request for a new family. The same idempotency key from the same author returns the first draft (D12).
  */
 export async function startSubmission(actor: Actor, input: StartInput): Promise<{ id: number; created: boolean }> {
-  if (!can(actor.role, "submission.create")) throw new SubmissionError(403, "forbidden", "Confirm your e-mail address first: contributing needs a verified address.");
+  if (!can(actor.role, "submission.create"))
+    throw new SubmissionError(403, "forbidden", "Confirm your e-mail address first: contributing needs a verified address.");
   if (input.idempotencyKey) {
     const existing = await Submission.findOne({ where: { authorId: actor.id, idempotencyKey: input.idempotencyKey } });
     if (existing) return { id: existing.id, created: false };
@@ -64,11 +63,24 @@ export async function startSubmission(actor: Actor, input: StartInput): Promise<
         throw new SubmissionError(400, "bad_request", "Say which card to edit, or which family a new card belongs to.");
       }
       const now = new Date();
-      const s = await Submission.create({
-        authorId: actor.id, kind, familyId, connectorId, familyRequest, baseRevision, content,
-        sourceKind: input.sourceKind ?? "", sourceDetail: input.sourceDetail ?? "", summary: input.summary ?? "",
-        idempotencyKey: input.idempotencyKey ?? null, createdAt: now, updatedAt: now,
-      }, { transaction });
+      const s = await Submission.create(
+        {
+          authorId: actor.id,
+          kind,
+          familyId,
+          connectorId,
+          familyRequest,
+          baseRevision,
+          content,
+          sourceKind: input.sourceKind ?? "",
+          sourceDetail: input.sourceDetail ?? "",
+          summary: input.summary ?? "",
+          idempotencyKey: input.idempotencyKey ?? null,
+          createdAt: now,
+          updatedAt: now,
+        },
+        { transaction },
+      );
       await checkPhotos(s, content, transaction);
       await audit(actor.id, "submission.start", "submission", s.id, { kind, connector: input.connector ?? null, family: input.family ?? null }, transaction);
       if (input.submit) await transition(actor, s, "submit", {}, transaction);
@@ -110,12 +122,23 @@ export async function updateSubmission(actor: Actor, id: number, input: UpdateIn
     if (!s || s.authorId !== actor.id) throw notFound();
     if (s.version !== input.version) throw stale(s);
     if (!authorCanEdit(s.state as SubmissionState)) {
-      throw new SubmissionError(409, "conflict", `This submission is ${STATE_LABELS[s.state as SubmissionState] ?? s.state} and can no longer be changed.`, undefined, [], { state: s.state, version: s.version });
+      throw new SubmissionError(
+        409,
+        "conflict",
+        `This submission is ${STATE_LABELS[s.state as SubmissionState] ?? s.state} and can no longer be changed.`,
+        undefined,
+        [],
+        { state: s.state, version: s.version },
+      );
     }
     const changes: Partial<Submission> = {};
     if (input.content) {
       await checkPhotos(s, input.content, transaction);
-      released = await releaseDroppedPhotos(s.id, input.content.photos.map((p) => p.id), transaction);
+      released = await releaseDroppedPhotos(
+        s.id,
+        input.content.photos.map((p) => p.id),
+        transaction,
+      );
       changes.content = input.content;
     }
     if (input.sourceKind !== undefined) changes.sourceKind = input.sourceKind;
@@ -140,13 +163,29 @@ export async function writeSubmission(s: Submission, changes: Partial<Submission
 /** The author's transition to review (first time or after a question). */
 async function transition(actor: Actor, s: Submission, event: SubmissionEvent, opts: { answer?: string }, transaction: Transaction) {
   const to = nextState(s.state as SubmissionState, event);
-  if (!to) throw new SubmissionError(409, "conflict", `A submission that is ${STATE_LABELS[s.state as SubmissionState]} cannot be sent for review.`, undefined, [], { state: s.state, version: s.version });
+  if (!to)
+    throw new SubmissionError(409, "conflict", `A submission that is ${STATE_LABELS[s.state as SubmissionState]} cannot be sent for review.`, undefined, [], {
+      state: s.state,
+      version: s.version,
+    });
   const problems = await submissionProblems(s, transaction);
-  if (problems.length) throw new SubmissionError(400, "bad_request", `Fix ${problems.length === 1 ? "this" : `these ${problems.length} things`} before sending it for review: ${problems[0].message}`, problems[0].field, problems);
+  if (problems.length)
+    throw new SubmissionError(
+      400,
+      "bad_request",
+      `Fix ${problems.length === 1 ? "this" : `these ${problems.length} things`} before sending it for review: ${problems[0].message}`,
+      problems[0].field,
+      problems,
+    );
   const returned = s.state === "returned";
-  if (returned && !(opts.answer ?? "").trim()) throw new SubmissionError(400, "bad_request", "Answer the moderator's question before sending it back.", "answer");
+  if (returned && !(opts.answer ?? "").trim())
+    throw new SubmissionError(400, "bad_request", "Answer the moderator's question before sending it back.", "answer");
   await writeSubmission(s, { state: to, submittedAt: s.submittedAt ?? new Date(), updatedAt: new Date() }, transaction);
-  if (returned) await SubmissionMessage.create({ submissionId: s.id, authorId: actor.id, kind: "answer", text: opts.answer!.trim(), createdAt: new Date() }, { transaction });
+  if (returned)
+    await SubmissionMessage.create(
+      { submissionId: s.id, authorId: actor.id, kind: "answer", text: opts.answer!.trim(), createdAt: new Date() },
+      { transaction },
+    );
   await audit(actor.id, returned ? "submission.resubmit" : "submission.submit", "submission", s.id, { version: s.version }, transaction);
 }
 

@@ -5,7 +5,11 @@ import type { Problem } from "~/domain/submissions";
 import type { ApiErrorCode } from "../http.server";
 import { apiError } from "../http.server";
 
-export interface Actor { id: number; role: Role; displayName?: string }
+export interface Actor {
+  id: number;
+  role: Role;
+  displayName?: string;
+}
 
 /** A refusal with its HTTP status; `problems` lists what keeps a proposal from review or publication. */
 export class SubmissionError extends Error {
@@ -25,8 +29,23 @@ export class SubmissionError extends Error {
 export function submissionErrorResponse(e: SubmissionError): Response {
   const base = apiError(e.status, e.code, e.message, e.field);
   if (!e.problems.length && !e.current) return base;
-  return Response.json({ error: { code: e.code, message: e.message, ...(e.field ? { field: e.field } : {}), ...(e.problems.length ? { problems: e.problems } : {}), ...(e.current ? { current: e.current } : {}) } }, { status: e.status });
+  return Response.json(
+    {
+      error: {
+        code: e.code,
+        message: e.message,
+        ...(e.field ? { field: e.field } : {}),
+        ...(e.problems.length ? { problems: e.problems } : {}),
+        ...(e.current ? { current: e.current } : {}),
+      },
+    },
+    { status: e.status },
+  );
 }
 
 export const notFound = () => new SubmissionError(404, "not_found", "There is no such submission.");
-export const stale = (s: Submission) => new SubmissionError(409, "conflict", "This submission changed since you opened it; reload to see its current state.", "version", [], { state: s.state, version: s.version });
+export const stale = (s: Submission) =>
+  new SubmissionError(409, "conflict", "This submission changed since you opened it; reload to see its current state.", "version", [], {
+    state: s.state,
+    version: s.version,
+  });

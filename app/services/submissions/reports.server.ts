@@ -13,8 +13,14 @@ export async function viewReport(viewer: Actor | null, id: number) {
   const reporter = await User.findByPk(r.userId);
   const checks = await BikeCheck.findAll({ where: { connectorId: r.connectorId } });
   return {
-    id: r.id, text: r.text, revision: r.revision, status: r.status, resolution: r.resolution, createdAt: r.createdAt.toISOString(),
-    connector: { slug: c!.slug, name: c!.name, revision: c!.revision }, family: { slug: c!.family!.slug, name: c!.family!.name },
+    id: r.id,
+    text: r.text,
+    revision: r.revision,
+    status: r.status,
+    resolution: r.resolution,
+    createdAt: r.createdAt.toISOString(),
+    connector: { slug: c!.slug, name: c!.name, revision: c!.revision },
+    family: { slug: c!.family!.slug, name: c!.family!.name },
     reporter: reporter?.displayName ?? "—",
     bikeChecked: { count: checks.length, years: [...new Set(checks.map((x) => x.year).filter((y): y is number => y !== null))].sort() },
   };
@@ -25,7 +31,10 @@ export async function closeReport(actor: Actor, id: number, status: "resolved" |
   if (!can(actor.role, "review.work")) throw new SubmissionError(403, "forbidden", "This needs the moderator role.");
   if (!note.trim()) throw new SubmissionError(400, "bad_request", "Say what was done about the report.", "message");
   await sequelize.transaction(async (transaction) => {
-    const [n] = await MistakeReport.update({ status, resolution: note.trim(), resolvedBy: actor.id, resolvedAt: new Date() }, { where: { id, status: "open" }, transaction });
+    const [n] = await MistakeReport.update(
+      { status, resolution: note.trim(), resolvedBy: actor.id, resolvedAt: new Date() },
+      { where: { id, status: "open" }, transaction },
+    );
     if (n !== 1) {
       const r = await MistakeReport.findByPk(id, { transaction });
       if (!r) throw new SubmissionError(404, "not_found", "There is no such report.");
